@@ -1,0 +1,87 @@
+import type { Request, Response, NextFunction, RequestHandler } from 'express';
+import type { z } from 'zod';
+import type { Role } from '../shared/constants';
+import type { Actor } from './services/auth/actor';
+import { hasRole } from './services/auth/actor';
+import { AppError, forbidden, notSignedIn } from './errors';
+import { zodIssues } from './middleware/errors';
+
+/**
+ * Who may call an endpoint. Every endpoint must say it (deny by default):
+ * 'public' (anyone), 'signed-in' (any role), or the list of roles allowed.
+ */
+export type Access = 'public' | 'signed-in' | readonly Role[];
+
+export interface EndpointContext<B, Q, P> {
+  actor: Actor;
+  body: B;
+  query: Q;
+  params: P;
+  req: Request;
+  res: Response;
+}
+
+type Schema = z.ZodTypeAny;
+type Out<S> = S extends z.ZodTypeAny ? z.output<S> : undefined;
+
+interface EndpointOptions<BS, QS, PS> {
+  access: Access;
+  body?: BS;
+  query?: QS;
+  params?: PS;
+  /** Status on success (default 200). */
+  status?: number;
+}
+
+function parsePart<S extends Schema>(schema: S | undefined, value: unknown, where: string): z.output<S> | undefined {
+  if (!schema) return undefined;
+  const result = schema.safeParse(value ?? {});
+  if (!result.success) {
+    const details = zodIssues(result.error, where === 'body' ? '' : `${where}.`);
+    const first = details[0];
+    const msg = first ? `${first.field ? `${first.field} ` : ''}${first.message}` : 'Invalid input.';
+    throw new AppError('VALIDATION_FAILED', `Check the ${where}: ${msg}`, 400, details);
+  }
+  return result.data;
+}
+
+export function checkAccess(access: Access, actor: Actor | undefined): void {
+  if (access === 'public') return;
+  if (!actor) throw notSignedIn();
+  if (access === 'signed-in') return;
+  if (!hasRole(actor, ...access)) throw forbidden(`This needs one of the roles: ${access.join(', ')}.`);
+}
+
+/**
+ * Route handler: check access, parse body/query/params with zod, call the handler,
+ * send its result as JSON. Handlers that stream or send files return `undefined`
+ * after writing the response themselves.
+ */
+export function endpoint<BS extends Schema | undefined = undefined, QS extends Schema | undefined = undefined, PS extends Schema | undefined = undefined>(
+  options: EndpointOptions<BS, QS, PS>,
+  handler: (ctx: EndpointContext<Out<BS>, Out<QS>, Out<PS>>) => Promise<unknown> | unknown,
+): RequestHandler {
+  return async (req: Request, res: Response, next: NextFunction) => {
+    try {
+      checkAccess(options.access, req.actor);
+      const params = parsePart(options.params as Schema | undefined, req.params, 'params');
+      const query = parsePart(options.query as Schema | undefined, req.query, 'query');
+      const body = parsePart(options.body as Schema | undefined, req.body, 'body');
+      const result = await handler({
+        actor: req.actor as Actor,
+        body: body as Out<BS>,
+        query: query as Out<QS>,
+        params: params as Out<PS>,
+        req,
+        res,
+      });
+      if (result === undefined) {
+        if (!res.headersSent) res.status(options.status ?? 204).end();
+        return;
+      }
+      res.status(options.status ?? 200).json(result);
+    } catch (err) {
+      next(err);
+    }
+  };
+}

@@ -1,0 +1,38 @@
+import type { Server } from 'node:http';
+import { createApp } from './app';
+import { config } from './config';
+import { closeDb } from './db/client';
+
+/** Starts the HTTP server (API and built client) on 127.0.0.1:PORT. */
+export async function startServer(options: { serveClient?: boolean; port?: number } = {}): Promise<Server> {
+  const app = createApp({ serveClient: options.serveClient ?? true });
+  const port = options.port ?? config.port;
+  return new Promise((resolve, reject) => {
+    const server = app.listen(port, config.host, () => resolve(server));
+    server.on('error', reject);
+  });
+}
+
+async function main() {
+  const server = await startServer({ serveClient: process.env.TACKLOG_SERVE_CLIENT !== '0' });
+  const addr = server.address();
+  const port = typeof addr === 'object' && addr ? addr.port : config.port;
+  console.log(`[server] Tacklog listening on http://${config.host}:${port}`);
+  const stop = (signal: string) => {
+    console.log(`[server] ${signal}: stopping`);
+    server.close(() => {
+      closeDb().finally(() => process.exit(0));
+    });
+    setTimeout(() => process.exit(0), 5000).unref();
+  };
+  process.on('SIGINT', () => stop('SIGINT'));
+  process.on('SIGTERM', () => stop('SIGTERM'));
+}
+
+const isMain = import.meta.url === `file://${process.argv[1]}` || process.argv[1]?.endsWith('server/index.ts');
+if (isMain) {
+  main().catch((err) => {
+    console.error('[server] failed to start:', err);
+    process.exit(1);
+  });
+}
