@@ -1,0 +1,96 @@
+import { z } from 'zod';
+import { BATCH_STATUSES, DRIVER_STATUSES } from '../constants';
+import { idSchema, instantSchema, paginationQuerySchema } from './common';
+import { stepRunSchema } from './steps';
+
+export const batchStatusSchema = z.enum(BATCH_STATUSES);
+
+/** POST /api/batches (assembler, quality). */
+export const batchInputSchema = z.object({
+  modelId: idSchema,
+  quantity: z.number().int('must be a whole number').min(1, 'must be at least 1').max(10000, 'is at most 10000'),
+});
+export type BatchInput = z.infer<typeof batchInputSchema>;
+
+export const batchSchema = z.object({
+  id: idSchema,
+  /** Human-readable and scannable: <model code>-<yyMMdd>-<seq of the day, 2 digits>. */
+  code: z.string(),
+  modelId: idSchema,
+  modelCode: z.string(),
+  modelName: z.string(),
+  quantity: z.number().int(),
+  status: batchStatusSchema,
+  createdBy: idSchema.nullable(),
+  createdAt: instantSchema,
+  completedAt: instantSchema.nullable(),
+});
+export type Batch = z.infer<typeof batchSchema>;
+
+export const batchDriverSchema = z.object({
+  id: idSchema,
+  /** <batch code>-<unit, 4 digits> */
+  serial: z.string(),
+  status: z.enum(DRIVER_STATUSES),
+});
+export type BatchDriver = z.infer<typeof batchDriverSchema>;
+
+export const batchCreatedSchema = z.object({ batch: batchSchema, drivers: z.array(batchDriverSchema) });
+export type BatchCreated = z.infer<typeof batchCreatedSchema>;
+
+export const batchListQuerySchema = paginationQuerySchema.extend({
+  status: batchStatusSchema.optional(),
+  modelId: idSchema.optional(),
+  /** Part of the batch code. */
+  q: z.string().trim().min(1).max(60).optional(),
+  createdFrom: instantSchema.optional(),
+  createdTo: instantSchema.optional(),
+});
+export type BatchListQuery = z.infer<typeof batchListQuerySchema>;
+
+export const batchPageSchema = z.object({ items: z.array(batchSchema), total: z.number().int().nonnegative() });
+export type BatchPage = z.infer<typeof batchPageSchema>;
+
+/**
+ * Where a recipe step stands for the batch: pending (not started), running, curing (finished,
+ * its adhesive not yet fully cured; computed from the area's readings) or done.
+ */
+export const STEP_STATES = ['pending', 'running', 'curing', 'done'] as const;
+export const stepStateSchema = z.enum(STEP_STATES);
+export type StepState = z.infer<typeof stepStateSchema>;
+
+export const travelerMaterialSchema = z.object({
+  materialId: idSchema,
+  materialCode: z.string(),
+  materialName: z.string(),
+  unit: z.string(),
+  amountPerUnit: z.number(),
+});
+
+export const travelerStepSchema = z.object({
+  id: idSchema,
+  seq: z.number().int(),
+  name: z.string(),
+  stationKind: z.string(),
+  waitForCure: z.boolean(),
+  materials: z.array(travelerMaterialSchema),
+  state: stepStateSchema,
+  /** The whole-batch run of this step, when started. */
+  run: stepRunSchema.nullable(),
+  handlingAt: instantSchema.nullable(),
+  /** Recomputed from the readings recorded since the finish. */
+  cureCompleteAt: instantSchema.nullable(),
+});
+export type TravelerStep = z.infer<typeof travelerStepSchema>;
+
+/** GET /api/batches/:id — the traveler. */
+export const batchDetailSchema = z.object({
+  batch: batchSchema,
+  steps: z.array(travelerStepSchema),
+  /** The first step not yet finished (null when all are). */
+  currentStepId: idSchema.nullable(),
+  drivers: z.array(batchDriverSchema),
+  /** Single-unit (rework) runs, oldest first. */
+  reworkRuns: z.array(stepRunSchema),
+});
+export type BatchDetail = z.infer<typeof batchDetailSchema>;

@@ -1,0 +1,56 @@
+import { z } from 'zod';
+import { MIX_STATUSES } from '../constants';
+import { idSchema, instantSchema } from './common';
+
+const scannedCode = z.string().trim().min(1, 'is required').max(200, 'is at most 200 characters');
+const quantity = z.number().positive('must be more than 0').max(1_000_000, 'is too large');
+
+/** POST /api/stations/:id/mixes (assembler). Quantities in the materials' units. */
+export const mixInputSchema = z.object({
+  resinCode: scannedCode,
+  hardenerCode: scannedCode,
+  resinQuantity: quantity,
+  hardenerQuantity: quantity,
+});
+export type MixInput = z.infer<typeof mixInputSchema>;
+
+/** Where the temperature used for the pot-life adjustment came from. */
+export const MIX_TEMP_SOURCES = ['reading', 'reference'] as const;
+
+export const mixSchema = z.object({
+  id: idSchema,
+  /** Scannable: MX-<yyMMdd>-<seq of the day>. */
+  code: z.string(),
+  stationId: idSchema,
+  resinContainerId: idSchema,
+  resinContainerCode: z.string(),
+  resinMaterialId: idSchema,
+  hardenerContainerId: idSchema,
+  hardenerContainerCode: z.string(),
+  hardenerMaterialId: idSchema,
+  resinQuantity: z.number(),
+  hardenerQuantity: z.number(),
+  remaining: z.number(),
+  mixedAt: instantSchema,
+  /** Pot life from mixing, adjusted to the temperature below. */
+  potLifeEndsAt: instantSchema,
+  tempC: z.number().nullable(),
+  status: z.enum(MIX_STATUSES),
+  mixedBy: idSchema.nullable(),
+});
+export type Mix = z.infer<typeof mixSchema>;
+
+export const mixTemperatureSchema = z.object({
+  tempC: z.number(),
+  source: z.enum(MIX_TEMP_SOURCES),
+  /** The reading used (source 'reading'). */
+  readingAt: instantSchema.nullable(),
+  area: z.string(),
+  /** Pot life at that temperature, minutes (rounded to 0.1). */
+  potLifeMinutes: z.number(),
+  referencePotLifeMinutes: z.number(),
+});
+
+/** 201 answer of POST /api/stations/:id/mixes and GET /api/mixes/:id. */
+export const mixResultSchema = z.object({ mix: mixSchema, temperature: mixTemperatureSchema.optional() });
+export type MixResult = z.infer<typeof mixResultSchema>;
