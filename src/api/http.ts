@@ -1,0 +1,130 @@
+import { z } from 'zod';
+import { errorBodySchema, fieldIssueSchema, type FieldIssue } from '@shared/schemas/common';
+
+/**
+ * A failed API call, built from the API's error shape {error: {code, message, details}}.
+ * `status` is 0 when the server could not be reached at all.
+ */
+export class ApiError extends Error {
+  constructor(
+    public readonly status: number,
+    public readonly code: string,
+    message: string,
+    public readonly details: FieldIssue[] = [],
+  ) {
+    super(message);
+    this.name = 'ApiError';
+  }
+
+  /** The server's message for one field (400 responses list the fields in error). */
+  fieldMessage(field: string): string | undefined {
+    return this.details.find((d) => d.field === field)?.message;
+  }
+}
+
+type QueryValue = string | number | boolean | null | undefined;
+
+export interface ApiRequest<S extends z.ZodTypeAny> {
+  method?: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
+  /** Sent as JSON, or as multipart when it is a FormData. */
+  body?: unknown;
+  /** Empty values (undefined, null, '') are left out. */
+  query?: Record<string, QueryValue>;
+  /** The zod schema (from shared/schemas) the response must match. */
+  schema: S;
+  /** Repeating a request with the same key returns the first response and changes nothing. */
+  idempotencyKey?: string;
+  signal?: AbortSignal;
+}
+
+type UnauthorizedListener = () => void;
+const unauthorizedListeners = new Set<UnauthorizedListener>();
+
+/** Called on every 401, so the session can drop the user. Returns a function that unsubscribes. */
+export function onUnauthorized(listener: UnauthorizedListener): () => void {
+  unauthorizedListeners.add(listener);
+  return () => unauthorizedListeners.delete(listener);
+}
+
+const fieldIssuesSchema = z.array(fieldIssueSchema);
+
+function withQuery(path: string, query: Record<string, QueryValue> | undefined): string {
+  if (!query) return path;
+  const params = new URLSearchParams();
+  for (const [key, value] of Object.entries(query)) {
+    if (value === undefined || value === null || value === '') continue;
+    params.append(key, String(value));
+  }
+  const text = params.toString();
+  if (!text) return path;
+  return `${path}${path.includes('?') ? '&' : '?'}${text}`;
+}
+
+async function readJson(response: Response): Promise<unknown> {
+  if (response.status === 204) return undefined;
+  const text = await response.text();
+  if (!text) return undefined;
+  try {
+    return JSON.parse(text) as unknown;
+  } catch {
+    throw new ApiError(response.status, 'BAD_RESPONSE', `The server sent an unreadable answer (HTTP ${response.status}).`);
+  }
+}
+
+function errorFrom(status: number, payload: unknown): ApiError {
+  const parsed = errorBodySchema.safeParse(payload);
+  if (!parsed.success) {
+    return new ApiError(status, 'HTTP_ERROR', `The server refused the request (HTTP ${status}).`);
+  }
+  const { code, message, details } = parsed.data.error;
+  const issues = fieldIssuesSchema.safeParse(details);
+  return new ApiError(status, code, message, issues.success ? issues.data : []);
+}
+
+/**
+ * Calls the Tacklog API: sends JSON with the session cookie, parses the answer with `schema`,
+ * and throws an ApiError for any non-2xx answer (after telling 401 listeners).
+ */
+export async function apiFetch<S extends z.ZodTypeAny>(path: string, request: ApiRequest<S>): Promise<z.infer<S>> {
+  const headers: Record<string, string> = { Accept: 'application/json' };
+  let body: BodyInit | undefined;
+  if (request.body instanceof FormData) {
+    body = request.body;
+  } else if (request.body !== undefined) {
+    headers['Content-Type'] = 'application/json';
+    body = JSON.stringify(request.body);
+  }
+  if (request.idempotencyKey) headers['Idempotency-Key'] = request.idempotencyKey;
+
+  let response: Response;
+  try {
+    response = await fetch(withQuery(path, request.query), {
+      method: request.method ?? 'GET',
+      headers,
+      body,
+      credentials: 'same-origin',
+      signal: request.signal,
+    });
+  } catch (err) {
+    if (err instanceof DOMException && err.name === 'AbortError') throw err;
+    throw new ApiError(0, 'NETWORK', 'The Tacklog server could not be reached. Check the connection and try again.');
+  }
+
+  const payload = await readJson(response);
+  if (!response.ok) {
+    const error = errorFrom(response.status, payload);
+    if (response.status === 401) unauthorizedListeners.forEach((listener) => listener());
+    throw error;
+  }
+  const parsed = request.schema.safeParse(payload);
+  if (!parsed.success) {
+    console.error(`[api] ${request.method ?? 'GET'} ${path}: unexpected response shape`, parsed.error.issues);
+    throw new ApiError(response.status, 'BAD_RESPONSE', 'The server answered in an unexpected shape; the page may be out of date. Reload it.');
+  }
+  return parsed.data as z.infer<S>;
+}
+
+/** A fresh Idempotency-Key for one user action (reuse it when retrying that same action). */
+export function newIdempotencyKey(): string {
+  return crypto.randomUUID();
+}

@@ -1,0 +1,78 @@
+import { watch } from 'vue';
+import { createRouter, createWebHistory, type RouteLocationNormalized, type RouteRecordRaw, type Router } from 'vue-router';
+import { useSessionStore } from '@/stores/session';
+import { rolesAllow } from '@/roles';
+import { safeRedirect } from './redirect';
+import { homeRoutes, notFoundRoute, publicRoutes } from './routes/core';
+import './meta';
+
+// ---------------------------------------------------------------------------------------------
+// Area routes. Each area keeps its routes in src/router/routes/<area>.ts (lazy components,
+// dotted names like 'lots.detail', meta {roles}) and adds ONE import and ONE entry below.
+// Route names used by the drawer are listed in src/navigation.ts.
+// ---------------------------------------------------------------------------------------------
+const areaRoutes: RouteRecordRaw[] = [
+  ...homeRoutes,
+  // ...lotsRoutes,
+];
+
+export const routes: RouteRecordRaw[] = [
+  ...publicRoutes,
+  {
+    path: '/',
+    component: () => import('@/layouts/MainLayout.vue'),
+    children: [...areaRoutes, notFoundRoute],
+  },
+];
+
+/** Where the guard sends a navigation, or true to let it through. */
+export async function guard(to: RouteLocationNormalized) {
+  const session = useSessionStore();
+  let user: Awaited<ReturnType<typeof session.load>> = null;
+  try {
+    user = await session.load();
+  } catch (err) {
+    // The server could not say who is signed in: the sign-in page will show the problem.
+    console.error('[router] could not load the session:', err);
+  }
+
+  if (to.meta.public) {
+    if (user && to.name === 'auth.signin') return safeRedirect(to.query.redirect) ?? { name: 'home' };
+    return true;
+  }
+  if (!user) {
+    return to.fullPath === '/' ? { name: 'auth.signin' } : { name: 'auth.signin', query: { redirect: to.fullPath } };
+  }
+  if (!rolesAllow(to.meta.roles, user.roles)) return { name: 'home' };
+  return true;
+}
+
+export function createAppRouter(): Router {
+  const router = createRouter({
+    history: createWebHistory(),
+    routes,
+    scrollBehavior: (_to, _from, saved) => saved ?? { top: 0 },
+  });
+  router.beforeEach(guard);
+  router.afterEach((to) => {
+    document.title = to.meta.title ? `${to.meta.title} · Tacklog` : 'Tacklog';
+  });
+  return router;
+}
+
+/**
+ * The one place that leaves a signed-in page when the session ends (the sign-out button, an
+ * expired session: any 401): go to the sign-in page, and come back to the same place after.
+ */
+export function followSessionEnd(router: Router): void {
+  const session = useSessionStore();
+  watch(
+    () => session.user,
+    (user, previous) => {
+      const route = router.currentRoute.value;
+      if (user || !previous || route.meta.public) return;
+      const query = route.name === 'home' ? {} : { redirect: route.fullPath };
+      void router.replace({ name: 'auth.signin', query });
+    },
+  );
+}
