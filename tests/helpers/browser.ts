@@ -1,0 +1,76 @@
+import { chromium, type Browser, type Page } from 'playwright-core';
+
+/** Debian's chromium; browser tests never download a browser. */
+export const CHROMIUM_PATH = '/usr/bin/chromium';
+
+const CHROMIUM_ARGS = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--no-first-run',
+  '--disable-sync',
+  '--disable-quic',
+];
+
+/** Starts headless chromium. Close it in afterAll. */
+export function launchBrowser(): Promise<Browser> {
+  return chromium.launch({ executablePath: CHROMIUM_PATH, headless: true, args: CHROMIUM_ARGS });
+}
+
+let shared: Promise<Browser> | null = null;
+
+/** One browser per test file, started on first use; `closeBrowser()` ends it. */
+function sharedBrowser(): Promise<Browser> {
+  if (!shared) shared = launchBrowser();
+  return shared;
+}
+
+export async function closeBrowser(): Promise<void> {
+  if (!shared) return;
+  const browser = await shared;
+  shared = null;
+  await browser.close();
+}
+
+/**
+ * A page in a fresh context (own cookies) whose relative URLs resolve against `baseUrl`,
+ * sized like a plant desktop screen.
+ */
+export async function newPage(baseUrl: string, browser?: Browser): Promise<Page> {
+  const b = browser ?? (await sharedBrowser());
+  const context = await b.newContext({ baseURL: baseUrl, viewport: { width: 1366, height: 860 }, locale: 'en-GB' });
+  return context.newPage();
+}
+
+const LOCAL_HOSTS = new Set(['127.0.0.1', 'localhost', '[::1]']);
+
+/** Whether a URL stays on this machine (data: and blob: URLs never leave it). */
+export function isLocalUrl(url: string): boolean {
+  const parsed = new URL(url);
+  if (parsed.protocol === 'data:' || parsed.protocol === 'blob:' || parsed.protocol === 'about:') return true;
+  return LOCAL_HOSTS.has(parsed.hostname);
+}
+
+/**
+ * Aborts every request from the page to a host other than 127.0.0.1/localhost and records its
+ * URL in the returned list, so a test can assert that nothing left the machine.
+ */
+export async function blockExternalRequests(page: Page): Promise<string[]> {
+  const external: string[] = [];
+  await page.context().route('**/*', async (route) => {
+    const url = route.request().url();
+    if (isLocalUrl(url)) {
+      await route.continue();
+    } else {
+      external.push(url);
+      await route.abort('blockedbyclient');
+    }
+  });
+  // Requests that bypass routing (e.g. websockets) are still recorded.
+  page.on('websocket', (ws) => {
+    if (!isLocalUrl(ws.url())) external.push(ws.url());
+  });
+  return external;
+}
