@@ -57,7 +57,7 @@ export type TraceStep = z.infer<typeof traceStepSchema>;
 
 /**
  * GET /api/drivers/:serial/trace — backward genealogy: the batch's whole-batch runs and this
- * driver's own rework runs (build runs first by step order, then rework runs by time).
+ * driver's own rework runs (whole-batch runs first, then rework runs, each by start time).
  */
 export const driverTraceSchema = z.object({
   driver: driverSchema,

@@ -1,0 +1,3 @@
+export { getDriver, driverRuns } from './get-driver';
+export { scrapDriver } from './scrap';
+export { findDriverWithBatch, toDriver } from './lookup';

@@ -1,0 +1,2 @@
+export { recordTest, missingSteps } from './record-test';
+export { testHistory } from './records';

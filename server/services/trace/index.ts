@@ -1,0 +1,3 @@
+export { traceDriver } from './driver-trace';
+export { traceLot } from './lot-trace';
+export { lotContainmentCsv, toCsv, csvField } from './csv';

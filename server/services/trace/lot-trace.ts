@@ -1,0 +1,146 @@
+import { sql } from 'drizzle-orm';
+import { db } from '../../db/client';
+import { notFound } from '../../errors';
+import { DRIVER_STATUSES } from '../../../shared/constants';
+import type { DriverStatusCounts, LotTrace, LotUse, TraceBatch, TraceDriver, TraceLot } from '../../../shared/schemas/trace';
+
+interface LotRow {
+  id: string; supplier_lot: string; status: TraceLot['status']; received_at: Date; certificate_id: string | null;
+  material_id: string; material_code: string; material_name: string; supplier_id: string; supplier_name: string;
+}
+
+interface UseRow {
+  step_run_id: string; kind: 'build' | 'rework'; batch_id: string; driver_id: string | null; driver_serial: string | null;
+  step_id: string; step_name: string; seq: number; station_code: string; started_at: Date; finished_at: Date | null;
+  container_code: string; mix_code: string | null;
+  batch_code: string; batch_created_at: Date; model_id: string; model_code: string; model_name: string;
+}
+
+interface DriverRow {
+  id: string; serial: string; status: TraceDriver['status']; batch_id: string;
+}
+
+export interface LotTraceData {
+  trace: LotTrace;
+  /** Which runs reached which drivers, for the containment CSV. */
+  driverIdsByRun: Map<string, string[]>;
+  driverById: Map<string, DriverRow>;
+  usesRaw: UseRow[];
+}
+
+const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
+/** A PostgreSQL array literal of UUIDs (validated ids from our own rows) for `= ANY(...)`. */
+const uuidArray = (ids: string[]) => `{${ids.join(',')}}`;
+
+async function lotHeader(lotId: string): Promise<TraceLot> {
+  const res = await db.execute(sql`
+    SELECT l.id, l.supplier_lot, l.status, l.received_at, l.certificate_id,
+           m.id AS material_id, m.code AS material_code, m.name AS material_name,
+           s.id AS supplier_id, s.name AS supplier_name
+    FROM lots l JOIN materials m ON m.id = l.material_id JOIN suppliers s ON s.id = l.supplier_id
+    WHERE l.id = ${lotId}`);
+  const r = res.rows[0] as unknown as LotRow | undefined;
+  if (!r) throw notFound('The lot');
+  return {
+    id: r.id, supplierLot: r.supplier_lot, status: r.status, receivedAt: iso(r.received_at)!, certificateId: r.certificate_id,
+    materialId: r.material_id, materialCode: r.material_code, materialName: r.material_name,
+    supplierId: r.supplier_id, supplierName: r.supplier_name,
+  };
+}
+
+/**
+ * Every step run that used a container of the lot, directly or as a part of a mix. Each of
+ * the three branches is an index lookup: containers by lot, then step_run_materials by
+ * container or by mix (mixes by resin or hardener container).
+ */
+async function lotUses(lotId: string): Promise<UseRow[]> {
+  const res = await db.execute(sql`
+    WITH lc AS (SELECT id, code FROM containers WHERE lot_id = ${lotId}),
+    used AS (
+      SELECT srm.step_run_id, lc.code AS container_code, NULL::text AS mix_code
+        FROM lc JOIN step_run_materials srm ON srm.container_id = lc.id
+      UNION
+      SELECT srm.step_run_id, lc.code, mx.code
+        FROM lc JOIN mixes mx ON mx.resin_container_id = lc.id JOIN step_run_materials srm ON srm.mix_id = mx.id
+      UNION
+      SELECT srm.step_run_id, lc.code, mx.code
+        FROM lc JOIN mixes mx ON mx.hardener_container_id = lc.id JOIN step_run_materials srm ON srm.mix_id = mx.id
+    )
+    SELECT sr.id AS step_run_id, sr.kind, sr.batch_id, sr.driver_id, d.serial AS driver_serial,
+           sr.step_id, rs.name AS step_name, rs.seq, st.code AS station_code, sr.started_at, sr.finished_at,
+           u.container_code, u.mix_code,
+           b.code AS batch_code, b.created_at AS batch_created_at, dm.id AS model_id, dm.code AS model_code, dm.name AS model_name
+    FROM used u
+    JOIN step_runs sr ON sr.id = u.step_run_id
+    JOIN recipe_steps rs ON rs.id = sr.step_id
+    JOIN stations st ON st.id = sr.station_id
+    JOIN build_batches b ON b.id = sr.batch_id
+    JOIN driver_models dm ON dm.id = b.model_id
+    LEFT JOIN drivers d ON d.id = sr.driver_id
+    ORDER BY sr.started_at, b.code, rs.seq, u.container_code, u.mix_code NULLS FIRST`);
+  return res.rows as unknown as UseRow[];
+}
+
+/** Drivers reached: every driver of a batch a whole-batch run used the lot in, plus the single units reworked with it. */
+async function reachedDrivers(batchIds: string[], driverIds: string[]): Promise<DriverRow[]> {
+  if (batchIds.length === 0 && driverIds.length === 0) return [];
+  const res = await db.execute(sql`
+    SELECT d.id, d.serial, d.status, d.batch_id FROM drivers d WHERE d.batch_id = ANY(${uuidArray(batchIds)}::uuid[])
+    UNION
+    SELECT d.id, d.serial, d.status, d.batch_id FROM drivers d WHERE d.id = ANY(${uuidArray(driverIds)}::uuid[])
+    ORDER BY serial`);
+  return res.rows as unknown as DriverRow[];
+}
+
+export function countByStatus(list: { status: TraceDriver['status'] }[]): DriverStatusCounts {
+  const counts = Object.fromEntries(DRIVER_STATUSES.map((s) => [s, 0])) as Omit<DriverStatusCounts, 'total'>;
+  for (const d of list) counts[d.status] += 1;
+  return { total: list.length, ...counts };
+}
+
+export async function loadLotTrace(lotId: string): Promise<LotTraceData> {
+  const lot = await lotHeader(lotId);
+  const usesRaw = await lotUses(lotId);
+  const wholeBatchIds = [...new Set(usesRaw.filter((u) => !u.driver_id).map((u) => u.batch_id))];
+  const singleDriverIds = [...new Set(usesRaw.filter((u) => u.driver_id).map((u) => u.driver_id as string))];
+  const driverRows = await reachedDrivers(wholeBatchIds, singleDriverIds);
+
+  const driverById = new Map(driverRows.map((d) => [d.id, d]));
+  const driversByBatch = new Map<string, DriverRow[]>();
+  for (const d of driverRows) {
+    const list = driversByBatch.get(d.batch_id) ?? [];
+    list.push(d);
+    driversByBatch.set(d.batch_id, list);
+  }
+  const wholeBatch = new Set(wholeBatchIds);
+  const driverIdsByRun = new Map<string, string[]>();
+  const batches = new Map<string, TraceBatch>();
+  for (const u of usesRaw) {
+    const reached = u.driver_id ? [u.driver_id] : (driversByBatch.get(u.batch_id) ?? []).map((d) => d.id);
+    driverIdsByRun.set(u.step_run_id, reached);
+    if (!batches.has(u.batch_id)) {
+      batches.set(u.batch_id, {
+        id: u.batch_id, code: u.batch_code, modelId: u.model_id, modelCode: u.model_code, modelName: u.model_name,
+        createdAt: iso(u.batch_created_at)!, wholeBatch: wholeBatch.has(u.batch_id),
+        driverCount: (driversByBatch.get(u.batch_id) ?? []).length,
+      });
+    }
+  }
+  const uses: LotUse[] = usesRaw.map((u) => ({
+    stepRunId: u.step_run_id, kind: u.kind, batchId: u.batch_id, driverSerial: u.driver_serial,
+    stepId: u.step_id, stepName: u.step_name, seq: u.seq, stationCode: u.station_code,
+    startedAt: iso(u.started_at)!, finishedAt: iso(u.finished_at), containerCode: u.container_code, mixCode: u.mix_code,
+  }));
+  const driversOut: TraceDriver[] = driverRows.map((d) => ({ serial: d.serial, status: d.status, batchId: d.batch_id }));
+  return {
+    trace: { lot, uses, batches: [...batches.values()], drivers: driversOut, counts: countByStatus(driversOut) },
+    driverIdsByRun,
+    driverById,
+    usesRaw,
+  };
+}
+
+/** GET /api/lots/:id/trace — forward genealogy of one lot (any signed-in person). */
+export async function traceLot(lotId: string): Promise<LotTrace> {
+  return (await loadLotTrace(lotId)).trace;
+}
