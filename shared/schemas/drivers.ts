@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { BATCH_STATUSES, STEP_RUN_KINDS } from '../constants';
 import { idSchema, instantSchema } from './common';
 import { driverStatusSchema, serialSchema, testRecordSchema } from './tests';
+import { stepRunSchema } from './steps';
 
 export { serialSchema, driverStatusSchema };
 
@@ -52,16 +53,21 @@ export const driverDetailSchema = z.object({
 });
 export type DriverDetail = z.infer<typeof driverDetailSchema>;
 
-/** POST /api/drivers/:serial/rework/start and …/finish: one recipe step redone on this unit. */
+/**
+ * POST /api/drivers/:serial/rework/start and …/finish: one recipe step redone on this unit alone
+ * at a station, with the materials loaded there for the driver's batch. Only a failed driver (or
+ * one reworked and not yet re-tested) can be reworked.
+ */
 export const reworkInputSchema = z.object({
   stationId: idSchema,
   stepId: idSchema,
 });
 export type ReworkInput = z.infer<typeof reworkInputSchema>;
 
+/** The driver after the action and the single-unit run (the steps module's StepRun shape). */
 export const reworkResultSchema = z.object({
   driver: driverSchema,
-  stepRun: driverRunSchema,
+  stepRun: stepRunSchema,
 });
 export type ReworkResult = z.infer<typeof reworkResultSchema>;
 

@@ -1,50 +1,28 @@
 import crypto from 'node:crypto';
-import type { Server } from 'node:http';
-import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createApp } from '../../server/app';
-import { closeDb, db } from '../../server/db/client';
-import { users } from '../../server/db/schema';
-import { signSessionToken } from '../../server/services/auth/tokens';
 import { csvField, toCsv } from '../../server/services/trace';
 import type { Role } from '../../shared/constants';
 import { driverTraceSchema, lotTraceSchema, CONTAINMENT_CSV_COLUMNS, type DriverTrace } from '../../shared/schemas/trace';
+import { startApp, type TestApp } from '../helpers/api';
+import { ensureUser } from '../helpers/db';
 import { buildTraceScenario, type TraceScenario } from '../helpers/trace-scenario';
 
-// Minimal local harness (app on an ephemeral port, a user per role with a bearer token).
-let server: Server;
-let base = '';
-const tokens = new Map<string, string>();
-async function tokenFor(...roles: Role[]): Promise<string> {
-  const key = roles.join('+');
-  if (!tokens.has(key)) {
-    const [u] = await db
-      .insert(users)
-      .values({ email: `${key.replace('+', '-')}-${crypto.randomBytes(4).toString('hex')}@trace.test`, name: `Test ${key}`, passwordHash: 'x', roles })
-      .returning();
-    tokens.set(key, signSessionToken(u.id));
-  }
-  return tokens.get(key)!;
-}
-async function get(path: string, token?: string) {
-  return fetch(`${base}${path}`, { headers: token ? { authorization: `Bearer ${token}` } : {} });
-}
+let app: TestApp;
+const tokenFor = async (...roles: Role[]) => (await ensureUser(roles)).token;
+/** A raw fetch (the CSV is read as text, headers checked). */
+const get = (path: string, token?: string) =>
+  fetch(`${app.baseUrl}/api${path}`, { headers: token ? { authorization: `Bearer ${token}` } : {} });
 
 let s: TraceScenario;
 let quality: string;
 
 beforeAll(async () => {
-  server = createApp().listen(0, '127.0.0.1');
-  await new Promise<void>((r) => server.once('listening', () => r()));
-  base = `http://127.0.0.1:${(server.address() as AddressInfo).port}/api`;
+  app = await startApp();
   s = await buildTraceScenario();
   quality = await tokenFor('quality');
 });
 
-afterAll(async () => {
-  await new Promise<void>((r) => server.close(() => r()));
-  await closeDb();
-});
+afterAll(() => app.close());
 
 async function driverTrace(serial: string): Promise<DriverTrace> {
   const res = await get(`/drivers/${encodeURIComponent(serial)}/trace`, quality);

@@ -19,7 +19,7 @@ import crypto from 'node:crypto';
 import { eq } from 'drizzle-orm';
 import { db } from '../../server/db/client';
 import {
-  buildBatches, containers, defectCodes, driverModels, drivers, lots, materials, mixes, recipeSteps, stations,
+  buildBatches, containers, defectCodes, driverModels, drivers, lots, materials, mixes, recipeStepMaterials, recipeSteps, stations,
   stepRunMaterials, stepRuns, suppliers, testResults,
 } from '../../server/db/schema';
 import type { MaterialKind } from '../../shared/constants';
@@ -118,6 +118,13 @@ export async function buildTraceScenario(): Promise<TraceScenario> {
         { modelId: model.id, seq: 3, name: 'Dust cap', stationKind: 'dust_cap', waitForCure: true },
       ])
       .returning();
+    await tx.insert(recipeStepMaterials).values([
+      { stepId: steps[0].id, materialId: resin.id, amountPerUnit: '2' },
+      { stepId: steps[0].id, materialId: hardener.id, amountPerUnit: '1' },
+      { stepId: steps[1].id, materialId: ca.id, amountPerUnit: '0.5' },
+      { stepId: steps[1].id, materialId: wire.id, amountPerUnit: '0.3' },
+      { stepId: steps[2].id, materialId: capGlue.id, amountPerUnit: '0.8' },
+    ]);
 
     const [m1, m2] = await tx
       .insert(mixes)
