@@ -1,0 +1,19 @@
+import { Router } from 'express';
+import { endpoint } from '../http';
+import { batchInputSchema, batchListQuerySchema } from '../../shared/schemas/batches';
+import { idParamsSchema } from '../../shared/schemas/stations';
+import { createBatch, getBatchDetail, listBatches } from '../services/batches';
+import { batchCure } from '../services/cure';
+
+export const batchesRouter = Router();
+
+batchesRouter.get('/', endpoint({ access: 'signed-in', query: batchListQuerySchema }, ({ query }) => listBatches(query)));
+
+batchesRouter.post(
+  '/',
+  endpoint({ access: ['assembler', 'quality'], body: batchInputSchema, status: 201 }, ({ actor, body }) => createBatch(actor, body)),
+);
+
+batchesRouter.get('/:id', endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => getBatchDetail(params.id)));
+
+batchesRouter.get('/:id/cure', endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => batchCure(params.id)));

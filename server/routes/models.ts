@@ -1,0 +1,23 @@
+import { Router } from 'express';
+import { endpoint } from '../http';
+import { driverModelInputSchema, driverModelPatchSchema, modelListQuerySchema } from '../../shared/schemas/models';
+import { idParamsSchema } from '../../shared/schemas/stations';
+import { createModel, getModel, listModels, updateModel } from '../services/models';
+
+export const modelsRouter = Router();
+
+modelsRouter.get('/', endpoint({ access: 'signed-in', query: modelListQuerySchema }, ({ query }) => listModels(query)));
+
+modelsRouter.post(
+  '/',
+  endpoint({ access: ['admin'], body: driverModelInputSchema, status: 201 }, ({ actor, body }) => createModel(actor, body)),
+);
+
+modelsRouter.get('/:id', endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => getModel(params.id)));
+
+modelsRouter.patch(
+  '/:id',
+  endpoint({ access: ['admin'], params: idParamsSchema, body: driverModelPatchSchema }, ({ actor, params, body }) =>
+    updateModel(actor, params.id, body),
+  ),
+);

@@ -1,0 +1,135 @@
+/**
+ * Whether a container or a mix may be used now: the checks behind every station refusal
+ * (loading, mixing, step start). Pure given the rows; throws a 409 with the reason code.
+ */
+import type { containers, lots, materials, mixes } from '../../db/schema';
+import { conflict } from '../../errors';
+import {
+  containerExpiry, earliestOf, isExpired, lotExpiry, type ExpiryCause, type ExpiryMaterial, type ExpiryResult,
+} from '../../../shared/expiry';
+
+export type ContainerRow = typeof containers.$inferSelect;
+export type LotRow = typeof lots.$inferSelect;
+export type MaterialRow = typeof materials.$inferSelect;
+export type MixRow = typeof mixes.$inferSelect;
+
+/** The zone in which supplier expiry dates end (a date is usable through that whole day). */
+export const PLANT_ZONE = process.env.TACKLOG_PLANT_ZONE || 'UTC';
+
+const CAUSE_WORDS: Record<ExpiryCause, string> = {
+  supplier_expiry: "the supplier's expiry date",
+  shelf_life: 'its shelf life',
+  open_life: 'its after-opening life',
+  thawed_life: 'its allowed life after thawing',
+  out_of_storage: 'its allowed time out of cold storage',
+  pot_life: 'its pot life',
+};
+
+export function causeWords(cause: ExpiryCause): string {
+  return CAUSE_WORDS[cause];
+}
+
+function when(iso: string): string {
+  return `${iso.slice(0, 16).replace('T', ' ')} UTC`;
+}
+
+export function expiryMaterial(m: MaterialRow): ExpiryMaterial {
+  return {
+    shelfLifeDays: m.shelfLifeDays,
+    openLifeHours: m.openLifeHours,
+    thawedLifeHours: m.thawedLifeHours,
+    outOfStorageAllowanceHours: m.outOfStorageAllowanceHours,
+    potLifeMinutes: m.potLifeMinutes,
+    storageClass: m.storageClass,
+  };
+}
+
+export function expiryLot(l: LotRow) {
+  return { receivedAt: l.receivedAt.toISOString(), manufacturedOn: l.manufacturedOn, expiresOn: l.expiresOn };
+}
+
+/** Effective expiry of a container (a sealed one being loaded is judged as it is now: unopened). */
+export function expiryOfContainer(c: ContainerRow, l: LotRow, m: MaterialRow, now: Date): ExpiryResult {
+  return containerExpiry(
+    expiryMaterial(m),
+    expiryLot(l),
+    {
+      openedAt: c.openedAt?.toISOString() ?? null,
+      thawedAt: c.thawedAt?.toISOString() ?? null,
+      outOfStorageMinutes: c.outOfStorageMinutes,
+      outOfStorageSince: c.outOfStorageSince?.toISOString() ?? null,
+    },
+    PLANT_ZONE,
+    now,
+  );
+}
+
+/** Effective expiry of a mix: its pot-life end (set at mixing), or an earlier lot limit of a part. */
+export function expiryOfMix(mix: MixRow, parts: { lot: LotRow; material: MaterialRow }[]): ExpiryResult {
+  const lotLimits = parts.map((p) => lotExpiry(expiryMaterial(p.material), expiryLot(p.lot), PLANT_ZONE));
+  return earliestOf([
+    { cause: 'pot_life', at: mix.potLifeEndsAt.toISOString() },
+    ...lotLimits.flatMap((r) => (r.at && r.cause ? [{ cause: r.cause, at: r.at }] : [])),
+  ]);
+}
+
+/** Refuses a lot that is not released. */
+export function checkLotStatus(lot: LotRow, material: MaterialRow, what: string): void {
+  const name = `${material.name} lot ${lot.supplierLot}`;
+  switch (lot.status) {
+    case 'released':
+      return;
+    case 'on_hold':
+      throw conflict('LOT_ON_HOLD', `${what}: ${name} is on hold awaiting incoming inspection. Do not use it; load a released lot, or ask quality to release this one.`, { lotId: lot.id });
+    case 'quarantined':
+      throw conflict('LOT_QUARANTINED', `${what}: ${name} is quarantined by quality. Do not use it; take it off the line and load a released lot.`, { lotId: lot.id });
+    case 'rejected':
+      throw conflict('LOT_REJECTED', `${what}: ${name} was rejected by quality. Do not use it; take it off the line and load a released lot.`, { lotId: lot.id });
+    case 'used_up':
+      throw conflict('CONTAINER_EMPTY', `${what}: ${name} is recorded as used up. Load a container from another lot.`, { lotId: lot.id });
+  }
+}
+
+/** Refuses an empty, scrapped, held or expired container; returns its effective expiry. */
+export function checkContainerUsable(c: ContainerRow, lot: LotRow, m: MaterialRow, now: Date): ExpiryResult {
+  const what = `Container ${c.code}`;
+  if (c.status === 'scrapped') {
+    throw conflict('CONTAINER_SCRAPPED', `${what} (${m.name}) has been scrapped. Do not use it; load another container.`, { containerId: c.id });
+  }
+  if (c.status === 'empty' || Number(c.remaining) <= 0) {
+    throw conflict('CONTAINER_EMPTY', `${what} (${m.name}) is empty. Load another container of ${m.name}.`, { containerId: c.id });
+  }
+  checkLotStatus(lot, m, what);
+  const expiry = expiryOfContainer(c, lot, m, now);
+  if (isExpired(expiry, now) && expiry.at && expiry.cause) {
+    const details = { containerId: c.id, expiredAt: expiry.at, cause: expiry.cause };
+    if (expiry.cause === 'open_life') {
+      throw conflict('OPEN_LIFE_EXCEEDED', `${what} (${m.name}) is past its after-opening life (since ${when(expiry.at)}). Do not use it; put it aside for disposal and load a fresh container.`, details);
+    }
+    throw conflict('EXPIRED', `${what} (${m.name}) is past ${causeWords(expiry.cause)} (since ${when(expiry.at)}). Do not use it; put it aside for disposal and load another container.`, details);
+  }
+  return expiry;
+}
+
+/** Refuses a discarded, used-up, held or pot-life-expired mix; returns its effective expiry. */
+export function checkMixUsable(
+  mix: MixRow,
+  parts: { container: ContainerRow; lot: LotRow; material: MaterialRow }[],
+  now: Date,
+): ExpiryResult {
+  const what = `Mix ${mix.code}`;
+  if (mix.status === 'discarded') throw conflict('MIX_DISCARDED', `${what} has been discarded. Mix a fresh batch.`, { mixId: mix.id });
+  if (mix.status === 'used_up' || Number(mix.remaining) <= 0) {
+    throw conflict('CONTAINER_EMPTY', `${what} is used up. Mix a fresh batch.`, { mixId: mix.id });
+  }
+  for (const p of parts) checkLotStatus(p.lot, p.material, `${what} (from container ${p.container.code})`);
+  const expiry = expiryOfMix(mix, parts);
+  if (isExpired(expiry, now) && expiry.at && expiry.cause) {
+    const details = { mixId: mix.id, expiredAt: expiry.at, cause: expiry.cause };
+    if (expiry.cause === 'pot_life') {
+      throw conflict('POT_LIFE_EXCEEDED', `${what} is past its pot life (since ${when(expiry.at)}); it is starting to set. Do not use it; dispose of it as the SDS says and mix a fresh batch.`, details);
+    }
+    throw conflict('EXPIRED', `${what} contains material past ${causeWords(expiry.cause)} (since ${when(expiry.at)}). Do not use it; mix a fresh batch from other lots.`, details);
+  }
+  return expiry;
+}

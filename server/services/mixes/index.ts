@@ -1,0 +1,2 @@
+export { createMix } from './create';
+export { getMix, toMix } from './read';

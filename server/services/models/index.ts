@@ -1,0 +1,2 @@
+export { getModel, listModels, loadSteps, findModelRow } from './read';
+export { createModel, updateModel } from './write';

@@ -1,0 +1,73 @@
+import { asc, eq, inArray, sql } from 'drizzle-orm';
+import { db, type DbOrTx } from '../../db/client';
+import { buildBatches, driverModels, recipeStepMaterials, recipeSteps } from '../../db/schema';
+import { notFound } from '../../errors';
+import type { DriverModel, RecipeStep } from '../../../shared/schemas/models';
+
+type ModelRow = typeof driverModels.$inferSelect;
+
+/** Recipe steps of the given models, ordered by seq, with their materials. */
+export async function loadSteps(tx: DbOrTx, modelIds: string[]): Promise<Map<string, RecipeStep[]>> {
+  const out = new Map<string, RecipeStep[]>(modelIds.map((id) => [id, []]));
+  if (modelIds.length === 0) return out;
+  const steps = await tx.select().from(recipeSteps).where(inArray(recipeSteps.modelId, modelIds)).orderBy(asc(recipeSteps.seq));
+  const mats = steps.length
+    ? await tx.select().from(recipeStepMaterials).where(inArray(recipeStepMaterials.stepId, steps.map((s) => s.id)))
+    : [];
+  for (const s of steps) {
+    out.get(s.modelId)?.push({
+      id: s.id,
+      seq: s.seq,
+      name: s.name,
+      stationKind: s.stationKind,
+      waitForCure: s.waitForCure,
+      materials: mats.filter((m) => m.stepId === s.id).map((m) => ({ materialId: m.materialId, amountPerUnit: Number(m.amountPerUnit) })),
+    });
+  }
+  return out;
+}
+
+async function modelsInUse(tx: DbOrTx, modelIds: string[]): Promise<Set<string>> {
+  if (modelIds.length === 0) return new Set();
+  const rows = await tx
+    .selectDistinct({ modelId: buildBatches.modelId })
+    .from(buildBatches)
+    .where(inArray(buildBatches.modelId, modelIds));
+  return new Set(rows.map((r) => r.modelId));
+}
+
+export async function toModels(tx: DbOrTx, rows: ModelRow[]): Promise<DriverModel[]> {
+  const ids = rows.map((r) => r.id);
+  const [steps, used] = await Promise.all([loadSteps(tx, ids), modelsInUse(tx, ids)]);
+  return rows.map((r) => ({
+    id: r.id,
+    code: r.code,
+    name: r.name,
+    description: r.description,
+    active: r.active,
+    steps: steps.get(r.id) ?? [],
+    inUse: used.has(r.id),
+    createdAt: r.createdAt.toISOString(),
+  }));
+}
+
+export async function findModelRow(tx: DbOrTx, id: string, lock = false): Promise<ModelRow> {
+  const q = tx.select().from(driverModels).where(eq(driverModels.id, id));
+  const [row] = lock ? await q.for('update') : await q;
+  if (!row) throw notFound('The driver model');
+  return row;
+}
+
+export async function getModel(id: string, tx: DbOrTx = db): Promise<DriverModel> {
+  const [model] = await toModels(tx, [await findModelRow(tx, id)]);
+  return model;
+}
+
+export async function listModels(query: { includeRetired: boolean }): Promise<{ items: DriverModel[] }> {
+  const rows = await db
+    .select()
+    .from(driverModels)
+    .where(query.includeRetired ? sql`true` : eq(driverModels.active, true))
+    .orderBy(asc(driverModels.code));
+  return { items: await toModels(db, rows) };
+}
