@@ -1,0 +1,134 @@
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { z } from 'zod';
+import { ApiError, apiFetch, onUnauthorized } from '@/api/http';
+
+type Call = { url: string; init: RequestInit };
+let calls: Call[] = [];
+
+/** Answers every request with `status` and `body` (JSON unless a string), recording what was sent. */
+function answer(status: number, body?: unknown, contentType = 'application/json') {
+  vi.stubGlobal(
+    'fetch',
+    vi.fn(async (url: string, init: RequestInit) => {
+      calls.push({ url, init });
+      const text = body === undefined ? null : typeof body === 'string' ? body : JSON.stringify(body);
+      return new Response(text, { status, headers: { 'Content-Type': contentType } });
+    }),
+  );
+}
+
+const okSchema = z.object({ ok: z.literal(true) });
+
+beforeEach(() => {
+  calls = [];
+});
+
+afterEach(() => {
+  vi.unstubAllGlobals();
+});
+
+describe('apiFetch requests', () => {
+  it('sends JSON with the same-origin cookie and an Idempotency-Key when given', async () => {
+    answer(201, { ok: true });
+    const result = await apiFetch('/api/lots', {
+      method: 'POST',
+      body: { supplierLot: 'L-0042' },
+      schema: okSchema,
+      idempotencyKey: 'key-1',
+    });
+    expect(result).toEqual({ ok: true });
+    const [{ url, init }] = calls;
+    expect(url).toBe('/api/lots');
+    expect(init.method).toBe('POST');
+    expect(init.credentials).toBe('same-origin');
+    expect(init.body).toBe('{"supplierLot":"L-0042"}');
+    expect(init.headers).toMatchObject({ 'Content-Type': 'application/json', 'Idempotency-Key': 'key-1' });
+  });
+
+  it('puts non-empty query values in the URL and leaves empty ones out', async () => {
+    answer(200, { ok: true });
+    await apiFetch('/api/lots', {
+      schema: okSchema,
+      query: { status: 'on_hold', materialId: undefined, expiringWithinDays: 14, q: '', limit: null },
+    });
+    expect(calls[0].url).toBe('/api/lots?status=on_hold&expiringWithinDays=14');
+    expect(calls[0].init.method).toBe('GET');
+    expect(calls[0].init.body).toBeUndefined();
+  });
+
+  it('sends FormData as multipart (the browser sets the boundary)', async () => {
+    answer(201, { ok: true });
+    const form = new FormData();
+    form.append('kind', 'certificate');
+    await apiFetch('/api/attachments', { method: 'POST', body: form, schema: okSchema });
+    expect(calls[0].init.body).toBe(form);
+    expect(calls[0].init.headers).not.toHaveProperty('Content-Type');
+  });
+});
+
+describe('apiFetch errors', () => {
+  it('builds an ApiError from the error shape, with the fields in error', async () => {
+    answer(400, {
+      error: {
+        code: 'VALIDATION_FAILED',
+        message: 'containers must be at least 1',
+        details: [{ field: 'containers', message: 'must be at least 1' }],
+      },
+    });
+    const err = await apiFetch('/api/lots', { method: 'POST', body: {}, schema: okSchema }).catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(ApiError);
+    expect(err).toMatchObject({ status: 400, code: 'VALIDATION_FAILED', message: 'containers must be at least 1' });
+    expect((err as ApiError).details).toEqual([{ field: 'containers', message: 'must be at least 1' }]);
+    expect((err as ApiError).fieldMessage('containers')).toBe('must be at least 1');
+    expect((err as ApiError).fieldMessage('supplierLot')).toBeUndefined();
+  });
+
+  it('keeps a 409 rule refusal with its code and no field details', async () => {
+    answer(409, { error: { code: 'LOT_ON_HOLD', message: 'Lot L-0042 is on hold for inspection.', details: { lotId: 'x' } } });
+    await expect(apiFetch('/api/stations/s/load', { method: 'POST', body: {}, schema: okSchema })).rejects.toMatchObject({
+      status: 409,
+      code: 'LOT_ON_HOLD',
+      message: 'Lot L-0042 is on hold for inspection.',
+      details: [],
+    });
+  });
+
+  it('tells 401 listeners, and only on 401', async () => {
+    const listener = vi.fn();
+    const unsubscribe = onUnauthorized(listener);
+    answer(403, { error: { code: 'FORBIDDEN', message: 'Your role does not allow this.' } });
+    await expect(apiFetch('/api/users', { schema: okSchema })).rejects.toMatchObject({ status: 403 });
+    expect(listener).not.toHaveBeenCalled();
+
+    answer(401, { error: { code: 'NOT_SIGNED_IN', message: 'Sign in to continue.' } });
+    await expect(apiFetch('/api/users', { schema: okSchema })).rejects.toMatchObject({ status: 401 });
+    expect(listener).toHaveBeenCalledTimes(1);
+
+    unsubscribe();
+    await expect(apiFetch('/api/users', { schema: okSchema })).rejects.toMatchObject({ status: 401 });
+    expect(listener).toHaveBeenCalledTimes(1);
+  });
+
+  it('reports a non-JSON error page by its status', async () => {
+    answer(502, '<html>Bad gateway</html>', 'text/html');
+    await expect(apiFetch('/api/health', { schema: okSchema })).rejects.toMatchObject({ status: 502, code: 'BAD_RESPONSE' });
+  });
+
+  it('refuses a 2xx answer that does not match the schema', async () => {
+    answer(200, { ok: 'yes' });
+    const error = vi.spyOn(console, 'error').mockImplementation(() => undefined);
+    await expect(apiFetch('/api/health', { schema: okSchema })).rejects.toMatchObject({ status: 200, code: 'BAD_RESPONSE' });
+    expect(error).toHaveBeenCalledTimes(1);
+    error.mockRestore();
+  });
+
+  it('turns an unreachable server into status 0 NETWORK', async () => {
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async () => {
+        throw new TypeError('fetch failed');
+      }),
+    );
+    await expect(apiFetch('/api/health', { schema: okSchema })).rejects.toMatchObject({ status: 0, code: 'NETWORK' });
+  });
+});
