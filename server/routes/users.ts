@@ -1,0 +1,10 @@
+import { Router } from 'express';
+import { endpoint } from '../http';
+import { listUsers } from '../services/users';
+
+export const usersRouter = Router();
+
+usersRouter.get(
+  '/',
+  endpoint({ access: ['admin'] }, ({ actor }) => listUsers(actor)),
+);

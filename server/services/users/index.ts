@@ -1,0 +1,15 @@
+import { asc } from 'drizzle-orm';
+import { db } from '../../db/client';
+import { users } from '../../db/schema';
+import type { UserList } from '../../../shared/schemas/users';
+import { requireRole, type Actor } from '../auth/actor';
+
+/** Every account, by e-mail (admin only). Password hashes never leave the service. */
+export async function listUsers(actor: Actor): Promise<UserList> {
+  requireRole(actor, 'admin');
+  const rows = await db
+    .select({ id: users.id, email: users.email, name: users.name, roles: users.roles, active: users.active })
+    .from(users)
+    .orderBy(asc(users.email));
+  return { items: rows };
+}
