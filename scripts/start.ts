@@ -1,0 +1,56 @@
+/**
+ * `npm start`: PostgreSQL (the project's own cluster in .data/pg, or DATABASE_URL), migrations,
+ * the demo plant on first start, the client build, then the server on 127.0.0.1:PORT.
+ * Ctrl-C stops the server and the cluster this script started.
+ */
+import { spawn } from 'node:child_process';
+import path from 'node:path';
+import { ensureDatabase, providePostgres } from './pg';
+import { buildClientIfStale, clientSourcesPresent, jwtSecret, prepareDatabase, printWelcome } from './lib/app';
+import { log, onShutdown, root, runMain, stopChild, waitForExit } from './lib/proc';
+
+runMain(async () => {
+  const port = Number(process.env.PORT || 3000);
+  const server = await providePostgres('persistent');
+  const databaseUrl = process.env.DATABASE_URL || server.url('tacklog');
+  if (!process.env.DATABASE_URL) await ensureDatabase(server, 'tacklog');
+  await prepareDatabase(databaseUrl, { seed: true });
+
+  const serveClient = clientSourcesPresent();
+  if (serveClient) await buildClientIfStale();
+  else log('index.html is missing: there is no client to build; serving the API only');
+
+  const child = spawn(process.execPath, [path.join(root, 'node_modules', '.bin', 'tsx'), 'server/index.ts'], {
+    cwd: root,
+    stdio: 'inherit',
+    env: {
+      ...process.env,
+      DATABASE_URL: databaseUrl,
+      PORT: String(port),
+      TACKLOG_JWT_SECRET: jwtSecret(),
+      TACKLOG_SERVE_CLIENT: serveClient ? '1' : '0',
+    },
+  });
+  onShutdown(() => stopChild(child));
+  await waitForListening(port, child);
+  await printWelcome(`http://127.0.0.1:${port}`);
+  const code = await waitForExit(child);
+  if (code !== 0) log(`the server stopped (exit ${code})`);
+  return code;
+});
+
+/** Resolves once the server answers /api/health; rejects if it exits first. */
+async function waitForListening(port: number, child: ReturnType<typeof spawn>): Promise<void> {
+  const deadline = Date.now() + 60_000;
+  while (Date.now() < deadline) {
+    if (child.exitCode !== null || child.signalCode !== null) throw new Error(`the server exited during start-up (${child.exitCode ?? child.signalCode})`);
+    try {
+      const res = await fetch(`http://127.0.0.1:${port}/api/health`);
+      if (res.ok) return;
+    } catch {
+      // not listening yet
+    }
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  throw new Error(`the server did not answer on port ${port} within a minute`);
+}
