@@ -14,6 +14,13 @@ import { mixesRouter } from './mixes';
 import { deviationsRouter } from './deviations';
 import { readingsRouter } from './readings';
 import { cureRouter } from './cure';
+import { materialsRouter } from './materials';
+import { suppliersRouter } from './suppliers';
+import { lotsRouter } from './lots';
+import { containersRouter } from './containers';
+import { scansRouter } from './scans';
+import { labelsRouter } from './labels';
+import { attachmentsRouter } from './attachments';
 
 /** Every API router, mounted under /api. Add a domain's router here. */
 export const apiRouter = Router();
@@ -34,3 +41,10 @@ apiRouter.use('/mixes', mixesRouter);
 apiRouter.use('/deviations', deviationsRouter);
 apiRouter.use('/readings', readingsRouter);
 apiRouter.use('/cure', cureRouter);
+apiRouter.use('/materials', materialsRouter);
+apiRouter.use('/suppliers', suppliersRouter);
+apiRouter.use('/lots', lotsRouter);
+apiRouter.use('/containers', containersRouter);
+apiRouter.use('/scans', scansRouter);
+apiRouter.use('/labels', labelsRouter);
+apiRouter.use('/attachments', attachmentsRouter);

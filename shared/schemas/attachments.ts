@@ -33,3 +33,11 @@ export const certificateFieldsSchema = z.object({
   expiresOn: z.preprocess((v) => (v === '' ? undefined : v), dateSchema.optional()),
 });
 export type CertificateFields = z.infer<typeof certificateFieldsSchema>;
+
+/** `:id` route parameter. */
+export const attachmentParamsSchema = z.object({ id: idSchema });
+
+/** GET /api/attachments/:id query: `disposition=inline` to show it in the browser. */
+export const attachmentDownloadQuerySchema = z.object({
+  disposition: z.enum(['inline', 'attachment'], { error: 'must be inline or attachment' }).default('attachment'),
+});

@@ -9,7 +9,7 @@ import { idSchema } from './common';
  */
 
 export const LABEL_FIELDS = [
-  'materialName', 'materialCode', 'supplierLot', 'containerOfTotal', 'containerCode', 'receivedOn',
+  'materialName', 'materialCode', 'supplierLot', 'containerOfTotal', 'receivedOn',
   'effectiveExpiry', 'storageClass', 'quantity', 'supplierName',
 ] as const;
 export type LabelField = (typeof LABEL_FIELDS)[number];
@@ -34,8 +34,12 @@ export const labelLayoutSchema = z.object({
   fontPt: z.object({ title: z.number().positive(), body: z.number().positive(), small: z.number().positive() }),
   /** GHS pictograms: edge length of each diamond's bounding square, and how many fit. */
   pictogram: z.object({ sizeMm: positiveMm, max: z.number().int().min(1).max(9) }),
-  /** Text lines beside the QR code, top to bottom (the first is printed in the title size). */
-  fields: z.array(z.enum(LABEL_FIELDS)).min(1),
+  /**
+   * Text lines beside the QR code, top to bottom; a line with several fields joins them with
+   * " · ". The first line is printed in the title size. The container code is always printed
+   * under the QR code.
+   */
+  lines: z.array(z.array(z.enum(LABEL_FIELDS)).min(1)).min(1),
 });
 export type LabelLayout = z.infer<typeof labelLayoutSchema>;
 

@@ -1,0 +1,3 @@
+export { receiveLot } from './receive';
+export { attachCertificate } from './certificate';
+export { randomContainerCode, newContainerCodes } from './codes';
