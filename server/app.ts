@@ -5,6 +5,7 @@ import helmet from 'helmet';
 import cookieParser from 'cookie-parser';
 import { config } from './config';
 import { attachActor } from './middleware/auth';
+import { idempotency } from './middleware/idempotency';
 import { errorHandler, notFoundApi } from './middleware/errors';
 import { apiRouter } from './routes';
 
@@ -37,7 +38,7 @@ export function createApp(options: AppOptions = {}): Express {
     }),
   );
   app.use(cookieParser());
-  app.use('/api', express.json({ limit: '1mb' }), attachActor, apiRouter, notFoundApi);
+  app.use('/api', express.json({ limit: '1mb' }), attachActor, idempotency, apiRouter, notFoundApi);
 
   if (options.serveClient) {
     const indexHtml = path.join(config.clientDir, 'index.html');

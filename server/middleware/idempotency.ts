@@ -1,0 +1,101 @@
+/**
+ * Idempotency-Key for state-changing requests (api.md): the first response to a key is stored
+ * per signed-in actor; a repeat gets that response again without the handler running.
+ *
+ *  - The key row is inserted before the handler runs (INSERT … ON CONFLICT DO NOTHING), so two
+ *    concurrent requests with one key cannot both run: the second gets 409 IDEMPOTENCY_IN_PROGRESS.
+ *  - The same key with another method or path is 422 IDEMPOTENCY_KEY_REUSED.
+ *  - Responses of 500 and above are not kept (the row is deleted) so a retry can run.
+ *  - A key whose first request never answered (the process died) is taken over after a while.
+ */
+import type { RequestHandler, Response } from 'express';
+import { and, eq, lt, isNull } from 'drizzle-orm';
+import { db } from '../db/client';
+import { idempotencyKeys } from '../db/schema';
+import { AppError } from '../errors';
+
+const METHODS = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
+/** A first request still unanswered after this long is taken to have died. */
+const STALE_MS = 5 * 60 * 1000;
+
+function invalidKey(): AppError {
+  return new AppError('VALIDATION_FAILED', 'The Idempotency-Key header must be 1 to 200 characters.', 400, [
+    { field: 'Idempotency-Key', message: 'must be 1 to 200 characters' },
+  ]);
+}
+
+/** Holds back the end of the response until its status and body are stored (or the key released). */
+function captureResponse(res: Response, actorId: string, key: string): void {
+  let body: unknown = null;
+  const json = res.json.bind(res);
+  res.json = (value: unknown) => {
+    body = value;
+    return json(value);
+  };
+  const end = res.end.bind(res) as (...args: unknown[]) => Response;
+  let stored = false;
+  res.end = ((...args: unknown[]) => {
+    if (stored) return end(...args);
+    stored = true;
+    const where = and(eq(idempotencyKeys.actorId, actorId), eq(idempotencyKeys.key, key));
+    const save =
+      res.statusCode >= 500
+        ? db.delete(idempotencyKeys).where(where)
+        : db.update(idempotencyKeys).set({ statusCode: res.statusCode, responseBody: body ?? null }).where(where);
+    save.then(
+      () => end(...args),
+      (err: unknown) => {
+        console.error('[idempotency] could not store the response:', err);
+        end(...args);
+      },
+    );
+    return res;
+  }) as Response['end'];
+}
+
+export const idempotency: RequestHandler = async (req, res, next) => {
+  try {
+    const key = req.get('idempotency-key');
+    if (key === undefined || !METHODS.has(req.method) || !req.actor) {
+      next();
+      return;
+    }
+    if (key.length < 1 || key.length > 200) throw invalidKey();
+    const actorId = req.actor.id;
+    const path = req.originalUrl.split('?')[0];
+    const where = and(eq(idempotencyKeys.actorId, actorId), eq(idempotencyKeys.key, key));
+
+    // Take over a key whose first request died without an answer.
+    await db
+      .delete(idempotencyKeys)
+      .where(and(where, isNull(idempotencyKeys.statusCode), lt(idempotencyKeys.createdAt, new Date(Date.now() - STALE_MS))));
+    const inserted = await db
+      .insert(idempotencyKeys)
+      .values({ key, actorId, method: req.method, path })
+      .onConflictDoNothing()
+      .returning({ key: idempotencyKeys.key });
+    if (inserted.length === 1) {
+      captureResponse(res, actorId, key);
+      next();
+      return;
+    }
+
+    const [first] = await db.select().from(idempotencyKeys).where(where);
+    if (!first) throw new AppError('IDEMPOTENCY_IN_PROGRESS', 'A request with this Idempotency-Key was just released; send it again.', 409);
+    if (first.method !== req.method || first.path !== path) {
+      throw new AppError(
+        'IDEMPOTENCY_KEY_REUSED',
+        `This Idempotency-Key was already used for ${first.method} ${first.path}; use a new key for a different request.`,
+        422,
+      );
+    }
+    if (first.statusCode === null) {
+      throw new AppError('IDEMPOTENCY_IN_PROGRESS', 'The first request with this Idempotency-Key is still running; wait for it and retry.', 409);
+    }
+    res.set('Idempotent-Replayed', 'true');
+    if (first.responseBody === null) res.status(first.statusCode).end();
+    else res.status(first.statusCode).json(first.responseBody);
+  } catch (err) {
+    next(err);
+  }
+};
