@@ -1,4 +1,4 @@
-import { sql } from 'drizzle-orm';
+import { sql, type SQL } from 'drizzle-orm';
 import { db } from '../../db/client';
 import { notFound } from '../../errors';
 import { DRIVER_STATUSES } from '../../../shared/constants';
@@ -29,67 +29,62 @@ export interface LotTraceData {
 }
 
 const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
-/** A PostgreSQL array literal of UUIDs (validated ids from our own rows) for `= ANY(...)`. */
-const uuidArray = (ids: string[]) => `{${ids.join(',')}}`;
-
-async function lotHeader(lotId: string): Promise<TraceLot> {
-  const res = await db.execute(sql`
-    SELECT l.id, l.supplier_lot, l.status, l.received_at, l.certificate_id,
-           m.id AS material_id, m.code AS material_code, m.name AS material_name,
-           s.id AS supplier_id, s.name AS supplier_name
-    FROM lots l JOIN materials m ON m.id = l.material_id JOIN suppliers s ON s.id = l.supplier_id
-    WHERE l.id = ${lotId}`);
-  const r = res.rows[0] as unknown as LotRow | undefined;
-  if (!r) throw notFound('The lot');
-  return {
-    id: r.id, supplierLot: r.supplier_lot, status: r.status, receivedAt: iso(r.received_at)!, certificateId: r.certificate_id,
-    materialId: r.material_id, materialCode: r.material_code, materialName: r.material_name,
-    supplierId: r.supplier_id, supplierName: r.supplier_name,
-  };
-}
 
 /**
- * Every step run that used a container of the lot, directly or as a part of a mix. Each of
- * the three branches is an index lookup: containers by lot, then step_run_materials by
- * container or by mix (mixes by resin or hardener container).
+ * Step runs that used a container of the lot, directly or as a part of a mix. Each branch is an
+ * index lookup: containers by lot, then step_run_materials by container, or mixes by resin or
+ * hardener container and step_run_materials by mix.
  */
-async function lotUses(lotId: string): Promise<UseRow[]> {
-  const res = await db.execute(sql`
-    WITH lc AS (SELECT id, code FROM containers WHERE lot_id = ${lotId}),
-    used AS (
-      SELECT srm.step_run_id, lc.code AS container_code, NULL::text AS mix_code
-        FROM lc JOIN step_run_materials srm ON srm.container_id = lc.id
-      UNION
-      SELECT srm.step_run_id, lc.code, mx.code
-        FROM lc JOIN mixes mx ON mx.resin_container_id = lc.id JOIN step_run_materials srm ON srm.mix_id = mx.id
-      UNION
-      SELECT srm.step_run_id, lc.code, mx.code
-        FROM lc JOIN mixes mx ON mx.hardener_container_id = lc.id JOIN step_run_materials srm ON srm.mix_id = mx.id
-    )
-    SELECT sr.id AS step_run_id, sr.kind, sr.batch_id, sr.driver_id, d.serial AS driver_serial,
-           sr.step_id, rs.name AS step_name, rs.seq, st.code AS station_code, sr.started_at, sr.finished_at,
-           u.container_code, u.mix_code,
-           b.code AS batch_code, b.created_at AS batch_created_at, dm.id AS model_id, dm.code AS model_code, dm.name AS model_name
-    FROM used u
-    JOIN step_runs sr ON sr.id = u.step_run_id
-    JOIN recipe_steps rs ON rs.id = sr.step_id
-    JOIN stations st ON st.id = sr.station_id
-    JOIN build_batches b ON b.id = sr.batch_id
-    JOIN driver_models dm ON dm.id = b.model_id
-    LEFT JOIN drivers d ON d.id = sr.driver_id
-    ORDER BY sr.started_at, b.code, rs.seq, u.container_code, u.mix_code NULLS FIRST`);
-  return res.rows as unknown as UseRow[];
-}
-
-/** Drivers reached: every driver of a batch a whole-batch run used the lot in, plus the single units reworked with it. */
-async function reachedDrivers(batchIds: string[], driverIds: string[]): Promise<DriverRow[]> {
-  if (batchIds.length === 0 && driverIds.length === 0) return [];
-  const res = await db.execute(sql`
-    SELECT d.id, d.serial, d.status, d.batch_id FROM drivers d WHERE d.batch_id = ANY(${uuidArray(batchIds)}::uuid[])
+const lotRunsCte = (lotId: string) => sql`
+  lc AS (SELECT id, code FROM containers WHERE lot_id = ${lotId}),
+  used AS (
+    SELECT srm.step_run_id, lc.code AS container_code, NULL::text AS mix_code
+      FROM lc JOIN step_run_materials srm ON srm.container_id = lc.id
     UNION
-    SELECT d.id, d.serial, d.status, d.batch_id FROM drivers d WHERE d.id = ANY(${uuidArray(driverIds)}::uuid[])
-    ORDER BY serial`);
-  return res.rows as unknown as DriverRow[];
+    SELECT srm.step_run_id, lc.code, mx.code
+      FROM lc JOIN mixes mx ON mx.resin_container_id = lc.id JOIN step_run_materials srm ON srm.mix_id = mx.id
+    UNION
+    SELECT srm.step_run_id, lc.code, mx.code
+      FROM lc JOIN mixes mx ON mx.hardener_container_id = lc.id JOIN step_run_materials srm ON srm.mix_id = mx.id
+  )`;
+
+/**
+ * The three statements of a forward trace, independent of each other so they run side by side:
+ * the lot; its uses (step runs with batch, model, station); and the drivers reached — every
+ * driver of a batch a whole-batch run used the lot in, plus the single units reworked with it.
+ */
+export function lotTraceQueries(lotId: string): { header: SQL; uses: SQL; drivers: SQL } {
+  return {
+    header: sql`
+      SELECT l.id, l.supplier_lot, l.status, l.received_at, l.certificate_id,
+             m.id AS material_id, m.code AS material_code, m.name AS material_name,
+             s.id AS supplier_id, s.name AS supplier_name
+      FROM lots l JOIN materials m ON m.id = l.material_id JOIN suppliers s ON s.id = l.supplier_id
+      WHERE l.id = ${lotId}`,
+    uses: sql`
+      WITH ${lotRunsCte(lotId)}
+      SELECT sr.id AS step_run_id, sr.kind, sr.batch_id, sr.driver_id, d.serial AS driver_serial,
+             sr.step_id, rs.name AS step_name, rs.seq, st.code AS station_code, sr.started_at, sr.finished_at,
+             u.container_code, u.mix_code,
+             b.code AS batch_code, b.created_at AS batch_created_at, dm.id AS model_id, dm.code AS model_code, dm.name AS model_name
+      FROM used u
+      JOIN step_runs sr ON sr.id = u.step_run_id
+      JOIN recipe_steps rs ON rs.id = sr.step_id
+      JOIN stations st ON st.id = sr.station_id
+      JOIN build_batches b ON b.id = sr.batch_id
+      JOIN driver_models dm ON dm.id = b.model_id
+      LEFT JOIN drivers d ON d.id = sr.driver_id
+      ORDER BY sr.started_at, b.code, rs.seq, u.container_code, u.mix_code NULLS FIRST`,
+    drivers: sql`
+      WITH ${lotRunsCte(lotId)},
+      runs AS (SELECT DISTINCT sr.batch_id, sr.driver_id FROM used u JOIN step_runs sr ON sr.id = u.step_run_id)
+      SELECT d.id, d.serial, d.status, d.batch_id
+        FROM drivers d WHERE d.batch_id IN (SELECT batch_id FROM runs WHERE driver_id IS NULL)
+      UNION
+      SELECT d.id, d.serial, d.status, d.batch_id
+        FROM drivers d WHERE d.id IN (SELECT driver_id FROM runs WHERE driver_id IS NOT NULL)
+      ORDER BY serial`,
+  };
 }
 
 export function countByStatus(list: { status: TraceDriver['status'] }[]): DriverStatusCounts {
@@ -99,11 +94,18 @@ export function countByStatus(list: { status: TraceDriver['status'] }[]): Driver
 }
 
 export async function loadLotTrace(lotId: string): Promise<LotTraceData> {
-  const lot = await lotHeader(lotId);
-  const usesRaw = await lotUses(lotId);
+  const q = lotTraceQueries(lotId);
+  const [header, usesRes, reached] = await Promise.all([db.execute(q.header), db.execute(q.uses), db.execute(q.drivers)]);
+  const h = header.rows[0] as unknown as LotRow | undefined;
+  if (!h) throw notFound('The lot');
+  const lot: TraceLot = {
+    id: h.id, supplierLot: h.supplier_lot, status: h.status, receivedAt: iso(h.received_at)!, certificateId: h.certificate_id,
+    materialId: h.material_id, materialCode: h.material_code, materialName: h.material_name,
+    supplierId: h.supplier_id, supplierName: h.supplier_name,
+  };
+  const usesRaw = usesRes.rows as unknown as UseRow[];
+  const driverRows = reached.rows as unknown as DriverRow[];
   const wholeBatchIds = [...new Set(usesRaw.filter((u) => !u.driver_id).map((u) => u.batch_id))];
-  const singleDriverIds = [...new Set(usesRaw.filter((u) => u.driver_id).map((u) => u.driver_id as string))];
-  const driverRows = await reachedDrivers(wholeBatchIds, singleDriverIds);
 
   const driverById = new Map(driverRows.map((d) => [d.id, d]));
   const driversByBatch = new Map<string, DriverRow[]>();
