@@ -34,9 +34,13 @@ export default tseslint.config(
         'error',
         { argsIgnorePattern: '^_', varsIgnorePattern: '^_', caughtErrors: 'none', ignoreRestSiblings: true },
       ],
-      // Formatting is not the linter's job here; these Vue layout rules fight readable templates.
+      // Whitespace layout is not the linter's job here (as with a formatter): these Vue rules
+      // only move line breaks and indentation. Attribute order and self-closing stay on.
       'vue/max-attributes-per-line': 'off',
       'vue/singleline-html-element-content-newline': 'off',
+      'vue/first-attribute-linebreak': 'off',
+      'vue/html-indent': 'off',
+      'vue/html-closing-bracket-newline': 'off',
       'vue/html-self-closing': ['warn', { html: { void: 'always', normal: 'never', component: 'always' } }],
       // Quasar's QForm/QTable etc. have single-word names in the app too (e.g. App.vue).
       'vue/multi-word-component-names': ['error', { ignores: ['App'] }],
