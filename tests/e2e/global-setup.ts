@@ -31,7 +31,7 @@ function newestMtime(target: string): number {
 /** Builds the client when dist/ is missing or older than its sources. */
 function ensureClientBuilt(): void {
   const indexHtml = path.join(root, 'dist', 'index.html');
-  const sources = ['src', 'shared', 'index.html', 'vite.config.ts'].map((p) => newestMtime(path.join(root, p)));
+  const sources = ['src', 'shared', 'index.html', 'vite.config.ts', 'package-lock.json'].map((p) => newestMtime(path.join(root, p)));
   if (fs.existsSync(indexHtml) && fs.statSync(indexHtml).mtimeMs >= Math.max(...sources)) return;
   console.log('[e2e] building the client (vite build)…');
   const result = spawnSync(bin('vite'), ['build', '--logLevel', 'warn'], { cwd: root, stdio: 'inherit' });
