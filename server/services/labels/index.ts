@@ -52,9 +52,9 @@ async function labelData(where: { lotId?: string; containerIds?: string[] }): Pr
 export async function renderLabels(actor: Actor, query: LabelRenderQuery): Promise<string> {
   requireRole(actor, 'receiving', 'quality', 'admin');
   const layout = findLayout(query.layout);
-  if (!layout) throw fieldError('layout', `is not a known layout; use one of: ${labelLayouts().map((l) => l.id).join(', ')}`);
+  if (!layout) throw fieldError('query.layout', `is not a known layout; use one of: ${labelLayouts().map((l) => l.id).join(', ')}`);
   const perPage = layout.grid.cols * layout.grid.rows;
-  if (query.skip >= perPage) throw fieldError('skip', `must be less than the ${perPage} labels on one page`);
+  if (query.skip >= perPage) throw fieldError('query.skip', `must be less than the ${perPage} labels on one page`);
   if (query.lotId) {
     const [lot] = await db.select({ id: lots.id }).from(lots).where(eq(lots.id, query.lotId));
     if (!lot) throw notFound('The lot');
