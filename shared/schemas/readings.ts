@@ -6,7 +6,8 @@ export const READING_MAX_FUTURE_MS = 5 * 60 * 1000;
 
 const areaSchema = z.string().trim().min(1, 'is required').max(80, 'is at most 80 characters');
 const atSchema = instantSchema.refine(
-  (s) => Date.parse(s) <= Date.now() + READING_MAX_FUTURE_MS,
+  // (a malformed instant is reported once, by instantSchema)
+  (s) => Number.isNaN(Date.parse(s)) || Date.parse(s) <= Date.now() + READING_MAX_FUTURE_MS,
   'is in the future (more than 5 minutes ahead of the server clock)',
 );
 const tempSchema = z.number().min(-60, 'must be at least -60 °C').max(150, 'must be at most 150 °C');
