@@ -6,6 +6,14 @@ import type { ContainerResult } from '../../../shared/schemas/containers';
 import { containerExpiryOf, type LotRow, type MaterialRow } from '../lots/present';
 import { applyContainerAction, checkInUse, closeOutOfStorage } from './apply';
 
+const CAUSE_WORDS: Record<string, string> = {
+  supplier_expiry: "the supplier's expiry date",
+  shelf_life: 'its shelf life',
+  open_life: 'its after-opening life',
+  thawed_life: 'its allowed life after thawing',
+  out_of_storage: 'its allowed time out of cold storage',
+};
+
 function when(d: string): string {
   return `${d.slice(0, 16).replace('T', ' ')} UTC`;
 }
@@ -38,7 +46,7 @@ export async function openContainer(actor: Actor, id: string): Promise<Container
     }
     const expiry = containerExpiryOf(c, lot, material, now);
     if (isExpired(expiry, now)) {
-      throw conflict('EXPIRED', `Container ${c.code} (${material.name}) expired at ${when(expiry.at ?? '')} (${expiry.cause}); do not open it. Put it aside for disposal as the SDS says.`, {
+      throw conflict('EXPIRED', `Container ${c.code} (${material.name}) is past ${CAUSE_WORDS[expiry.cause ?? ''] ?? 'its expiry'} (since ${when(expiry.at ?? '')}); do not open it. Put it aside for disposal as the SDS says.`, {
         containerId: c.id, expiredAt: expiry.at, cause: expiry.cause,
       });
     }
