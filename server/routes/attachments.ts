@@ -8,6 +8,8 @@ import { attachmentDownloadQuerySchema, attachmentParamsSchema, UPLOAD_FIELD } f
 
 const upload = multer({
   storage: multer.memoryStorage(),
+  // Browsers send file names as UTF-8 without saying so (WHATWG HTML, multipart/form-data encoding).
+  defParamCharset: 'utf8',
   limits: { fileSize: config.maxUploadBytes, files: 1, fields: 10, fieldSize: 10_000, parts: 12 },
 }).single(UPLOAD_FIELD);
 
