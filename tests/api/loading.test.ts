@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '../../server/db/client';
 import { auditLog, containers, stationLoads } from '../../server/db/schema';
 import { loadResultSchema, stationLoadedSchema } from '../../shared/schemas/station-loads';
+import { randomContainerCode } from '../../server/services/receiving/codes';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
 import {
@@ -103,6 +104,17 @@ describe('loading: accepted', () => {
     const after = stationLoadedSchema.parse((await as(receiving).get(`/api/stations/${station.id}/loaded`)).body);
     expect(after.items.some((i) => i.container?.code === code)).toBe(false);
     expect((await as(assembler).post(`/api/stations/${station.id}/unload`, { containerCode: code })).status).toBe(404);
+  });
+
+  it('reads a label code typed in lower case or inside the label URL', async () => {
+    const lot = await createLot({ materialId: glue.id });
+    const code = randomContainerCode();
+    await db.update(containers).set({ code }).where(eq(containers.id, lot.containers[0].id));
+    const res = await load({ containerCode: `  ${code.toLowerCase()}\r\n` });
+    expect(res.status).toBe(200);
+    expect(res.body.container.code).toBe(code);
+    const viaUrl = await load({ containerCode: `https://plant.example/c/${code}` });
+    expect(viaUrl.body).toMatchObject({ alreadyLoaded: true, container: { code } });
   });
 
   it('accepts a mix within its pot life', async () => {

@@ -3,6 +3,8 @@ import { eq, inArray } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client';
 import { containers, lots, materials, mixes } from '../../db/schema';
 import { AppError } from '../../errors';
+import { looksLikeContainerCode, normalizeContainerCode } from '../../../shared/schemas/containers';
+import { containerCodeIn } from '../scans/resolvers/container';
 import type { ContainerRow, LotRow, MaterialRow, MixRow } from './usability';
 
 export interface ContainerContext { container: ContainerRow; lot: LotRow; material: MaterialRow }
@@ -12,7 +14,14 @@ function unknownCode(field: string, what: string, code: string): AppError {
   return new AppError('NOT_FOUND', `No ${what} has the code "${code}". Check the label and scan again.`, 404, [{ field, message: 'is not known' }]);
 }
 
-export async function containerByCode(tx: DbOrTx, code: string, field: string, lock = false): Promise<ContainerContext> {
+/** A scanned container label as stored: the code itself or inside a label URL, case and O/I/L slips mended. */
+export function scannedContainerCode(scanned: string): string {
+  const inner = containerCodeIn(scanned.trim()) ?? scanned.trim();
+  return looksLikeContainerCode(inner) ? normalizeContainerCode(inner) : inner;
+}
+
+export async function containerByCode(tx: DbOrTx, scanned: string, field: string, lock = false): Promise<ContainerContext> {
+  const code = scannedContainerCode(scanned);
   const q = tx
     .select({ container: containers, lot: lots, material: materials })
     .from(containers)

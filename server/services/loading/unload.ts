@@ -7,6 +7,7 @@ import { requireRole } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { findStation } from '../stations';
 import type { UnloadInput, UnloadResult } from '../../../shared/schemas/station-loads';
+import { scannedContainerCode } from './context';
 
 /** POST /api/stations/:id/unload — takes a container or mix off the station (the load record stays). */
 export async function unloadAtStation(actor: Actor, stationId: string, input: UnloadInput, now: Date = new Date()): Promise<UnloadResult> {
@@ -16,7 +17,7 @@ export async function unloadAtStation(actor: Actor, stationId: string, input: Un
     let target;
     if (input.loadId) target = eq(stationLoads.id, input.loadId);
     else if (input.containerCode) {
-      const [c] = await tx.select({ id: containers.id }).from(containers).where(eq(containers.code, input.containerCode));
+      const [c] = await tx.select({ id: containers.id }).from(containers).where(eq(containers.code, scannedContainerCode(input.containerCode)));
       target = eq(stationLoads.containerId, c?.id ?? '00000000-0000-0000-0000-000000000000');
     } else {
       const [m] = await tx.select({ id: mixes.id }).from(mixes).where(eq(mixes.code, input.mixCode!));
