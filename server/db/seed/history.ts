@@ -289,9 +289,14 @@ export function simulateHistory(
     return run;
   };
 
+  const perModelDay = new Map<string, number>();
   const newBatch = (modelCode: string, quantity: number, createdAt: DateTime): SimBatch => {
     batchCounter += 1;
-    const code = `${modelCode}-${createdAt.toFormat('yyMMdd')}-${String(batchCounter).padStart(3, '0')}`;
+    // <model code>-<yyMMdd>-<seq of the day>, as the batch service numbers them.
+    const prefix = `${modelCode}-${createdAt.toFormat('yyMMdd')}-`;
+    const seq = (perModelDay.get(prefix) ?? 0) + 1;
+    perModelDay.set(prefix, seq);
+    const code = `${prefix}${String(seq).padStart(2, '0')}`;
     const batch: SimBatch = {
       key: `B${batchCounter}`,
       code,

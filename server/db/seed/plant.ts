@@ -5,15 +5,14 @@ import type { Tx } from '../client';
 import * as s from '../schema';
 import { DEMO_DEFECT_CODES, DEMO_MATERIALS, DEMO_MODELS, DEMO_STATIONS, DEMO_SUPPLIERS } from './catalogue';
 import { simulateHistory, type SimContainer, type SimMix } from './history';
+import { CROCKFORD_ALPHABET, containerCodeFromBody } from '../../../shared/schemas/containers';
 
-const CROCKFORD = '0123456789ABCDEFGHJKMNPQRSTVWXYZ';
-
-/** Short random code with a prefix, e.g. C-7K2M9QXA (Crockford base32: no I, L, O, U). */
-export function demoCode(prefix: string): string {
+/** A container code in the format the receiving service issues (see shared/schemas/containers.ts). */
+function demoContainerCode(): string {
   const bytes = crypto.randomBytes(8);
-  let out = '';
-  for (let i = 0; i < 8; i++) out += CROCKFORD[bytes[i] % 32];
-  return `${prefix}-${out}`;
+  let body = '';
+  for (let i = 0; i < 8; i++) body += CROCKFORD_ALPHABET[bytes[i] % 32];
+  return containerCodeFromBody(body);
 }
 
 async function insertChunked<T>(rows: T[], size: number, insert: (chunk: T[]) => Promise<unknown>): Promise<void> {
@@ -97,7 +96,7 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
       .insert(s.containers)
       .values(
         lot.containers.map((c) => ({
-          code: demoCode('C'), lotId: row.id, seq: c.seq, quantity: String(c.quantity), remaining: String(Math.max(0, c.remaining)),
+          code: demoContainerCode(), lotId: row.id, seq: c.seq, quantity: String(c.quantity), remaining: String(Math.max(0, c.remaining)),
           status: c.remaining <= 0 ? ('empty' as const) : c.openedAt ? ('open' as const) : ('sealed' as const),
           openedAt: c.openedAt ? iso(c.openedAt) : null, thawedAt: c.thawedAt ? iso(c.thawedAt) : null, location: c.location,
         })),
@@ -118,11 +117,16 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
 
   // Mixes.
   const mixId = new Map<SimMix, string>();
+  const mixesPerDay = new Map<string, number>();
   for (const m of h.mixes) {
+    // MX-<yyMMdd>-<seq of the day>, as the mixing service numbers them.
+    const day = m.mixedAt.toFormat('yyMMdd');
+    const seq = (mixesPerDay.get(day) ?? 0) + 1;
+    mixesPerDay.set(day, seq);
     const [row] = await tx
       .insert(s.mixes)
       .values({
-        code: demoCode('M'), stationId: station.get(m.stationCode)!.id, resinContainerId: containerId.get(m.resin)!,
+        code: `MX-${day}-${String(seq).padStart(3, '0')}`, stationId: station.get(m.stationCode)!.id, resinContainerId: containerId.get(m.resin)!,
         hardenerContainerId: containerId.get(m.hardener)!, resinQuantity: String(m.resinQuantity),
         hardenerQuantity: String(m.hardenerQuantity), remaining: String(m.remaining), mixedAt: iso(m.mixedAt),
         potLifeEndsAt: iso(m.potLifeEndsAt), tempC: '23', status: m.status, mixedBy: assembler,
