@@ -36,11 +36,13 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: 'home', label: 'Home', icon: 'home', group: 'start' },
 
   { to: 'receiving.new', label: 'Receiving', icon: 'move_to_inbox', group: 'floor', roles: ['receiving', 'admin'] },
-  { to: 'labels.print', label: 'Labels', icon: 'qr_code_2', group: 'floor', roles: ['receiving'] },
+  { to: 'labels.print', label: 'Labels', icon: 'qr_code_2', group: 'floor', roles: ['receiving', 'quality', 'admin'] },
+  { to: 'scan.lookup', label: 'Scan a code', icon: 'qr_code_scanner', group: 'floor' },
   { to: 'station.work', label: 'Station', icon: 'precision_manufacturing', group: 'floor', roles: ['assembler'] },
   { to: 'batches.list', label: 'Batches', icon: 'layers', group: 'floor', roles: ['assembler', 'quality'] },
   { to: 'cure.board', label: 'Cure board', icon: 'timer', group: 'floor', roles: ['assembler', 'quality'] },
   { to: 'tests.final', label: 'Final test', icon: 'fact_check', group: 'floor', roles: ['assembler', 'quality'] },
+  { to: 'readings.list', label: 'Shop conditions', icon: 'device_thermostat', group: 'floor', roles: ['assembler', 'quality', 'admin'] },
 
   { to: 'lots.list', label: 'Lots', icon: 'inventory_2', group: 'oversight' },
   { to: 'trace.search', label: 'Trace', icon: 'account_tree', group: 'oversight', roles: ['quality'] },
@@ -48,7 +50,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: 'stock.overview', label: 'Stock & expiry', icon: 'event_busy', group: 'oversight', roles: ['purchasing'] },
 
   { to: 'catalogue.materials', label: 'Materials', icon: 'science', group: 'catalogue', roles: ['admin'] },
-  { to: 'catalogue.suppliers', label: 'Suppliers', icon: 'local_shipping', group: 'catalogue', roles: ['admin'] },
+  { to: 'catalogue.suppliers', label: 'Suppliers', icon: 'local_shipping', group: 'catalogue', roles: ['admin', 'purchasing'] },
   { to: 'catalogue.stations', label: 'Stations', icon: 'place', group: 'catalogue', roles: ['admin'] },
   { to: 'catalogue.models', label: 'Driver models', icon: 'speaker', group: 'catalogue', roles: ['admin'] },
 

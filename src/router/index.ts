@@ -4,6 +4,12 @@ import { useSessionStore } from '@/stores/session';
 import { rolesAllow } from '@/roles';
 import { safeRedirect } from './redirect';
 import { homeRoutes, notFoundRoute, publicRoutes } from './routes/core';
+import { productionRoutes } from './routes/production';
+import { traceRoutes } from './routes/trace';
+import { recipesRoutes } from './routes/recipes';
+import { lotsRoutes } from './routes/lots';
+import { materialsRoutes } from './routes/materials';
+import { receivingRoutes } from './routes/receiving';
 import './meta';
 
 // ---------------------------------------------------------------------------------------------
@@ -13,7 +19,12 @@ import './meta';
 // ---------------------------------------------------------------------------------------------
 const areaRoutes: RouteRecordRaw[] = [
   ...homeRoutes,
-  // ...lotsRoutes,
+  ...productionRoutes,
+  ...traceRoutes,
+  ...recipesRoutes,
+  ...lotsRoutes,
+  ...materialsRoutes,
+  ...receivingRoutes,
 ];
 
 export const routes: RouteRecordRaw[] = [

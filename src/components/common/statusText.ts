@@ -1,0 +1,69 @@
+import type { ContainerStatus, LotStatus } from '@shared/constants';
+
+/**
+ * How statuses read on screen: always a word, with a colour and an icon beside it (never
+ * colour alone). Colours are Quasar brand names from src/theme.ts.
+ */
+export interface StatusLook {
+  label: string;
+  color: string;
+  icon: string;
+  /** One sentence on what the status means in the plant. */
+  hint: string;
+}
+
+export const LOT_STATUS_LOOK: Record<LotStatus, StatusLook> = {
+  on_hold: { label: 'On hold', color: 'warning', icon: 'pause_circle', hint: 'Waiting for incoming inspection; not to be used yet.' },
+  released: { label: 'Released', color: 'positive', icon: 'check_circle', hint: 'Inspected and free to use.' },
+  quarantined: { label: 'Quarantined', color: 'negative', icon: 'block', hint: 'Suspect: blocked at every station until quality decides.' },
+  rejected: { label: 'Rejected', color: 'negative', icon: 'cancel', hint: 'Refused by quality; never to be used.' },
+  used_up: { label: 'Used up', color: 'grey-7', icon: 'inventory', hint: 'Every container is empty or scrapped.' },
+};
+
+export const CONTAINER_STATUS_LOOK: Record<ContainerStatus, StatusLook> = {
+  sealed: { label: 'Sealed', color: 'info', icon: 'lock', hint: 'Not opened yet.' },
+  open: { label: 'Open', color: 'primary', icon: 'lock_open', hint: 'In use; the after-opening life runs.' },
+  empty: { label: 'Empty', color: 'grey-7', icon: 'check_box_outline_blank', hint: 'Used up.' },
+  scrapped: { label: 'Scrapped', color: 'negative', icon: 'delete', hint: 'Thrown away (reason in the history).' },
+};
+
+export type StatusKind = 'lot' | 'container';
+
+export function statusLook(kind: StatusKind, status: string): StatusLook {
+  const table: Record<string, StatusLook> = kind === 'lot' ? LOT_STATUS_LOOK : CONTAINER_STATUS_LOOK;
+  return table[status] ?? { label: status.replace(/_/g, ' '), color: 'grey-7', icon: 'help', hint: '' };
+}
+
+/** Why an expiry is what it is, in words (causes from shared/expiry.ts). */
+export const EXPIRY_CAUSE_TEXT: Record<string, string> = {
+  supplier_expiry: "supplier's expiry date",
+  shelf_life: 'shelf life',
+  open_life: 'after-opening life',
+  thawed_life: 'life after thawing',
+  out_of_storage: 'time out of cold storage',
+  pot_life: 'pot life',
+};
+
+export function expiryCauseText(cause: string | null | undefined): string {
+  if (!cause) return '';
+  return EXPIRY_CAUSE_TEXT[cause] ?? cause.replace(/_/g, ' ');
+}
+
+export const STORAGE_CLASS_LOOK: Record<string, { label: string; icon: string }> = {
+  ambient: { label: 'Ambient', icon: 'thermostat' },
+  refrigerated: { label: 'Refrigerated', icon: 'kitchen' },
+  frozen: { label: 'Frozen', icon: 'ac_unit' },
+};
+
+export const MATERIAL_KIND_LABELS: Record<string, string> = {
+  adhesive: 'Adhesive',
+  activator: 'Activator',
+  hardener: 'Hardener',
+  wire: 'Wire',
+  magnet: 'Magnet',
+  cone: 'Cone',
+  spider: 'Spider',
+  dust_cap: 'Dust cap',
+  frame: 'Frame',
+  other: 'Other',
+};

@@ -1,0 +1,39 @@
+import type { Role, StorageClass } from '@shared/constants';
+import type { Container } from '@shared/schemas/containers';
+import type { ContainerAction } from '@/api/containers';
+
+export type ContainerMenuAction = ContainerAction | 'location' | 'scrap' | 'reprint';
+
+export interface ContainerMenuItem {
+  action: ContainerMenuAction;
+  label: string;
+  icon: string;
+}
+
+const HANDLERS: readonly Role[] = ['receiving', 'assembler', 'quality'];
+
+/**
+ * The actions a person may take on a container now, by its state, the material's storage
+ * class and the person's roles. The client only hides; the server checks again and says why
+ * it refuses.
+ */
+export function containerMenu(
+  c: Pick<Container, 'status' | 'thawedAt' | 'outOfStorageSince'>,
+  storageClass: StorageClass,
+  roles: readonly Role[],
+): ContainerMenuItem[] {
+  const has = (allowed: readonly Role[]) => allowed.some((r) => roles.includes(r));
+  const live = c.status === 'sealed' || c.status === 'open';
+  const items: ContainerMenuItem[] = [];
+  if (has(HANDLERS) && live) {
+    if (storageClass === 'frozen' && !c.thawedAt && c.status === 'sealed') items.push({ action: 'thaw', label: 'Record the end of the thaw', icon: 'ac_unit' });
+    if (c.status === 'sealed' && (storageClass !== 'frozen' || c.thawedAt)) items.push({ action: 'open', label: 'Open', icon: 'lock_open' });
+    if (storageClass === 'refrigerated' && !c.outOfStorageSince) items.push({ action: 'out-of-storage', label: 'Take out of cold storage', icon: 'logout' });
+    if (storageClass === 'refrigerated' && c.outOfStorageSince) items.push({ action: 'return-to-storage', label: 'Back into cold storage', icon: 'login' });
+    items.push({ action: 'location', label: 'Move to another location', icon: 'place' });
+    items.push({ action: 'empty', label: 'Mark empty', icon: 'check_box_outline_blank' });
+  }
+  if (has(['quality', 'receiving']) && live) items.push({ action: 'scrap', label: 'Scrap…', icon: 'delete' });
+  if (has(['receiving', 'quality', 'admin'])) items.push({ action: 'reprint', label: 'Reprint its label', icon: 'print' });
+  return items;
+}

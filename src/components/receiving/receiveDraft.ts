@@ -1,0 +1,60 @@
+import type { ReceiveLotInput } from '@shared/schemas/lots';
+
+/** What the receiving form's fields hold (strings as the inputs give them). */
+export interface ReceiveDraft {
+  materialId: string | null;
+  supplierId: string | null;
+  supplierLot: string;
+  containers: number | string | null;
+  quantityPerContainer: number | string | null;
+  manufacturedOn: string;
+  expiresOn: string;
+  /** datetime-local value (plant time); empty = now. */
+  receivedAt: string;
+  gtin: string;
+  location: string;
+  notes: string;
+}
+
+export const RECEIVE_FIELDS = [
+  'materialId', 'supplierId', 'supplierLot', 'containers', 'quantityPerContainer', 'manufacturedOn', 'expiresOn',
+  'receivedAt', 'gtin', 'location', 'notes',
+] as const;
+
+export function emptyReceiveDraft(): ReceiveDraft {
+  return {
+    materialId: null, supplierId: null, supplierLot: '', containers: 1, quantityPerContainer: null, manufacturedOn: '',
+    expiresOn: '', receivedAt: '', gtin: '', location: '', notes: '',
+  };
+}
+
+function numberOrUndefined(v: number | string | null): number | undefined {
+  if (v === null || v === '') return undefined;
+  const n = Number(v);
+  return Number.isNaN(n) ? undefined : n;
+}
+
+/** A datetime-local value ("2026-03-04T07:30", local time) as an ISO instant; '' → undefined. */
+export function localToIso(value: string): string | undefined {
+  if (!value) return undefined;
+  const d = new Date(value);
+  return Number.isNaN(d.getTime()) ? value : d.toISOString();
+}
+
+/** The POST /api/lots body for the draft (checked with receiveLotInputSchema before sending). */
+export function draftToReceiveInput(d: ReceiveDraft, confirmDuplicate = false): ReceiveLotInput {
+  return {
+    materialId: d.materialId ?? undefined,
+    supplierId: d.supplierId ?? undefined,
+    supplierLot: d.supplierLot,
+    containers: numberOrUndefined(d.containers),
+    quantityPerContainer: numberOrUndefined(d.quantityPerContainer),
+    manufacturedOn: d.manufacturedOn || null,
+    expiresOn: d.expiresOn || null,
+    receivedAt: localToIso(d.receivedAt) ?? null,
+    gtin: d.gtin.trim() || null,
+    location: d.location,
+    notes: d.notes,
+    confirmDuplicate,
+  } as ReceiveLotInput;
+}

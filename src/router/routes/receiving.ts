@@ -1,0 +1,23 @@
+import type { RouteRecordRaw } from 'vue-router';
+
+/** Receiving dock: receive lots, print their labels, look up scanned codes. */
+export const receivingRoutes: RouteRecordRaw[] = [
+  {
+    path: 'receiving',
+    name: 'receiving.new',
+    component: () => import('@/pages/receiving/ReceivePage.vue'),
+    meta: { roles: ['receiving', 'admin'], title: 'Receive a lot' },
+  },
+  {
+    path: 'labels',
+    name: 'labels.print',
+    component: () => import('@/pages/labels/LabelsPage.vue'),
+    meta: { roles: ['receiving', 'quality', 'admin'], title: 'Labels' },
+  },
+  {
+    path: 'scan',
+    name: 'scan.lookup',
+    component: () => import('@/pages/scan/ScanPage.vue'),
+    meta: { title: 'Scan' },
+  },
+];
