@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { BATCH_STATUSES, DRIVER_STATUSES } from '../constants';
 import { idSchema, instantSchema, paginationQuerySchema } from './common';
 import { stepRunSchema } from './steps';
+import { driverBatchSchema, driverSchema } from './drivers';
 
 export const batchStatusSchema = z.enum(BATCH_STATUSES);
 
@@ -94,3 +95,16 @@ export const batchDetailSchema = z.object({
   reworkRuns: z.array(stepRunSchema),
 });
 export type BatchDetail = z.infer<typeof batchDetailSchema>;
+
+/** POST /api/scans/resolve answer for a batch's code (the traveler label). */
+export const batchScanResultSchema = z.object({
+  type: z.literal('batch'),
+  batch: batchSchema,
+  /** The first step not yet finished, where the batch goes next (null when all are done). */
+  currentStep: z.object({ id: idSchema, seq: z.number().int(), name: z.string(), stationKind: z.string() }).nullable(),
+});
+export type BatchScanResult = z.infer<typeof batchScanResultSchema>;
+
+/** POST /api/scans/resolve answer for a driver's serial. */
+export const driverScanResultSchema = z.object({ type: z.literal('driver'), driver: driverSchema, batch: driverBatchSchema });
+export type DriverScanResult = z.infer<typeof driverScanResultSchema>;

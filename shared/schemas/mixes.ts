@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { MIX_STATUSES } from '../constants';
 import { idSchema, instantSchema } from './common';
+import { expiryCauseSchema } from './station-loads';
 
 const scannedCode = z.string().trim().min(1, 'is required').max(200, 'is at most 200 characters');
 const quantity = z.number().positive('must be more than 0').max(1_000_000, 'is too large');
@@ -54,3 +55,13 @@ export const mixTemperatureSchema = z.object({
 /** 201 answer of POST /api/stations/:id/mixes and GET /api/mixes/:id. */
 export const mixResultSchema = z.object({ mix: mixSchema, temperature: mixTemperatureSchema.optional() });
 export type MixResult = z.infer<typeof mixResultSchema>;
+
+/** POST /api/scans/resolve answer for a mix's code. */
+export const mixScanResultSchema = z.object({
+  type: z.literal('mix'),
+  mix: mixSchema,
+  /** Effective expiry: the pot-life end, or an earlier limit of a part's lot. */
+  expiresAt: instantSchema,
+  expiryCause: expiryCauseSchema,
+});
+export type MixScanResult = z.infer<typeof mixScanResultSchema>;

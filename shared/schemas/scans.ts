@@ -2,6 +2,9 @@ import { z } from 'zod';
 import { containerSchema } from './containers';
 import { lotSchema } from './lots';
 import { materialSchema, orRequired } from './materials';
+import { stationScanResultSchema } from './stations';
+import { batchScanResultSchema, driverScanResultSchema } from './batches';
+import { mixScanResultSchema } from './mixes';
 
 /**
  * POST /api/scans/resolve: what a scanned (or typed) code is.
@@ -53,5 +56,9 @@ export type Gs1ScanResult = z.infer<typeof gs1ScanResultSchema>;
 export const scanResultSchema = z.discriminatedUnion('type', [
   containerScanResultSchema,
   gs1ScanResultSchema,
+  stationScanResultSchema,
+  batchScanResultSchema,
+  mixScanResultSchema,
+  driverScanResultSchema,
 ]);
 export type ScanResult = z.infer<typeof scanResultSchema>;

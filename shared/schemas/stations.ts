@@ -60,3 +60,7 @@ export const stationListSchema = z.object({ items: z.array(stationSchema) });
 export type StationList = z.infer<typeof stationListSchema>;
 
 export const idParamsSchema = z.object({ id: idSchema });
+
+/** POST /api/scans/resolve answer for a station's code. */
+export const stationScanResultSchema = z.object({ type: z.literal('station'), station: stationSchema });
+export type StationScanResult = z.infer<typeof stationScanResultSchema>;

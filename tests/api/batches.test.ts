@@ -3,7 +3,9 @@ import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '../../server/db/client';
 import { auditLog, drivers } from '../../server/db/schema';
-import { batchCreatedSchema, batchDetailSchema, batchPageSchema } from '../../shared/schemas/batches';
+import {
+  batchCreatedSchema, batchDetailSchema, batchPageSchema, batchScanResultSchema, driverScanResultSchema,
+} from '../../shared/schemas/batches';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
 import { createBatch, createLot, createMaterial, createModel, createStation, createStepRun, hoursAgo } from '../helpers/fixtures';
@@ -103,5 +105,17 @@ describe('build batches', () => {
     detail = batchDetailSchema.parse((await as(receiving).get(`/api/batches/${old.id}`)).body);
     expect(detail.steps.map((s) => s.state)).toEqual(['done', 'running']);
     expect((await as(receiving).get('/api/batches/00000000-0000-4000-8000-000000000000')).status).toBe(404);
+  });
+
+  it('scanning a traveler resolves the batch and where it goes next; scanning a serial resolves the driver', async () => {
+    const batch = await createBatch({ modelId: model.id, quantity: 2 });
+    const res = await as(receiving).post('/api/scans/resolve', { code: `${batch.code.toLowerCase()}\r\n` });
+    expect(res.status).toBe(200);
+    const scanned = batchScanResultSchema.parse(res.body);
+    expect(scanned.batch.id).toBe(batch.id);
+    expect(scanned.currentStep).toMatchObject({ id: model.steps[0].id, stationKind: station.kind });
+    const unit = await as(receiving).post('/api/scans/resolve', { code: batch.drivers[1].serial });
+    expect(driverScanResultSchema.parse(unit.body)).toMatchObject({ driver: { id: batch.drivers[1].id }, batch: { id: batch.id } });
+    expect((await as(receiving).post('/api/scans/resolve', { code: `${batch.code}-9999` })).status).toBe(404);
   });
 });

@@ -2,7 +2,7 @@ import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '../../server/db/client';
 import { containers, mixes } from '../../server/db/schema';
-import { mixResultSchema } from '../../shared/schemas/mixes';
+import { mixResultSchema, mixScanResultSchema } from '../../shared/schemas/mixes';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
 import { createLot, createMaterial, createReading, createStation, createTwoPart, hoursAgo, minutesAgo } from '../helpers/fixtures';
@@ -99,5 +99,15 @@ describe('two-part mixes', () => {
       expect([c.remaining, c.status, c.openedAt]).toEqual(['10.000', 'sealed', null]);
     }
     expect(await db.select().from(mixes).where(eq(mixes.stationId, st.id))).toHaveLength(0);
+  });
+
+  it('scanning a mix code resolves the mix with its pot-life end', async () => {
+    const st = await createStation();
+    const p = await parts();
+    const made = mixResultSchema.parse((await as(assembler).post(`/api/stations/${st.id}/mixes`, { resinCode: p.resinCode, hardenerCode: p.hardenerCode, resinQuantity: 2, hardenerQuantity: 1 })).body);
+    const res = await as(quality).post('/api/scans/resolve', { code: made.mix.code });
+    expect(res.status).toBe(200);
+    const scanned = mixScanResultSchema.parse(res.body);
+    expect(scanned).toMatchObject({ mix: { id: made.mix.id }, expiresAt: made.mix.potLifeEndsAt, expiryCause: 'pot_life' });
   });
 });

@@ -2,7 +2,7 @@ import { and, eq, isNull } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '../../server/db/client';
 import { auditLog, stationLoads } from '../../server/db/schema';
-import { stationListSchema, stationSchema } from '../../shared/schemas/stations';
+import { stationListSchema, stationScanResultSchema, stationSchema } from '../../shared/schemas/stations';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
 import { createBatch, createLot, createMaterial, createModel, createStation, createStationLoad, sfx } from '../helpers/fixtures';
@@ -77,5 +77,12 @@ describe('stations', () => {
     const all = stationListSchema.parse((await as(admin).get('/api/stations?includeRetired=true')).body);
     expect(all.items.some((s) => s.id === st.id)).toBe(true);
     expect((await as(admin).post('/api/stations/00000000-0000-4000-8000-000000000000/retire')).status).toBe(404);
+  });
+
+  it('scanning a station label resolves the station', async () => {
+    const st = await createStation();
+    const res = await as(assembler).post('/api/scans/resolve', { code: st.code });
+    expect(res.status).toBe(200);
+    expect(stationScanResultSchema.parse(res.body).station).toMatchObject({ id: st.id, kind: st.kind, area: st.area });
   });
 });

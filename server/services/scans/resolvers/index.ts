@@ -1,6 +1,10 @@
 import type { ScanResolver } from '../types';
 import { containerResolver } from './container';
 import { gs1Resolver } from './gs1';
+import { stationResolver } from './station';
+import { batchResolver } from './batch';
+import { mixResolver } from './mix';
+import { driverResolver } from './driver';
 
 /**
  * Asked in this order; the first that recognises a code answers. To add a type (station,
@@ -10,5 +14,10 @@ import { gs1Resolver } from './gs1';
  */
 export const resolvers: ScanResolver[] = [
   containerResolver,
+  // Looked up by exact code (null when no such record), before GS1 reads digits as element strings.
+  mixResolver,
+  batchResolver,
+  driverResolver,
+  stationResolver,
   gs1Resolver,
 ];
