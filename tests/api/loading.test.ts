@@ -72,6 +72,11 @@ describe('loading at a station: access and input', () => {
     expect(unknown.status).toBe(404);
     expect(unknown.body.error.details[0].field).toBe('containerCode');
     expect((await as().get(`/api/stations/${station.id}/loaded`)).status).toBe(401);
+    expect((await as().post(`/api/stations/${station.id}/unload`, body)).status).toBe(401);
+    expect((await as(receiving).post(`/api/stations/${station.id}/unload`, body)).status).toBe(403);
+    const noTarget = await as(assembler).post(`/api/stations/${station.id}/unload`, {});
+    expect(noTarget.status).toBe(400);
+    expect(noTarget.body.error.details[0].field).toBe('loadId');
   });
 });
 

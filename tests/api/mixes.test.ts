@@ -65,6 +65,8 @@ describe('two-part mixes', () => {
     const got = mixResultSchema.parse((await as(quality).get(`/api/mixes/${mix.id}`)).body);
     expect(got.mix.code).toBe(mix.code);
     expect((await as(quality).get('/api/mixes/00000000-0000-4000-8000-000000000000')).status).toBe(404);
+    expect((await as().get(`/api/mixes/${mix.id}`)).status).toBe(401);
+    expect((await as(quality).get('/api/mixes/not-an-id')).body.error.details[0].field).toBe('params.id');
   });
 
   it('without a recent reading the reference temperature is used, and says so', async () => {

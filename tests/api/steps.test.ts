@@ -123,6 +123,7 @@ describe('steps: run, consume, cure clock, gate', () => {
     expect(cure.status).toBe(200);
     expect(Date.parse(cure.body.items[0].cureCompleteAt)).toBe(s.finishedAt.getTime() + 12.5 * HOUR);
     expect(cure.body.items[0].ready).toBe(true);
+    expect((await as().get(`/api/batches/${s.batch.id}/cure`)).status).toBe(401);
     const res = await start(s.batch.id, model.steps[1].id, s.nextStation.id);
     expect(res.status).toBe(200);
     expect(res.body.stepRun.shortCure).toBe(false);
@@ -171,6 +172,7 @@ describe('deviations: a quality decision to start before full cure', () => {
     expect(used.usedAt).not.toBeNull();
     const list = await as(receiving).get(`/api/deviations?batchId=${s.batch.id}`);
     expect(list.body.items.map((d: { id: string }) => d.id)).toEqual([deviation.id]);
+    expect((await as().get(`/api/deviations?batchId=${s.batch.id}`)).status).toBe(401);
   });
 });
 
