@@ -32,8 +32,11 @@ export const labelLayoutSchema = z.object({
   paddingMm: mm,
   qr: z.object({ sizeMm: positiveMm }),
   fontPt: z.object({ title: z.number().positive(), body: z.number().positive(), small: z.number().positive() }),
-  /** GHS pictograms: edge length of each diamond's bounding square, and how many fit. */
-  pictogram: z.object({ sizeMm: positiveMm, max: z.number().int().min(1).max(9) }),
+  /**
+   * GHS pictograms: edge length of each diamond's bounding square. All of a material's
+   * pictograms are printed in one row beside the signal word, smaller when many must fit.
+   */
+  pictogram: z.object({ sizeMm: positiveMm }),
   /**
    * Text lines beside the QR code, top to bottom; a line with several fields joins them with
    * " · ". The first line is printed in the title size. The container code is always printed

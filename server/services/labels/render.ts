@@ -28,6 +28,8 @@ export interface LabelData {
   hazards: { signalWord?: 'Danger' | 'Warning'; pictograms: string[] };
 }
 
+const n = (x: number) => `${Number(x.toFixed(3))}mm`;
+
 const HTML_ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };
 
 export function escapeHtml(text: string): string {
@@ -68,13 +70,32 @@ function fieldText(field: LabelField, d: LabelData, zone: string): string {
   }
 }
 
+/** 1 pt = 1/72 in = 25.4/72 mm (the desktop-publishing point). */
+export const PT_MM = 25.4 / 72;
+const GAP_MM = 0.5;
+
+/** Width of the text column beside the QR code. */
+export function textColumnMm(layout: LabelLayout): number {
+  return layout.label.widthMm - 2 * layout.paddingMm - layout.qr.sizeMm - 1.2;
+}
+
+/**
+ * Pictogram size for `count` pictograms: the layout's size, smaller when they would not fit in
+ * one row beside the signal word (a bold upper-case word is at most about 0.75 em per letter),
+ * but never under 60 % of it (then the row wraps). Every pictogram is always printed.
+ */
+export function pictogramSizeMm(layout: LabelLayout, count: number, signalWord?: string): number {
+  if (count === 0) return 0;
+  const signalMm = signalWord ? signalWord.length * 0.75 * layout.fontPt.body * PT_MM + 1 : 0;
+  const fit = (textColumnMm(layout) - signalMm - GAP_MM * (count - 1)) / count;
+  return Math.max(Math.min(layout.pictogram.sizeMm, fit), layout.pictogram.sizeMm * 0.6);
+}
+
 function hazardBlock(layout: LabelLayout, d: LabelData): string {
   const codes = d.hazards.pictograms.filter((p): p is GhsPictogram => (GHS_PICTOGRAMS as readonly string[]).includes(p));
   if (codes.length === 0 && !d.hazards.signalWord) return '';
-  const shown = codes.slice(0, layout.pictogram.max);
-  const more = codes.length - shown.length;
-  return `<div class="hazards">${shown.map((c) => `<span class="ghs" title="${c}">${ghsSvg(c)}</span>`).join('')}`
-    + (more > 0 ? `<span class="more">+${more}</span>` : '')
+  const size = n(pictogramSizeMm(layout, codes.length, d.hazards.signalWord));
+  return `<div class="hazards">${codes.map((c) => `<span class="ghs" title="${c}" style="width: ${size}; height: ${size}">${ghsSvg(c)}</span>`).join('')}`
     + (d.hazards.signalWord ? `<span class="signal">${escapeHtml(d.hazards.signalWord)}</span>` : '')
     + '</div>';
 }
@@ -87,8 +108,6 @@ async function labelHtml(layout: LabelLayout, d: LabelData, zone: string): Promi
   return `<div class="label"><div class="qr">${await qrSvg(d.code)}<div class="code">${escapeHtml(d.code)}</div></div>`
     + `<div class="text">${lines.join('')}${hazardBlock(layout, d)}</div></div>`;
 }
-
-const n = (x: number) => `${Number(x.toFixed(3))}mm`;
 
 export function layoutCss(layout: LabelLayout): string {
   const { page, label, grid, marginsMm: m, gapMm: g, fontPt: f } = layout;
@@ -107,10 +126,10 @@ body { font-family: 'Noto Sans', 'DejaVu Sans', Arial, sans-serif; color: #000; 
 .text { flex: 1; min-width: 0; font-size: ${f.body}pt; line-height: 1.15; }
 .line { white-space: nowrap; overflow: hidden; text-overflow: ellipsis; }
 .title { font-size: ${f.title}pt; font-weight: 700; white-space: normal; display: -webkit-box; -webkit-line-clamp: 2; -webkit-box-orient: vertical; }
-.hazards { display: flex; align-items: center; gap: 0.5mm; margin-top: 0.5mm; }
-.ghs svg { width: ${n(layout.pictogram.sizeMm)}; height: ${n(layout.pictogram.sizeMm)}; display: block; }
+.hazards { display: flex; flex-wrap: wrap; align-items: center; gap: ${n(GAP_MM)}; margin-top: 0.5mm; }
+.ghs { flex: none; }
+.ghs svg { width: 100%; height: 100%; display: block; }
 .signal { font-weight: 700; text-transform: uppercase; margin-left: 0.8mm; }
-.more { font-size: ${f.small}pt; }
 .screen-note { font: 10pt/1.4 'Noto Sans', Arial, sans-serif; max-width: 180mm; margin: 6mm auto; }
 @media screen { body { background: #e7e9ec; } .page { background: #fff; margin: 6mm auto; box-shadow: 0 0.5mm 2mm rgba(0,0,0,.25); } .label { outline: 0.2mm dashed #b8bcc4; } }
 @media print { .screen-note { display: none; } }`;
