@@ -2,7 +2,7 @@
 // Entry point of `npm start`, `npm test`, `npm run dev` and `npm run bench`.
 // Plain Node (builtins only): the dependencies may not be installed yet. It installs them when
 // node_modules is missing or older than package-lock.json, then hands over to
-// `tsx scripts/<command>.ts`, forwarding signals and the exit code.
+// `tsx scripts/<command>.ts` (node --import tsx), forwarding signals and the exit code.
 import { spawn, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
@@ -63,8 +63,10 @@ if (dependenciesStale()) {
 const scriptPath = path.join(root, 'scripts', script);
 if (!fs.existsSync(scriptPath)) fail(`scripts/${script} does not exist yet.`);
 
-const tsx = path.join(root, 'node_modules', '.bin', 'tsx');
-const child = spawn(process.execPath, [tsx, scriptPath, ...args], { cwd: root, stdio: 'inherit', env: process.env });
+// tsx loaded into this one node process (`node --import tsx`, what node_modules/.bin/tsx does
+// without its extra parent process): tsx's CLI parent relays signals and SIGKILLs a child that
+// does not confirm one within 30 ms, which could kill a script before it stops its cluster.
+const child = spawn(process.execPath, ['--import', 'tsx', scriptPath, ...args], { cwd: root, stdio: 'inherit', env: process.env });
 
 // Forward termination signals. (Ctrl-C in a terminal reaches the child directly too; the
 // scripts' handlers are idempotent.)

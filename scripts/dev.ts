@@ -7,7 +7,7 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import path from 'node:path';
 import { ensureDatabase, providePostgres } from './pg';
 import { jwtSecret, prepareDatabase, printWelcome } from './lib/app';
-import { isShuttingDown, log, onShutdown, root, runMain, stopChild, waitForExit } from './lib/proc';
+import { CHILD_STDIO, isShuttingDown, log, onShutdown, root, runMain, stopChild, waitForExit } from './lib/proc';
 
 runMain(async () => {
   const port = Number(process.env.PORT || 3000);
@@ -25,8 +25,8 @@ runMain(async () => {
     TACKLOG_SERVE_CLIENT: '0',
   };
   const children: ChildProcess[] = [
-    spawn(process.execPath, [bin('tsx'), 'watch', '--clear-screen=false', 'server/index.ts'], { cwd: root, stdio: 'inherit', env }),
-    spawn(process.execPath, [bin('vite')], { cwd: root, stdio: 'inherit', env }),
+    spawn(process.execPath, [bin('tsx'), 'watch', '--clear-screen=false', 'server/index.ts'], { cwd: root, stdio: CHILD_STDIO, detached: true, env }),
+    spawn(process.execPath, [bin('vite')], { cwd: root, stdio: CHILD_STDIO, detached: true, env }),
   ];
   onShutdown(() => Promise.all(children.map((c) => stopChild(c))).then(() => undefined));
   await printWelcome('http://127.0.0.1:5173 (API on port ' + port + ')');

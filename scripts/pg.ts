@@ -91,6 +91,7 @@ function pgUserCanUse(dir: string): boolean {
 
 /** Creates `dir` for the cluster, owned by the user that runs PostgreSQL. */
 function makeOwnedDir(dir: string): void {
+  fs.mkdirSync(path.dirname(dir), { recursive: true });
   fs.mkdirSync(dir, { recursive: true, mode: 0o700 });
   if (isRoot()) {
     const { uid, gid } = pgUserIds();
@@ -100,6 +101,11 @@ function makeOwnedDir(dir: string): void {
     const parent = path.dirname(dir);
     if (parent.startsWith(root) && (fs.statSync(parent).mode & 0o001) === 0) fs.chmodSync(parent, 0o755);
   }
+}
+
+/** A folder as people read it: relative inside the project, absolute elsewhere. */
+function shown(dir: string): string {
+  return dir.startsWith(root + path.sep) ? path.relative(root, dir) : dir;
 }
 
 // ---------------------------------------------------------------- ports
@@ -249,7 +255,7 @@ export async function startLocalCluster(options: LocalClusterOptions): Promise<P
     }
     bin = matching;
   } else {
-    log(`initialising a PostgreSQL cluster in ${path.relative(root, dataDir) || dataDir}`);
+    log(`initialising a PostgreSQL cluster in ${shown(dataDir)}`);
     const [cmd, args] = asPgUser(path.join(bin, 'initdb'), [
       '-D', dataDir, `--username=${SUPERUSER}`, '--auth=trust', '--encoding=UTF8', '--no-locale', '--no-instructions',
     ]);
@@ -263,23 +269,38 @@ export async function startLocalCluster(options: LocalClusterOptions): Promise<P
     url: (name: string) => `postgres://${SUPERUSER}@127.0.0.1:${p}/${encodeURIComponent(name)}`,
   });
 
-  const runningPort = checkPidFile(dataDir);
-  if (runningPort !== null) {
-    log(`PostgreSQL is already running from ${path.relative(root, dataDir) || dataDir} on port ${runningPort}; using it (it is left running)`);
-    const server: PgServer = { ...urls(runningPort), startedHere: false, stop() {} };
-    await waitUntilAccepting(server.adminUrl);
-    return server;
-  }
+  // Which process runs the cluster of a kept folder, so a second script can tell a cluster in
+  // use (shared, left running) from one whose script was killed (taken over, stopped with us).
+  const ownerFile = `${dataDir}.owner`;
+  const readOwner = () => {
+    try {
+      return Number(fs.readFileSync(ownerFile, 'utf8').trim());
+    } catch {
+      return 0;
+    }
+  };
+  const claim = () => {
+    if (!throwaway) fs.writeFileSync(ownerFile, `${process.pid}\n`);
+  };
 
   // What this process started, so that every way out stops it.
-  const state = { mayBeRunning: false, socketTmp: null as string | null };
-  const pgCtlStop = (): boolean => {
-    if (!state.mayBeRunning) return true;
+  const state = { mayBeRunning: false, socketTmp: null as string | null, postmasterPid: 0 };
+  const postmasterPid = () => {
+    try {
+      return Number(fs.readFileSync(path.join(dataDir, 'postmaster.pid'), 'utf8').split('\n')[0]);
+    } catch {
+      return 0;
+    }
+  };
+  const pgCtlStop = (): 'stopped' | 'failed' | 'none' => {
+    if (!state.mayBeRunning) return 'none';
     state.mayBeRunning = false;
+    // Only the postmaster we started or took over: not a later one in the same folder.
+    if (state.postmasterPid !== 0 && postmasterPid() !== state.postmasterPid) return 'none';
     const [cmd, args] = asPgUser(pgCtl, ['-D', dataDir, '-m', 'fast', '-w', '-t', '30', 'stop']);
-    if (spawnSync(cmd, args, { encoding: 'utf8' }).status === 0) return true;
+    if (spawnSync(cmd, args, { encoding: 'utf8' }).status === 0) return 'stopped';
     const [c2, a2] = asPgUser(pgCtl, ['-D', dataDir, '-m', 'immediate', '-w', 'stop']);
-    return spawnSync(c2, a2, { encoding: 'utf8' }).status === 0;
+    return spawnSync(c2, a2, { encoding: 'utf8' }).status === 0 ? 'stopped' : 'failed';
   };
   const removeSocketTmp = () => {
     if (state.socketTmp) fs.rmSync(state.socketTmp, { recursive: true, force: true });
@@ -289,13 +310,34 @@ export async function startLocalCluster(options: LocalClusterOptions): Promise<P
   const stop = () => {
     if (stopped) return;
     stopped = true;
-    const wasRunning = state.mayBeRunning;
-    const ok = pgCtlStop();
-    if (wasRunning) log(ok ? 'PostgreSQL stopped' : 'PostgreSQL did not stop cleanly (see its server.log)');
+    const result = pgCtlStop();
+    if (result === 'stopped') log('PostgreSQL stopped');
+    if (result === 'failed') log('PostgreSQL did not stop cleanly (see its server.log)');
     removeSocketTmp();
     if (throwaway) fs.rmSync(dataDir, { recursive: true, force: true });
+    else if (readOwner() === process.pid) fs.rmSync(ownerFile, { force: true });
   };
   onExit(stop);
+
+  const runningPort = checkPidFile(dataDir);
+  if (runningPort !== null) {
+    const where = shown(dataDir);
+    const owner = readOwner();
+    if (owner > 0 && owner !== process.pid && processAlive(owner)) {
+      log(`PostgreSQL is already running from ${where} on port ${runningPort} for process ${owner}; sharing it (it is left running)`);
+      stopped = true;
+      const shared: PgServer = { ...urls(runningPort), startedHere: false, stop() {} };
+      await waitUntilAccepting(shared.adminUrl);
+      return shared;
+    }
+    log(`PostgreSQL was left running from ${where} on port ${runningPort}; taking it over (it stops when this script does)`);
+    state.mayBeRunning = true;
+    state.postmasterPid = postmasterPid();
+    claim();
+    const adopted: PgServer = { ...urls(runningPort), startedHere: true, stop };
+    await waitUntilAccepting(adopted.adminUrl);
+    return adopted;
+  }
 
   for (let attempt = 1; ; attempt++) {
     if (await portInUse(port)) {
@@ -323,6 +365,8 @@ export async function startLocalCluster(options: LocalClusterOptions): Promise<P
     const [cmd, args] = asPgUser(pgCtl, ['-D', dataDir, '-l', logFile, '-w', '-t', '60', '-o', settings, 'start']);
     const started = await runDetached(cmd, args);
     if (started.ok) {
+      state.postmasterPid = postmasterPid();
+      claim();
       const server: PgServer = { ...urls(port), startedHere: true, stop };
       await waitUntilAccepting(server.adminUrl);
       return server;

@@ -4,10 +4,9 @@
  * Ctrl-C stops the server and the cluster this script started.
  */
 import { spawn } from 'node:child_process';
-import path from 'node:path';
 import { ensureDatabase, providePostgres } from './pg';
 import { buildClientIfStale, clientSourcesPresent, jwtSecret, prepareDatabase, printWelcome } from './lib/app';
-import { log, onShutdown, root, runMain, stopChild, waitForExit } from './lib/proc';
+import { CHILD_STDIO, isShuttingDown, log, onShutdown, root, runMain, stopChild, UserFacingError, waitForExit } from './lib/proc';
 
 runMain(async () => {
   const port = Number(process.env.PORT || 3000);
@@ -20,9 +19,11 @@ runMain(async () => {
   if (serveClient) await buildClientIfStale();
   else log('index.html is missing: there is no client to build; serving the API only');
 
-  const child = spawn(process.execPath, [path.join(root, 'node_modules', '.bin', 'tsx'), 'server/index.ts'], {
+  // `node --import tsx` rather than the tsx CLI: one process, which gets our SIGTERM itself.
+  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
     cwd: root,
-    stdio: 'inherit',
+    stdio: CHILD_STDIO,
+    detached: true,
     env: {
       ...process.env,
       DATABASE_URL: databaseUrl,
@@ -35,7 +36,7 @@ runMain(async () => {
   await waitForListening(port, child);
   await printWelcome(`http://127.0.0.1:${port}`);
   const code = await waitForExit(child);
-  if (code !== 0) log(`the server stopped (exit ${code})`);
+  if (code !== 0 && !isShuttingDown()) log(`the server stopped (exit ${code})`);
   return code;
 });
 
@@ -43,7 +44,7 @@ runMain(async () => {
 async function waitForListening(port: number, child: ReturnType<typeof spawn>): Promise<void> {
   const deadline = Date.now() + 60_000;
   while (Date.now() < deadline) {
-    if (child.exitCode !== null || child.signalCode !== null) throw new Error(`the server exited during start-up (${child.exitCode ?? child.signalCode})`);
+    if (child.exitCode !== null || child.signalCode !== null) throw new UserFacingError(`the server exited during start-up (${child.exitCode ?? child.signalCode})`);
     try {
       const res = await fetch(`http://127.0.0.1:${port}/api/health`);
       if (res.ok) return;
@@ -52,5 +53,5 @@ async function waitForListening(port: number, child: ReturnType<typeof spawn>): 
     }
     await new Promise((r) => setTimeout(r, 250));
   }
-  throw new Error(`the server did not answer on port ${port} within a minute`);
+  throw new UserFacingError(`the server did not answer on port ${port} within a minute`);
 }

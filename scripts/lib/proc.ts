@@ -45,6 +45,13 @@ export function runCapture(cmd: string, args: string[]): { ok: boolean; output: 
   return { ok: result.status === 0, output };
 }
 
+/**
+ * For long-running children started `detached` (their own process group): a terminal's Ctrl-C
+ * reaches only the script, which stops them once and in order. No stdin: a background process
+ * group reading the terminal would be stopped.
+ */
+export const CHILD_STDIO: SpawnOptions['stdio'] = ['ignore', 'inherit', 'inherit'];
+
 /** Resolves with the exit code of a child (128 + signal number when a signal ended it). */
 export function waitForExit(child: ChildProcess): Promise<number> {
   if (child.exitCode !== null) return Promise.resolve(child.exitCode);
@@ -54,12 +61,21 @@ export function waitForExit(child: ChildProcess): Promise<number> {
   });
 }
 
-/** Asks a child to stop (SIGTERM), waits, and kills it after `graceMs`. */
+/**
+ * Asks a child to stop (SIGTERM), waits, and kills it after `graceMs` — with its whole process
+ * group when it was started `detached`, so no grandchild is left behind.
+ */
 export async function stopChild(child: ChildProcess, graceMs = 8000): Promise<void> {
   if (child.exitCode !== null || child.signalCode !== null) return;
   const done = waitForExit(child);
   child.kill('SIGTERM');
-  const timer = setTimeout(() => child.kill('SIGKILL'), graceMs);
+  const timer = setTimeout(() => {
+    try {
+      if (child.pid) process.kill(-child.pid, 'SIGKILL');
+    } catch {
+      child.kill('SIGKILL');
+    }
+  }, graceMs);
   await done;
   clearTimeout(timer);
 }
