@@ -2,6 +2,8 @@ import type { Server } from 'node:http';
 import { createApp } from './app';
 import { config } from './config';
 import { closeDb } from './db/client';
+import { scheduleComplianceWatch } from './jobs/compliance';
+import { sweep } from './services/compliance';
 
 /** Starts the HTTP server (API and built client) on 127.0.0.1:PORT. */
 export async function startServer(options: { serveClient?: boolean; port?: number } = {}): Promise<Server> {
@@ -18,8 +20,17 @@ async function main() {
   const addr = server.address();
   const port = typeof addr === 'object' && addr ? addr.port : config.port;
   console.log(`[server] Tacklog listening on http://${config.host}:${port}`);
+  const stopWatch = scheduleComplianceWatch(config.watchSchedule);
+  if (config.watchSchedule !== 'off') {
+    // A first sweep at start, so alerts are current before the first scheduled run.
+    sweep().then(
+      (r) => r.ran && console.log(`[watch] first sweep: raised ${r.raised}, resolved ${r.resolved}`),
+      (err) => console.error('[watch] first sweep failed:', err),
+    );
+  }
   const stop = (signal: string) => {
     console.log(`[server] ${signal}: stopping`);
+    stopWatch();
     server.close(() => {
       closeDb().finally(() => process.exit(0));
     });

@@ -21,6 +21,7 @@ import { containersRouter } from './containers';
 import { scansRouter } from './scans';
 import { labelsRouter } from './labels';
 import { attachmentsRouter } from './attachments';
+import { alertsRouter, complianceRouter } from './alerts';
 
 /** Every API router, mounted under /api. Add a domain's router here. */
 export const apiRouter = Router();
@@ -48,3 +49,5 @@ apiRouter.use('/containers', containersRouter);
 apiRouter.use('/scans', scansRouter);
 apiRouter.use('/labels', labelsRouter);
 apiRouter.use('/attachments', attachmentsRouter);
+apiRouter.use('/alerts', alertsRouter);
+apiRouter.use('/compliance', complianceRouter);

@@ -219,6 +219,8 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
 
   await tx.insert(s.settings).values([
     { key: 'plant', value: { name: 'Halvard Bay Driver Works', zone: 'UTC' }, updatedBy: admin },
-    { key: 'baselineFailureRate', value: 0.01, updatedBy: admin },
+    // The plant's long-run final-test failure rate: lots are judged against it.
+    { key: 'baselineFailureRate', value: 0.015, updatedBy: admin },
+    { key: 'expiringSoonDays', value: 14, updatedBy: admin },
   ]);
 }

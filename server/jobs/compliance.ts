@@ -1,0 +1,23 @@
+import cron from 'node-cron';
+import { sweep } from '../services/compliance';
+
+/**
+ * Schedules the compliance watch (node-cron). Every server process schedules it; the sweep's
+ * PostgreSQL advisory lock makes exactly one of them do the work each time.
+ * Returns a stop function; `schedule` 'off' disables the watch.
+ */
+export function scheduleComplianceWatch(schedule: string): () => void {
+  if (schedule === 'off') return () => undefined;
+  if (!cron.validate(schedule)) throw new Error(`TACKLOG_WATCH_CRON "${schedule}" is not a valid cron expression`);
+  const task = cron.schedule(schedule, async () => {
+    try {
+      const result = await sweep();
+      if (result.ran && (result.raised || result.resolved)) {
+        console.log(`[watch] raised ${result.raised}, resolved ${result.resolved}`);
+      }
+    } catch (err) {
+      console.error('[watch] sweep failed:', err);
+    }
+  });
+  return () => void task.stop();
+}

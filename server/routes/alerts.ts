@@ -1,0 +1,25 @@
+import { Router } from 'express';
+import { alertListQuerySchema, alertParamsSchema, alertResolveInputSchema } from '../../shared/schemas/alerts';
+import { endpoint } from '../http';
+import { acknowledgeAlert, listAlerts, resolveAlert } from '../services/alerts';
+import { runComplianceNow } from '../services/compliance';
+
+export const alertsRouter = Router();
+
+alertsRouter.get('/', endpoint({ access: 'signed-in', query: alertListQuerySchema }, ({ actor, query }) => listAlerts(actor, query)));
+
+alertsRouter.post(
+  '/:id/acknowledge',
+  endpoint({ access: 'signed-in', params: alertParamsSchema }, async ({ actor, params }) => ({ alert: await acknowledgeAlert(actor, params.id) })),
+);
+
+alertsRouter.post(
+  '/:id/resolve',
+  endpoint({ access: ['admin', 'quality', 'purchasing'], params: alertParamsSchema, body: alertResolveInputSchema }, async ({ actor, params, body }) => ({
+    alert: await resolveAlert(actor, params.id, body.resolution),
+  })),
+);
+
+export const complianceRouter = Router();
+
+complianceRouter.post('/run', endpoint({ access: ['admin', 'quality'] }, ({ actor }) => runComplianceNow(actor)));

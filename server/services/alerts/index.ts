@@ -1,0 +1,65 @@
+import { and, arrayOverlaps, count, desc, eq, ne } from 'drizzle-orm';
+import { db } from '../../db/client';
+import { alerts } from '../../db/schema';
+import { conflict, notFound } from '../../errors';
+import type { Actor } from '../auth/actor';
+import { hasRole, requireRole } from '../auth/actor';
+import { recordAudit } from '../audit';
+import type { Alert, AlertListQuery } from '../../../shared/schemas/alerts';
+
+type AlertRow = typeof alerts.$inferSelect;
+
+export function toAlert(r: AlertRow): Alert {
+  return {
+    id: r.id, kind: r.kind, severity: r.severity, state: r.state, subjectType: r.subjectType, subjectId: r.subjectId,
+    message: r.message, audience: r.audience, data: r.data ?? null, raisedAt: r.raisedAt.toISOString(),
+    acknowledgedAt: r.acknowledgedAt?.toISOString() ?? null, acknowledgedBy: r.acknowledgedBy,
+    resolvedAt: r.resolvedAt?.toISOString() ?? null, resolvedBy: r.resolvedBy, resolution: r.resolution,
+  };
+}
+
+/** Alerts for the roles the actor holds (an administrator sees all), newest first. */
+export async function listAlerts(actor: Actor, query: AlertListQuery): Promise<{ items: Alert[]; total: number }> {
+  const filters = [];
+  if (query.state === 'live') filters.push(ne(alerts.state, 'resolved'));
+  else if (query.state) filters.push(eq(alerts.state, query.state));
+  if (query.kind) filters.push(eq(alerts.kind, query.kind));
+  if (!hasRole(actor, 'admin')) filters.push(arrayOverlaps(alerts.audience, actor.roles));
+  const where = filters.length ? and(...filters) : undefined;
+  const [rows, [{ n }]] = await Promise.all([
+    db.select().from(alerts).where(where).orderBy(desc(alerts.raisedAt), alerts.id).limit(query.limit).offset(query.offset),
+    db.select({ n: count() }).from(alerts).where(where),
+  ]);
+  return { items: rows.map(toAlert), total: n };
+}
+
+async function changeState(actor: Actor, id: string, to: 'acknowledged' | 'resolved', resolution?: string): Promise<Alert> {
+  return db.transaction(async (tx) => {
+    const [row] = await tx.select().from(alerts).where(eq(alerts.id, id)).for('update');
+    if (!row) throw notFound('That alert');
+    if (!hasRole(actor, 'admin') && !row.audience.some((r) => actor.roles.includes(r))) throw notFound('That alert');
+    if (row.state === 'resolved') throw conflict('ALERT_RESOLVED', 'This alert is already resolved.');
+    if (to === 'acknowledged' && row.state === 'acknowledged') throw conflict('ALERT_ACKNOWLEDGED', 'This alert is already acknowledged.');
+    const now = new Date();
+    const change =
+      to === 'acknowledged'
+        ? { state: to, acknowledgedAt: now, acknowledgedBy: actor.id }
+        : { state: to, resolvedAt: now, resolvedBy: actor.id, resolution: resolution ?? null };
+    const [updated] = await tx.update(alerts).set(change).where(eq(alerts.id, id)).returning();
+    await recordAudit(tx, {
+      actorId: actor.id, action: `alert.${to === 'acknowledged' ? 'acknowledge' : 'resolve'}`, entityType: 'alert', entityId: id,
+      before: { state: row.state }, after: { state: to }, reason: resolution ?? null,
+    });
+    return toAlert(updated);
+  });
+}
+
+export function acknowledgeAlert(actor: Actor, id: string): Promise<Alert> {
+  requireRole(actor, 'admin', 'quality', 'purchasing', 'receiving', 'assembler');
+  return changeState(actor, id, 'acknowledged');
+}
+
+export function resolveAlert(actor: Actor, id: string, resolution: string): Promise<Alert> {
+  requireRole(actor, 'admin', 'quality', 'purchasing');
+  return changeState(actor, id, 'resolved', resolution);
+}

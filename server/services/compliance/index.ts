@@ -1,0 +1,89 @@
+import { and, arrayOverlaps, eq, ne, sql } from 'drizzle-orm';
+import { db, type Tx } from '../../db/client';
+import { alerts, outgoingEmails, users } from '../../db/schema';
+import type { Actor } from '../auth/actor';
+import { requireRole } from '../auth/actor';
+import { recordAudit } from '../audit';
+import type { ComplianceRunResult } from '../../../shared/schemas/alerts';
+import { ALL_CHECKS, type Finding } from './findings';
+
+/** Advisory-lock key of the watch: only one server process sweeps at a time. */
+const WATCH_LOCK = 7226002;
+
+/** Kinds that clear by themselves when their condition goes; the others wait for a person. */
+const SELF_CLEARING = new Set(['pot_life_exceeded', 'expired_in_stock', 'expiring_soon', 'quarantine_advised', 'below_reorder_point']);
+
+const keyOf = (f: { kind: string; subjectType: string; subjectId: string }) => `${f.kind}|${f.subjectType}|${f.subjectId}`;
+
+/** Queues an e-mail about a new alert to the active users whose roles it concerns. */
+async function queueAlertMail(tx: Tx, alertId: string, f: Finding): Promise<void> {
+  const to = (
+    await tx.select({ email: users.email }).from(users).where(and(eq(users.active, true), arrayOverlaps(users.roles, f.audience)))
+  ).map((u) => u.email);
+  if (!to.length) return;
+  await tx.insert(outgoingEmails).values({
+    to,
+    subject: `[Tacklog] ${f.severity === 'critical' ? 'Critical: ' : ''}${f.kind.replace(/_/g, ' ')}`,
+    body: `${f.message}\n\nOpen Tacklog's alerts page to acknowledge or resolve it.`,
+    alertId,
+  });
+}
+
+/**
+ * One sweep of the compliance watch: raises an alert for every new finding (never a duplicate:
+ * one live alert per kind and subject), resolves self-clearing alerts whose finding has gone,
+ * and queues e-mail for what it raised. Runs in one transaction under a PostgreSQL advisory
+ * lock, so with several server processes exactly one sweeps at a time; the others skip.
+ */
+export async function sweep(now = new Date()): Promise<ComplianceRunResult> {
+  return db.transaction(async (tx) => {
+    const [{ locked }] = (await tx.execute<{ locked: boolean }>(sql`SELECT pg_try_advisory_xact_lock(${WATCH_LOCK}) AS locked`)).rows;
+    if (!locked) return { raised: 0, resolved: 0, ran: false };
+
+    // One connection carries the transaction: run the checks one after another.
+    const findings: Finding[] = [];
+    for (const check of ALL_CHECKS) findings.push(...(await check(tx, now)));
+    const live = await tx.select().from(alerts).where(ne(alerts.state, 'resolved'));
+    const liveKeys = new Map(live.map((a) => [keyOf(a), a]));
+    const found = new Set(findings.map(keyOf));
+
+    let raised = 0;
+    for (const f of findings) {
+      const existing = liveKeys.get(keyOf(f));
+      if (existing) {
+        // Keep the wording current (counts and times change) without raising it again.
+        if (existing.message !== f.message) {
+          await tx.update(alerts).set({ message: f.message, data: f.data ?? null, severity: f.severity }).where(eq(alerts.id, existing.id));
+        }
+        continue;
+      }
+      const [row] = await tx
+        .insert(alerts)
+        .values({ kind: f.kind, severity: f.severity, subjectType: f.subjectType, subjectId: f.subjectId, message: f.message, audience: f.audience, data: f.data ?? null, raisedAt: now })
+        .onConflictDoNothing()
+        .returning({ id: alerts.id });
+      if (!row) continue;
+      raised += 1;
+      await recordAudit(tx, { actorId: null, action: 'alert.raise', entityType: 'alert', entityId: row.id, after: { kind: f.kind, subjectType: f.subjectType, subjectId: f.subjectId } });
+      await queueAlertMail(tx, row.id, f);
+    }
+
+    let resolved = 0;
+    for (const a of live) {
+      if (!SELF_CLEARING.has(a.kind) || found.has(keyOf(a))) continue;
+      await tx
+        .update(alerts)
+        .set({ state: 'resolved', resolvedAt: now, resolution: 'The condition no longer holds (cleared by the compliance watch).' })
+        .where(eq(alerts.id, a.id));
+      await recordAudit(tx, { actorId: null, action: 'alert.clear', entityType: 'alert', entityId: a.id, before: { state: a.state }, after: { state: 'resolved' } });
+      resolved += 1;
+    }
+    return { raised, resolved, ran: true };
+  });
+}
+
+/** POST /api/compliance/run: a person asks for a sweep now. */
+export function runComplianceNow(actor: Actor): Promise<ComplianceRunResult> {
+  requireRole(actor, 'admin', 'quality');
+  return sweep();
+}
