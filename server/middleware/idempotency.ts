@@ -7,6 +7,7 @@
  *  - The same key with another method or path is 422 IDEMPOTENCY_KEY_REUSED.
  *  - Responses of 500 and above are not kept (the row is deleted) so a retry can run.
  *  - A key whose first request never answered (the process died) is taken over after a while.
+ *  - Keys are kept for a week.
  */
 import type { RequestHandler, Response } from 'express';
 import { and, eq, lt, isNull } from 'drizzle-orm';
@@ -17,6 +18,22 @@ import { AppError } from '../errors';
 const METHODS = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 /** A first request still unanswered after this long is taken to have died. */
 const STALE_MS = 5 * 60 * 1000;
+/** Keys are kept this long (a client retries within minutes, not days). */
+const KEEP_MS = 7 * 24 * 3600 * 1000;
+let lastPrune = 0;
+
+/** Drops keys past their keeping time, at most once an hour per process. */
+function pruneNowAndThen(): void {
+  const now = Date.now();
+  if (now - lastPrune < 3600 * 1000) return;
+  lastPrune = now;
+  db.delete(idempotencyKeys)
+    .where(lt(idempotencyKeys.createdAt, new Date(now - KEEP_MS)))
+    .then(
+      () => undefined,
+      (err: unknown) => console.error('[idempotency] pruning old keys failed:', err),
+    );
+}
 
 function invalidKey(): AppError {
   return new AppError('VALIDATION_FAILED', 'The Idempotency-Key header must be 1 to 200 characters.', 400, [
@@ -75,6 +92,7 @@ export const idempotency: RequestHandler = async (req, res, next) => {
       .onConflictDoNothing()
       .returning({ key: idempotencyKeys.key });
     if (inserted.length === 1) {
+      pruneNowAndThen();
       captureResponse(res, actorId, key);
       next();
       return;
