@@ -160,7 +160,7 @@ describe('loading: every refusal reason (409, nothing changes)', () => {
     const a = await refused('EXPIRED', { containerCode: supplier.containers[0].code });
     expect(a.details.cause).toBe('supplier_expiry');
     expect(a.message).toContain("supplier's expiry date");
-    // 30-day shelf life counted from receipt 40 days ago (shared/expiry.ts rule).
+    // 30-day shelf life counted from receipt (no manufacture date) 40 days ago: api.md, Material.shelfLifeDays.
     const shelf = await createLot({ materialId: glue.id, receivedAt: daysAgo(40) });
     const b = await refused('EXPIRED', { containerCode: shelf.containers[0].code });
     expect(b.details.cause).toBe('shelf_life');
