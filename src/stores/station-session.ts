@@ -7,20 +7,15 @@ import type { Station } from '@shared/schemas/stations';
 import type { StepRunResult } from '@shared/schemas/steps';
 import * as stationsApi from '@/api/stations';
 import * as batchesApi from '@/api/batches';
-import * as stepsApi from '@/api/steps';
-import * as mixesApi from '@/api/mixes';
 import { ApiError } from '@/api/http';
 import { useOfflineQueue, type QueuedAction, type QueueOutcome } from '@/composables/useOfflineQueue';
 import { feedback, queuedFeedback, refusalFeedback, type StationFeedback } from './station-feedback';
 import { cureGateBefore, interpretScan, stepAtStation } from './station-scan';
 import { readStored, writeStored } from './station-storage';
+import { sendStationAction, type LoadPayload, type MixPayload, type StepPayload, type UnloadPayload } from './station-actions';
 
 export type { StationFeedback };
 
-interface LoadPayload { stationId: string; batchId: string; containerCode?: string; mixCode?: string; retried?: boolean }
-interface StepPayload { stationId: string; batchId: string; stepId: string; stepName: string }
-interface UnloadPayload { stationId: string; loadId: string; code: string }
-interface MixPayload extends MixInput { stationId: string; batchId: string | null }
 
 const KEYS = { station: 'tacklog.station.current', stations: 'tacklog.station.stations', traveler: 'tacklog.station.traveler', queue: 'tacklog.station.queue' };
 const timeOf = (iso: string) => new Date(iso).toLocaleTimeString([], { hour: '2-digit', minute: '2-digit' });
@@ -42,7 +37,7 @@ export const useStationSessionStore = defineStore('station-session', () => {
   /** Set when a start was refused with CURE_INCOMPLETE: the cure that is still running. */
   const cureBlock = ref<{ stepName: string; cureCompleteAt: string | null; handlingAt: string | null } | null>(null);
 
-  const queue = useOfflineQueue({ storageKey: KEYS.queue, send, onResult });
+  const queue = useOfflineQueue({ storageKey: KEYS.queue, send: sendStationAction, onResult });
   const stepHere = computed(() => stepAtStation(traveler.value, station.value?.kind));
 
   function say(next: StationFeedback) {
@@ -58,33 +53,6 @@ export const useStationSessionStore = defineStore('station-session', () => {
   function setTraveler(next: BatchDetail | null) {
     traveler.value = next;
     writeStored(KEYS.traveler, next);
-  }
-
-  function send(action: QueuedAction): Promise<unknown> {
-    const key = action.key;
-    switch (action.kind) {
-      case 'load': {
-        const p = action.payload as LoadPayload;
-        const body = p.mixCode ? { batchId: p.batchId, mixCode: p.mixCode } : { batchId: p.batchId, containerCode: p.containerCode };
-        return stationsApi.loadAtStation(p.stationId, body, key);
-      }
-      case 'start':
-      case 'finish': {
-        const p = action.payload as StepPayload;
-        const call = action.kind === 'start' ? stepsApi.startStep : stepsApi.finishStep;
-        return call(p.batchId, p.stepId, { stationId: p.stationId }, key);
-      }
-      case 'unload': {
-        const p = action.payload as UnloadPayload;
-        return stationsApi.unloadAtStation(p.stationId, { loadId: p.loadId }, key);
-      }
-      case 'mix': {
-        const { stationId, resinCode, hardenerCode, resinQuantity, hardenerQuantity } = action.payload as MixPayload;
-        return mixesApi.createMix(stationId, { resinCode, hardenerCode, resinQuantity, hardenerQuantity }, key);
-      }
-      default:
-        return Promise.reject(new Error(`unknown station action "${action.kind}"`));
-    }
   }
 
   function onResult(action: QueuedAction, outcome: QueueOutcome) {
