@@ -58,8 +58,16 @@ export function zodToIssues(error: z.ZodError): FieldIssue[] {
   return error.issues.map((issue) => ({ field: pathToField(issue.path), message: issue.message }));
 }
 
-export function useFieldErrors(known?: readonly string[]) {
+/**
+ * `known`: the form's fields (others go to the form message). `labels`: what each field is
+ * called on screen, so each message names its field ("Shelf life must be more than 0").
+ */
+export function useFieldErrors(known?: readonly string[], labels: Readonly<Record<string, string>> = {}) {
   const errors = reactive<Record<string, string>>({});
+
+  function named(fields: Record<string, string>): Record<string, string> {
+    return Object.fromEntries(Object.entries(fields).map(([f, m]) => [f, labels[f] ? `${labels[f]} ${m}` : m]));
+  }
   /** A message for the whole form (a refusal that names no field, an unreachable server). */
   const formError = ref('');
 
@@ -74,7 +82,7 @@ export function useFieldErrors(known?: readonly string[]) {
 
   function show(issues: readonly FieldIssue[]): void {
     const sorted = sortIssues(issues, known);
-    Object.assign(errors, sorted.fields);
+    Object.assign(errors, named(sorted.fields));
     if (sorted.general.length > 0) formError.value = sorted.general.join(' ');
   }
 
@@ -99,7 +107,7 @@ export function useFieldErrors(known?: readonly string[]) {
     if (!(err instanceof ApiError)) return false;
     if (err.details.length > 0) {
       const sorted = sortIssues(err.details, known);
-      Object.assign(errors, sorted.fields);
+      Object.assign(errors, named(sorted.fields));
       if (sorted.general.length > 0 || Object.keys(sorted.fields).length === 0) formError.value = err.message;
     } else {
       formError.value = err.message;

@@ -113,4 +113,12 @@ describe('useFieldErrors with the shared schemas', () => {
     expect(form.errors.containers).toBeUndefined();
     expect(form.errors.materialId).toBe('is required');
   });
+
+  it('names the field in each message when labels are given', () => {
+    const form = useFieldErrors(['supplierLot', 'containers'], { supplierLot: 'Supplier lot', containers: 'Containers' });
+    form.validate(receiveLotInputSchema, { supplierLot: '', containers: 0 });
+    expect(form.errors.supplierLot).toBe('Supplier lot is required');
+    // receiveLotInputSchema: at least one container per receipt.
+    expect(form.errors.containers).toBe('Containers must be at least 1');
+  });
 });

@@ -48,6 +48,17 @@ export const MATERIAL_FIELDS = [
   'hazards.signalWord', 'hazards.pictograms', 'hazards.statements', 'gtin', 'reorderPoint', 'orderQuantity', 'leadTimeDays',
 ] as const;
 
+/** What each field is called on screen, so error messages name it. */
+export const MATERIAL_FIELD_LABELS: Readonly<Record<string, string>> = {
+  code: 'Code', name: 'Name', kind: 'Kind', unit: 'Unit', storageClass: 'Storage class', shelfLifeDays: 'Shelf life',
+  openLifeHours: 'After-opening life', thawedLifeHours: 'Life after thawing', outOfStorageAllowanceHours: 'Out-of-storage allowance',
+  potLifeMinutes: 'Pot life', partnerMaterialId: 'Mix partner', mixRatio: 'Mix ratio', cure: 'Cure profile',
+  'cure.refTempC': 'Reference temperature', 'cure.handlingMinutes': 'Handling time', 'cure.fullCureMinutes': 'Full-cure time',
+  'cure.factorPer10C': 'Rate factor', 'cure.activationEnergyKJ': 'Activation energy', requiresInspection: 'Inspection',
+  'hazards.signalWord': 'Signal word', 'hazards.pictograms': 'Pictograms', 'hazards.statements': 'Hazard statements',
+  gtin: 'GTIN', reorderPoint: 'Reorder point', orderQuantity: 'Order quantity', leadTimeDays: 'Lead time',
+};
+
 export function emptyDraft(): MaterialDraft {
   return {
     code: '', name: '', kind: null, unit: '', storageClass: 'ambient', shelfLifeDays: null, openLifeHours: null,
@@ -111,7 +122,7 @@ export function draftToInput(d: MaterialDraft): MaterialInput {
   return {
     code: d.code,
     name: d.name,
-    kind: d.kind as MaterialKind,
+    kind: (d.kind ?? undefined) as MaterialKind,
     unit: d.unit,
     storageClass: d.storageClass,
     shelfLifeDays: num(d.shelfLifeDays),

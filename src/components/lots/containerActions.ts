@@ -1,4 +1,4 @@
-import type { Role, StorageClass } from '@shared/constants';
+import type { LotStatus, Role, StorageClass } from '@shared/constants';
 import type { Container } from '@shared/schemas/containers';
 import type { ContainerAction } from '@/api/containers';
 
@@ -21,13 +21,15 @@ export function containerMenu(
   c: Pick<Container, 'status' | 'thawedAt' | 'outOfStorageSince'>,
   storageClass: StorageClass,
   roles: readonly Role[],
+  lotStatus: LotStatus = 'released',
 ): ContainerMenuItem[] {
   const has = (allowed: readonly Role[]) => allowed.some((r) => roles.includes(r));
   const live = c.status === 'sealed' || c.status === 'open';
   const items: ContainerMenuItem[] = [];
   if (has(HANDLERS) && live) {
     if (storageClass === 'frozen' && !c.thawedAt && c.status === 'sealed') items.push({ action: 'thaw', label: 'Record the end of the thaw', icon: 'ac_unit' });
-    if (c.status === 'sealed' && (storageClass !== 'frozen' || c.thawedAt)) items.push({ action: 'open', label: 'Open', icon: 'lock_open' });
+    // Only a released lot may be opened (on hold, quarantined and rejected lots are blocked).
+    if (lotStatus === 'released' && c.status === 'sealed' && (storageClass !== 'frozen' || c.thawedAt)) items.push({ action: 'open', label: 'Open', icon: 'lock_open' });
     if (storageClass === 'refrigerated' && !c.outOfStorageSince) items.push({ action: 'out-of-storage', label: 'Take out of cold storage', icon: 'logout' });
     if (storageClass === 'refrigerated' && c.outOfStorageSince) items.push({ action: 'return-to-storage', label: 'Back into cold storage', icon: 'login' });
     items.push({ action: 'location', label: 'Move to another location', icon: 'place' });

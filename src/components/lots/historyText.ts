@@ -2,7 +2,8 @@
 
 export interface FieldChange {
   field: string;
-  from: string;
+  /** null when the record was created (no earlier value). */
+  from: string | null;
   to: string;
 }
 
@@ -35,7 +36,7 @@ export function valueText(value: unknown): string {
     return value.replace(/_/g, ' ');
   }
   if (typeof value === 'number' || typeof value === 'boolean') return String(value);
-  if (Array.isArray(value)) return `${value.length} item${value.length === 1 ? '' : 's'}`;
+  if (Array.isArray(value)) return String(value.length);
   return JSON.stringify(value);
 }
 
@@ -48,11 +49,11 @@ function isRecord(v: unknown): v is Record<string, unknown> {
  * A creation (no `before`) lists only `pick` fields of `after`, so a receipt does not spill
  * every column.
  */
-export function fieldChanges(before: unknown, after: unknown, pick: readonly string[] = ['status', 'supplierLot', 'location']): FieldChange[] {
+export function fieldChanges(before: unknown, after: unknown, pick: readonly string[] = ['status', 'supplierLot', 'containers', 'location']): FieldChange[] {
   const b = isRecord(before) ? before : null;
   const a = isRecord(after) ? after : {};
   if (!b) {
-    return pick.filter((k) => k in a && a[k] !== null).map((k) => ({ field: k, from: '—', to: valueText(a[k]) }));
+    return pick.filter((k) => k in a && a[k] !== null).map((k) => ({ field: k, from: null, to: valueText(a[k]) }));
   }
   const keys = [...new Set([...Object.keys(b), ...Object.keys(a)])];
   return keys

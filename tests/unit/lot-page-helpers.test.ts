@@ -1,0 +1,52 @@
+import { describe, expect, it } from 'vitest';
+import { containerMenu } from '../../src/components/lots/containerActions';
+import { fieldChanges, valueText } from '../../src/components/lots/historyText';
+
+const sealed = { status: 'sealed' as const, thawedAt: null, outOfStorageSince: null };
+const actions = (...args: Parameters<typeof containerMenu>) => containerMenu(...args).map((i) => i.action);
+
+describe('container actions offered', () => {
+  it('offers opening only for a released lot (on hold and quarantined lots are blocked: ISO 9001 §8.5.2 inspection status)', () => {
+    expect(actions(sealed, 'ambient', ['receiving'], 'released')).toContain('open');
+    expect(actions(sealed, 'ambient', ['receiving'], 'on_hold')).not.toContain('open');
+    expect(actions(sealed, 'ambient', ['receiving'], 'quarantined')).not.toContain('open');
+  });
+
+  it('asks for the end of the thaw before a frozen container is opened (common practice for frozen premixed epoxies)', () => {
+    expect(actions(sealed, 'frozen', ['assembler'])).toEqual(expect.arrayContaining(['thaw']));
+    expect(actions(sealed, 'frozen', ['assembler'])).not.toContain('open');
+    expect(actions({ ...sealed, thawedAt: '2026-03-01T08:00:00Z' }, 'frozen', ['assembler'])).toContain('open');
+  });
+
+  it('counts time out of cold storage for refrigerated material only', () => {
+    expect(actions(sealed, 'refrigerated', ['quality'])).toContain('out-of-storage');
+    expect(actions({ ...sealed, outOfStorageSince: '2026-03-01T08:00:00Z' }, 'refrigerated', ['quality'])).toContain('return-to-storage');
+    expect(actions(sealed, 'ambient', ['quality'])).not.toContain('out-of-storage');
+  });
+
+  it('follows the roles of the container routes: purchasing only looks, scrapping is for quality and receiving', () => {
+    expect(actions(sealed, 'ambient', ['purchasing'])).toEqual([]);
+    expect(actions(sealed, 'ambient', ['assembler'])).not.toContain('scrap');
+    expect(actions(sealed, 'ambient', ['admin'])).toEqual(['reprint']);
+    expect(actions({ ...sealed, status: 'empty' }, 'ambient', ['quality'])).toEqual(['reprint']);
+  });
+});
+
+describe('history lines', () => {
+  it('shows old → new for the fields that changed, so earlier values stay visible (21 CFR 11.10(e))', () => {
+    expect(fieldChanges({ status: 'on_hold', statusReason: null }, { status: 'quarantined', statusReason: 'Supplier notice' })).toEqual([
+      { field: 'status', from: 'on hold', to: 'quarantined' },
+      { field: 'statusReason', from: '—', to: 'Supplier notice' },
+    ]);
+  });
+
+  it('lists a few facts of a new record instead of every column', () => {
+    const changes = fieldChanges(null, { status: 'on_hold', supplierLot: 'E2E-1', containers: [{}, {}, {}], receivedBy: 'x' });
+    expect(changes).toEqual([
+      { field: 'status', from: null, to: 'on hold' },
+      { field: 'supplierLot', from: null, to: 'E2E-1' },
+      { field: 'containers', from: null, to: '3' },
+    ]);
+    expect(valueText(null)).toBe('—');
+  });
+});
