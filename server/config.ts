@@ -35,4 +35,6 @@ export const config = {
   /** Compliance watch schedule (node-cron syntax); 'off' disables it. */
   watchSchedule: process.env.TACKLOG_WATCH_CRON ?? '*/5 * * * *',
   secureCookies: process.env.TACKLOG_SECURE_COOKIES === '1',
+  /** The plant's time zone: a supplier's expiry date is usable through that whole day there. */
+  plantZone: process.env.TACKLOG_PLANT_ZONE || 'UTC',
 } as const;

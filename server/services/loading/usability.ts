@@ -7,6 +7,7 @@ import { conflict } from '../../errors';
 import {
   containerExpiry, earliestOf, isExpired, lotExpiry, type ExpiryCause, type ExpiryMaterial, type ExpiryResult,
 } from '../../../shared/expiry';
+import { config } from '../../config';
 
 export type ContainerRow = typeof containers.$inferSelect;
 export type LotRow = typeof lots.$inferSelect;
@@ -14,7 +15,7 @@ export type MaterialRow = typeof materials.$inferSelect;
 export type MixRow = typeof mixes.$inferSelect;
 
 /** The zone in which supplier expiry dates end (a date is usable through that whole day). */
-export const PLANT_ZONE = process.env.TACKLOG_PLANT_ZONE || 'UTC';
+export const PLANT_ZONE = config.plantZone;
 
 const CAUSE_WORDS: Record<ExpiryCause, string> = {
   supplier_expiry: "the supplier's expiry date",

@@ -7,6 +7,7 @@ import { containerExpiry, lotExpiry, type ExpiryMaterial, type ExpiryResult } fr
 import type { Container } from '../../../shared/schemas/containers';
 import type { Lot } from '../../../shared/schemas/lots';
 import type { Attachment } from '../../../shared/schemas/attachments';
+import { config } from '../../config';
 
 export type LotRow = typeof lots.$inferSelect;
 export type ContainerRow = typeof containers.$inferSelect;
@@ -14,7 +15,7 @@ export type MaterialRow = typeof materials.$inferSelect;
 export type AttachmentRow = typeof attachments.$inferSelect;
 
 /** The plant's time zone: supplier expiry dates are usable through that whole day there. */
-export const PLANT_ZONE = process.env.TACKLOG_PLANT_ZONE || 'UTC';
+export const PLANT_ZONE = config.plantZone;
 
 export function expiryMaterialOf(m: Pick<MaterialRow, 'shelfLifeDays' | 'openLifeHours' | 'thawedLifeHours' | 'outOfStorageAllowanceHours' | 'potLifeMinutes' | 'storageClass'>): ExpiryMaterial {
   return {
