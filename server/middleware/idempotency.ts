@@ -10,14 +10,10 @@
  *  - Keys are kept for a week.
  */
 import type { RequestHandler, Response } from 'express';
-import { and, eq, lt, isNull } from 'drizzle-orm';
-import { db } from '../db/client';
-import { idempotencyKeys } from '../db/schema';
 import { AppError } from '../errors';
+import { claimKey, pruneKeys, releaseKey, storeResponse } from '../services/idempotency';
 
 const METHODS = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
-/** A first request still unanswered after this long is taken to have died. */
-const STALE_MS = 5 * 60 * 1000;
 /** Keys are kept this long (a client retries within minutes, not days). */
 const KEEP_MS = 7 * 24 * 3600 * 1000;
 let lastPrune = 0;
@@ -27,9 +23,7 @@ function pruneNowAndThen(): void {
   const now = Date.now();
   if (now - lastPrune < 3600 * 1000) return;
   lastPrune = now;
-  db.delete(idempotencyKeys)
-    .where(lt(idempotencyKeys.createdAt, new Date(now - KEEP_MS)))
-    .then(
+  pruneKeys(new Date(now - KEEP_MS)).then(
       () => undefined,
       (err: unknown) => console.error('[idempotency] pruning old keys failed:', err),
     );
@@ -54,11 +48,7 @@ function captureResponse(res: Response, actorId: string, key: string): void {
   res.end = ((...args: unknown[]) => {
     if (stored) return end(...args);
     stored = true;
-    const where = and(eq(idempotencyKeys.actorId, actorId), eq(idempotencyKeys.key, key));
-    const save =
-      res.statusCode >= 500
-        ? db.delete(idempotencyKeys).where(where)
-        : db.update(idempotencyKeys).set({ statusCode: res.statusCode, responseBody: body ?? null }).where(where);
+    const save = res.statusCode >= 500 ? releaseKey(actorId, key) : storeResponse(actorId, key, res.statusCode, body);
     save.then(
       () => end(...args),
       (err: unknown) => {
@@ -80,25 +70,15 @@ export const idempotency: RequestHandler = async (req, res, next) => {
     if (key.length < 1 || key.length > 200) throw invalidKey();
     const actorId = req.actor.id;
     const path = req.originalUrl.split('?')[0];
-    const where = and(eq(idempotencyKeys.actorId, actorId), eq(idempotencyKeys.key, key));
-
-    // Take over a key whose first request died without an answer.
-    await db
-      .delete(idempotencyKeys)
-      .where(and(where, isNull(idempotencyKeys.statusCode), lt(idempotencyKeys.createdAt, new Date(Date.now() - STALE_MS))));
-    const inserted = await db
-      .insert(idempotencyKeys)
-      .values({ key, actorId, method: req.method, path })
-      .onConflictDoNothing()
-      .returning({ key: idempotencyKeys.key });
-    if (inserted.length === 1) {
+    const claim = await claimKey(actorId, key, req.method, path);
+    if (claim.claimed) {
       pruneNowAndThen();
       captureResponse(res, actorId, key);
       next();
       return;
     }
 
-    const [first] = await db.select().from(idempotencyKeys).where(where);
+    const first = claim.first;
     if (!first) throw new AppError('IDEMPOTENCY_IN_PROGRESS', 'A request with this Idempotency-Key was just released; send it again.', 409);
     if (first.method !== req.method || first.path !== path) {
       throw new AppError(
