@@ -137,5 +137,24 @@ describe('receiving a lot', () => {
     expect(await page.locator('[data-test="lot-title"]').innerText()).toContain(supplierLot);
     await expect.poll(() => page.locator('[data-test="history-entry"]').count()).toBeGreaterThan(0);
     await shot('e-lot');
+
+    // The same supplier lot again is a possible mistake: the server refuses it (409 DUPLICATE_LOT)
+    // and the page asks before receiving it a second time.
+    await page.locator('[data-test="nav-receiving.new"]').click();
+    await page.locator('[data-test="receipt-again"]').click(); // the page still shows the last receipt
+    await page.locator('[data-test="scan-input"]').click();
+    await page.keyboard.type(`(01)09501101530003(17)271231(10)${supplierLot}`);
+    await page.keyboard.press('Enter');
+    await expect.poll(() => page.locator('[data-test="receive-supplier-lot"]').inputValue()).toBe(supplierLot);
+    await choose('receive-supplier', 'Corvane Bonding Supplies');
+    await page.locator('[data-test="receive-quantity"]').fill('250');
+    await page.locator('[data-test="receive-submit"]').click();
+    const dialog = page.locator('.q-dialog', { hasText: 'received before' });
+    await dialog.waitFor();
+    expect(await dialog.innerText()).toContain(supplierLot);
+    await shot('e-duplicate');
+    await dialog.locator('button', { hasText: 'Receive it again' }).click();
+    await page.locator('[data-test="receipt-result"]').waitFor();
+    expect(await page.locator('[data-test="receipt-container"]').count()).toBe(1);
   });
 });
