@@ -39,8 +39,8 @@ function dependenciesStale() {
   const lock = path.join(root, 'package-lock.json');
   const installed = mtime(path.join(root, 'node_modules', '.package-lock.json'));
   if (installed === null || !fs.existsSync(path.join(root, 'node_modules', '.bin', 'tsx'))) return true;
-  const wanted = Math.max(mtime(lock) ?? 0, mtime(path.join(root, 'package.json')) ?? 0);
-  return installed < wanted;
+  // npm may write package-lock.json a moment after node_modules/.package-lock.json: allow 5 s.
+  return installed + 5000 < (mtime(lock) ?? 0);
 }
 
 function npm(npmArgs) {
