@@ -10,17 +10,18 @@
  * Exit code 0 when every target is met, 1 when one is missed.
  *
  * Knobs: TACKLOG_BENCH_DAYS (1095), TACKLOG_BENCH_PER_DAY (2000), TACKLOG_BENCH_DRIVER_SAMPLES
- * (200), TACKLOG_BENCH_LOT_SAMPLES (50).
+ * (200), TACKLOG_BENCH_LOT_SAMPLES (50), TACKLOG_BENCH_SEED (sampling). For working on the
+ * queries: TACKLOG_BENCH_KEEP=1 keeps the seeded database (its name is printed) and
+ * TACKLOG_BENCH_DATABASE=<that name> measures it again without seeding (neither is dropped).
  */
 import { spawn } from 'node:child_process';
 import crypto from 'node:crypto';
 import path from 'node:path';
 import bcrypt from 'bcryptjs';
 import pg from 'pg';
-import { PgDialect } from 'drizzle-orm/pg-core';
 import type { SQL } from 'drizzle-orm';
 import { dropDatabase, ensureDatabase, freePort, providePostgres } from './pg';
-import { log, onShutdown, root, runMain, stopChild } from './lib/proc';
+import { CHILD_STDIO, log, onShutdown, root, runMain, stopChild } from './lib/proc';
 import { BENCH_MATERIALS, benchSerial, benchSupplierLot, seedHistory } from './bench/seed-history';
 import { printTable, summary, timeEach, type Check } from './bench/measure';
 
@@ -65,39 +66,60 @@ runMain(async () => {
   const rand = prng(seed);
 
   const server = await providePostgres('throwaway');
-  const dbName = `tacklog_bench_${crypto.randomBytes(4).toString('hex')}`;
+  const reuse = process.env.TACKLOG_BENCH_DATABASE;
+  const keep = Boolean(reuse) || process.env.TACKLOG_BENCH_KEEP === '1';
+  const dbName = reuse || `tacklog_bench_${crypto.randomBytes(4).toString('hex')}`;
+  if (reuse && !/^tacklog_bench_[a-z0-9_]+$/.test(reuse)) throw new Error('TACKLOG_BENCH_DATABASE must name a benchmark database (tacklog_bench_…)');
   const url = await ensureDatabase(server, dbName);
-  onShutdown(async () => {
-    await dropDatabase(server, dbName);
-    log(`dropped the benchmark database ${dbName}`);
-  });
+  if (!keep) {
+    onShutdown(async () => {
+      await dropDatabase(server, dbName);
+      log(`dropped the benchmark database ${dbName}`);
+    });
+  } else if (server.startedHere) {
+    log('note: the throwaway cluster is removed at exit; keeping a database needs DATABASE_URL');
+  }
   const { runMigrations } = await import('../server/db/migrate');
   await runMigrations(url);
 
   // ---------------------------------------------------------------- seed
   const password = crypto.randomBytes(12).toString('hex');
+  const passwordHash = bcrypt.hashSync(password, 10);
   const seedClient = new pg.Client({ connectionString: url });
   await seedClient.connect();
-  log(`seeding ${shape.days} days × ${shape.driversPerDay} drivers a day (batches of ${shape.batchSize}) into ${dbName}:`);
-  const seedStart = Date.now();
-  const seeded = await seedHistory(seedClient, shape, bcrypt.hashSync(password, 10), (m) => console.log(m));
-  const seedSeconds = (Date.now() - seedStart) / 1000;
+  let seedSeconds = 0;
+  const already = (await seedClient.query('SELECT count(*)::int AS n FROM build_batches')).rows[0].n as number;
+  if (already > 0) {
+    log(`${dbName} already holds a history: measuring it as it is`);
+    await seedClient.query(`UPDATE users SET password_hash = $1 WHERE email = 'bench-quality@tacklog.test'`, [passwordHash]);
+  } else {
+    log(`seeding ${shape.days} days × ${shape.driversPerDay} drivers a day (batches of ${shape.batchSize}) into ${dbName}:`);
+    const seedStart = Date.now();
+    await seedHistory(seedClient, shape, passwordHash, (m) => console.log(m));
+    seedSeconds = (Date.now() - seedStart) / 1000;
+  }
   const sizes = await seedClient.query(
     `SELECT (SELECT count(*) FROM drivers)::int AS drivers, (SELECT count(*) FROM build_batches)::int AS batches,
             (SELECT count(*) FROM step_runs)::int AS runs, (SELECT count(*) FROM step_run_materials)::int AS uses,
             (SELECT count(*) FROM test_results)::int AS tests, (SELECT count(*) FROM lots)::int AS lots,
-            (SELECT count(*) FROM containers)::int AS containers, pg_size_pretty(pg_database_size(current_database())) AS size`,
+            (SELECT count(*) FROM containers)::int AS containers, pg_size_pretty(pg_database_size(current_database())) AS size,
+            (SELECT max(quantity) FROM build_batches)::int AS batch_size,
+            (SELECT count(DISTINCT created_at::date) FROM build_batches)::int AS days`,
   );
   await seedClient.end();
   const sz = sizes.rows[0];
-  log(`seeded in ${seedSeconds.toFixed(1)} s: ${sz.drivers} drivers, ${sz.batches} batches, ${sz.runs} step runs, ${sz.uses} material uses, ${sz.tests} final tests, ${sz.lots} lots, ${sz.containers} containers (${sz.size})`);
+  const seeded = { batches: sz.batches as number };
+  shape.batchSize = sz.batch_size;
+  shape.days = sz.days;
+  log(`${seedSeconds ? `seeded in ${seedSeconds.toFixed(1)} s` : 'history'}: ${sz.drivers} drivers, ${sz.batches} batches, ${sz.runs} step runs, ${sz.uses} material uses, ${sz.tests} final tests, ${sz.lots} lots, ${sz.containers} containers (${sz.size})`);
 
   // ---------------------------------------------------------------- the real app
   const port = await freePort();
-  const tsx = path.join(root, 'node_modules', '.bin', 'tsx');
-  const app = spawn(process.execPath, [tsx, path.join(root, 'server', 'index.ts')], {
+  // As scripts/start.ts runs it: `node --import tsx`, one process in its own group.
+  const app = spawn(process.execPath, ['--import', 'tsx', path.join('server', 'index.ts')], {
     cwd: root,
-    stdio: ['ignore', 'inherit', 'inherit'],
+    stdio: CHILD_STDIO,
+    detached: true,
     env: {
       ...process.env,
       DATABASE_URL: url,
@@ -121,24 +143,17 @@ runMain(async () => {
   const headers = { authorization: `Bearer ${token}` };
 
   // ---------------------------------------------------------------- the same statements, bare
+  // The services' own statements, as the same named prepared statements, on a pool of our own.
   process.env.DATABASE_URL = url;
-  const { driverTraceQueries } = await import('../server/services/trace/driver-trace');
-  const { lotTraceQueries } = await import('../server/services/trace/lot-trace');
-  const dialect = new PgDialect();
+  const { driverTraceQueries, DRIVER_TRACE_STATEMENTS } = await import('../server/services/trace/driver-trace');
+  const { lotTraceQueries, LOT_TRACE_STATEMENTS } = await import('../server/services/trace/lot-trace');
+  const { namedQuery } = await import('../server/services/trace/statements');
   const pool = new pg.Pool({ connectionString: url, max: 3 });
   onShutdown(() => pool.end());
-  const run = (q: SQL) => {
-    const { sql: text, params } = dialect.sqlToQuery(q);
-    return pool.query(text, params as unknown[]);
-  };
-  const bareDriver = async (serial: string) => {
-    const q = driverTraceQueries(serial);
-    return Promise.all([run(q.header), run(q.steps), run(q.tests)]);
-  };
-  const bareLot = async (lotId: string) => {
-    const q = lotTraceQueries(lotId);
-    return Promise.all([run(q.header), run(q.uses), run(q.drivers)]);
-  };
+  const bare = (prefix: string, statements: Record<string, SQL>) =>
+    Promise.all(Object.entries(statements).map(([k, q]) => pool.query(namedQuery(`${prefix}_${k}`, q))));
+  const bareDriver = (serial: string) => bare(DRIVER_TRACE_STATEMENTS, driverTraceQueries(serial));
+  const bareLot = (lotId: string) => bare(LOT_TRACE_STATEMENTS, lotTraceQueries(lotId));
   const apiGet = async (p: string) => {
     const res = await fetch(`${base}${p}`, { headers });
     const text = await res.text();
@@ -181,9 +196,11 @@ runMain(async () => {
     reached += (JSON.parse(await apiGet(`/api/lots/${id}/trace`)) as { drivers: unknown[] }).drivers.length;
   });
   const lotSql = await timeEach(lotIds, bareLot);
+  // The floor under any signed-in request (HTTP, session check, JSON): GET /api/auth/me.
+  const floor = summary(await timeEach(serials, () => apiGet('/api/auth/me')));
 
   console.log('');
-  console.log(`Tacklog trace benchmark — ${sz.drivers.toLocaleString('en')} drivers over ${shape.days} days, seeded in ${seedSeconds.toFixed(1)} s;`);
+  console.log(`Tacklog trace benchmark — ${sz.drivers.toLocaleString('en')} drivers over ${shape.days} days${seedSeconds ? `, seeded in ${seedSeconds.toFixed(1)} s` : ' (database reused)'};`);
   console.log(`forward traces reached ${Math.round(reached / lotIds.length).toLocaleString('en')} drivers per lot on average.`);
   console.log('');
   const d = { api: summary(driverApi), sql: summary(driverSql) };
@@ -201,6 +218,7 @@ runMain(async () => {
     ],
     checks,
   );
+  console.log(`  (for scale: GET /api/auth/me, the session check alone, p50 ${floor.p50.toFixed(1)} ms, p95 ${floor.p95.toFixed(1)} ms)`);
   console.log('');
   return met ? 0 : 1;
 });

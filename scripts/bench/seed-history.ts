@@ -93,10 +93,9 @@ export async function seedHistory(client: pg.Client, shape: HistoryShape, passwo
   await client.query(`CREATE OR REPLACE FUNCTION pg_temp.id(t text) RETURNS uuid LANGUAGE sql IMMUTABLE AS
     $$ SELECT overlay(overlay(md5(t) placing '4' from 13) placing '8' from 17)::uuid $$`);
   // The two big tables get ids in the order rows are made (version-4 shaped, like a time-ordered
-  // UUID), so their primary keys grow at the right edge during the bulk load.
+  // UUID): their primary keys grow at the right edge during the bulk load.
   await client.query(`CREATE OR REPLACE FUNCTION pg_temp.oid(p int, n bigint) RETURNS uuid LANGUAGE sql IMMUTABLE AS
-    $$ SELECT (lpad(to_hex(p), 8, '0') || substr(h, 1, 4) || '4' || substr(h, 5, 3) || '8' || substr(h, 8, 3) || substr(h, 11, 10) || '00')::uuid
-       FROM (SELECT lpad(to_hex(n), 20, '0') AS h) x $$`);
+    $$ SELECT (lpad(to_hex(p), 8, '0') || '-0000-4000-8' || lpad(to_hex(n), 15, '0'))::uuid $$`);
   await client.query(`CREATE TEMP TABLE bench_mat (key text, step int, k int, c int, via text, nc int, nl int)`);
   await client.query(
     `INSERT INTO bench_mat VALUES ${BENCH_MATERIALS.map((m) => {
@@ -158,29 +157,35 @@ export async function seedHistory(client: pg.Client, shape: HistoryShape, passwo
            ${batchStart('i')} + bm.step * interval '1 hour' + o * interval '30 minutes'
     FROM bench_mat bm, generate_series(0, ${nb - 1}) i, generate_series(0, 1) o
     WHERE bm.via IS NULL AND (o = 0 OR i % bm.k = bm.k - 1)`);
+  // Per-batch values computed once; each batch's units generated inside it (x = i·size + u), so a
+  // batch's drivers sit together in the heap as the plant's inserts would put them.
+  const units = `WITH b AS MATERIALIZED (SELECT i, pg_temp.id('b-' || i) AS bid, ${batchStart('i')} AS at FROM generate_series(0, ${nb - 1}) i)`;
+  const perUnit = `FROM b CROSS JOIN LATERAL generate_series(1, ${size}) u CROSS JOIN LATERAL (SELECT b.i * ${size} + u AS x) xx`;
   await withIndexesBuiltAfter(client, ['drivers', 'test_results'], log, async () => {
-    await q('drivers', `INSERT INTO drivers (id, serial, batch_id, status, created_at)
-      SELECT pg_temp.oid(1, x), 'BW' || lpad(i::text, 6, '0') || '-' || lpad(u::text, 4, '0'), pg_temp.id('b-' || i),
-             CASE WHEN ${SCRAPPED} THEN 'scrapped' ELSE 'passed' END::driver_status, ${batchStart('i')}
-      FROM generate_series(0, ${nb - 1}) i, generate_series(1, ${size}) u, LATERAL (SELECT i * ${size} + u AS x) xx
-      ORDER BY 1`);
-    await q('rework runs', `INSERT INTO step_runs (id, batch_id, step_id, station_id, driver_id, kind, started_at, finished_at, units_done)
-      SELECT pg_temp.id('rw-' || x), pg_temp.id('b-' || i), pg_temp.id('step-' || (i % 2) || '-2'), pg_temp.id('st-2'), pg_temp.oid(1, x), 'rework',
-             ${batchStart('i')} + interval '26 hours', ${batchStart('i')} + interval '26 hours 20 minutes', 1
-      FROM generate_series(0, ${nb - 1}) i, generate_series(1, ${size}) u, LATERAL (SELECT i * ${size} + u AS x) xx
+    await q('drivers', `${units}
+      INSERT INTO drivers (id, serial, batch_id, status, created_at)
+      SELECT pg_temp.oid(1, x), 'BW' || lpad(b.i::text, 6, '0') || '-' || lpad(u::text, 4, '0'), b.bid,
+             CASE WHEN ${SCRAPPED} THEN 'scrapped' ELSE 'passed' END::driver_status, b.at
+      ${perUnit}`);
+    await q('rework runs', `${units}
+      INSERT INTO step_runs (id, batch_id, step_id, station_id, driver_id, kind, started_at, finished_at, units_done)
+      SELECT pg_temp.id('rw-' || x), b.bid, pg_temp.id('step-' || (b.i % 2) || '-2'), pg_temp.id('st-2'), pg_temp.oid(1, x), 'rework',
+             b.at + interval '26 hours', b.at + interval '26 hours 20 minutes', 1
+      ${perUnit}
       WHERE ${FAILS} AND NOT ${SCRAPPED}`);
-    await q('rework materials', `INSERT INTO step_run_materials (step_run_id, container_id, quantity_used, loaded_at)
-      SELECT pg_temp.id('rw-' || x), pg_temp.id('c-' || bm.key || '-' || (i / bm.k)), 0.5, ${batchStart('i')} + interval '26 hours'
-      FROM bench_mat bm, generate_series(0, ${nb - 1}) i, generate_series(1, ${size}) u, LATERAL (SELECT i * ${size} + u AS x) xx
+    await q('rework materials', `${units}
+      INSERT INTO step_run_materials (step_run_id, container_id, quantity_used, loaded_at)
+      SELECT pg_temp.id('rw-' || x), pg_temp.id('c-' || bm.key || '-' || (b.i / bm.k)), 0.5, b.at + interval '26 hours'
+      ${perUnit} CROSS JOIN bench_mat bm
       WHERE bm.step = 2 AND ${FAILS} AND NOT ${SCRAPPED}`);
     await q('defect codes', `INSERT INTO defect_codes (code, description) VALUES ('BRB', 'Bench rub and buzz') ON CONFLICT DO NOTHING`);
-    await q('final tests', `INSERT INTO test_results (id, driver_id, result, defect_code, tested_at, tested_by)
-      SELECT pg_temp.oid(2, x * 4 + r.n), pg_temp.oid(1, x), r.result::test_result, r.code, ${batchStart('i')} + r.after, pg_temp.id('user')
-      FROM generate_series(0, ${nb - 1}) i, generate_series(1, ${size}) u, LATERAL (SELECT i * ${size} + u AS x) xx,
-           LATERAL (VALUES ('fail', 'BRB', interval '22 hours', ${FAILS}), ('pass', NULL, interval '22 hours', NOT ${FAILS}),
-                           ('pass', NULL, interval '28 hours', ${FAILS} AND NOT ${SCRAPPED})) r(result, code, after, wanted)
-      WHERE r.wanted
-      ORDER BY 1`);
+    await q('final tests', `${units}
+      INSERT INTO test_results (id, driver_id, result, defect_code, tested_at, tested_by)
+      SELECT pg_temp.oid(2, x * 4 + r.n), pg_temp.oid(1, x), r.result::test_result, r.code, b.at + r.after, pg_temp.id('user')
+      ${perUnit}
+      CROSS JOIN LATERAL (VALUES (0, 'fail', 'BRB', interval '22 hours', ${FAILS}), (1, 'pass', NULL, interval '22 hours', NOT ${FAILS}),
+                                 (2, 'pass', NULL, interval '28 hours', ${FAILS} AND NOT ${SCRAPPED})) r(n, result, code, after, wanted)
+      WHERE r.wanted`);
   });
   await client.query("SET session_replication_role = 'origin'");
   const t = Date.now();

@@ -1,10 +1,13 @@
 import { sql, type SQL } from 'drizzle-orm';
-import { db } from '../../db/client';
 import { notFound } from '../../errors';
 import type { DriverTrace, TraceMaterial, TraceStep } from '../../../shared/schemas/trace';
 import type { TestRecord } from '../../../shared/schemas/tests';
 import type { DriverBatch } from '../../../shared/schemas/drivers';
 import { toTestRecord } from '../testing/records';
+import { runStatements } from './statements';
+
+/** Prefix of the prepared statements' names (the benchmark runs the same ones bare). */
+export const DRIVER_TRACE_STATEMENTS = 'trace_driver';
 
 interface HeaderRow {
   id: string; serial: string; batch_id: string; status: DriverTrace['driver']['status']; created_at: Date;
@@ -124,9 +127,8 @@ const testsFromRows = (rows: TestRow[]): TestRecord[] =>
 
 /** GET /api/drivers/:serial/trace — backward genealogy of one driver (any signed-in person). */
 export async function traceDriver(serial: string): Promise<DriverTrace> {
-  const q = driverTraceQueries(serial);
-  const [header, steps, tests] = await Promise.all([db.execute(q.header), db.execute(q.steps), db.execute(q.tests)]);
-  const h = header.rows[0] as unknown as HeaderRow | undefined;
+  const { header, steps, tests } = await runStatements(DRIVER_TRACE_STATEMENTS, driverTraceQueries(serial));
+  const h = header[0] as HeaderRow | undefined;
   if (!h) throw notFound(`Driver ${serial}`);
   return {
     driver: { id: h.id, serial: h.serial, batchId: h.batch_id, status: h.status, createdAt: iso(h.created_at) },
@@ -134,7 +136,7 @@ export async function traceDriver(serial: string): Promise<DriverTrace> {
       id: h.batch_id, code: h.batch_code, status: h.batch_status, quantity: h.quantity, modelId: h.model_id,
       modelCode: h.model_code, modelName: h.model_name, createdAt: iso(h.batch_created_at),
     },
-    steps: stepsFromRows(steps.rows as unknown as StepRow[]),
-    tests: testsFromRows(tests.rows as unknown as TestRow[]),
+    steps: stepsFromRows(steps as StepRow[]),
+    tests: testsFromRows(tests as TestRow[]),
   };
 }

@@ -1,8 +1,11 @@
 import { sql, type SQL } from 'drizzle-orm';
-import { db } from '../../db/client';
 import { notFound } from '../../errors';
 import { DRIVER_STATUSES } from '../../../shared/constants';
 import type { DriverStatusCounts, LotTrace, LotUse, TraceBatch, TraceDriver, TraceLot } from '../../../shared/schemas/trace';
+import { runStatements } from './statements';
+
+/** Prefix of the prepared statements' names (the benchmark runs the same ones bare). */
+export const LOT_TRACE_STATEMENTS = 'trace_lot';
 
 interface LotRow {
   id: string; supplier_lot: string; status: TraceLot['status']; received_at: Date; certificate_id: string | null;
@@ -77,12 +80,13 @@ export function lotTraceQueries(lotId: string): { header: SQL; uses: SQL; driver
       ORDER BY sr.started_at, b.code, rs.seq, u.container_code, u.mix_code NULLS FIRST`,
     drivers: sql`
       WITH ${lotRunsCte(lotId)},
-      runs AS (SELECT DISTINCT sr.batch_id, sr.driver_id FROM used u JOIN step_runs sr ON sr.id = u.step_run_id)
+      runs AS (SELECT DISTINCT sr.batch_id, sr.driver_id FROM step_runs sr WHERE sr.id = ANY(ARRAY(SELECT step_run_id FROM used)))
+      -- "= ANY(ARRAY(subquery))" keeps these on the primary-key and batch indexes whatever the estimates say.
       SELECT d.id, d.serial, d.status, d.batch_id
-        FROM drivers d WHERE d.batch_id IN (SELECT batch_id FROM runs WHERE driver_id IS NULL)
+        FROM drivers d WHERE d.batch_id = ANY(ARRAY(SELECT batch_id FROM runs WHERE driver_id IS NULL))
       UNION
       SELECT d.id, d.serial, d.status, d.batch_id
-        FROM drivers d WHERE d.id IN (SELECT driver_id FROM runs WHERE driver_id IS NOT NULL)
+        FROM drivers d WHERE d.id = ANY(ARRAY(SELECT driver_id FROM runs WHERE driver_id IS NOT NULL))
       ORDER BY serial`,
   };
 }
@@ -94,17 +98,16 @@ export function countByStatus(list: { status: TraceDriver['status'] }[]): Driver
 }
 
 export async function loadLotTrace(lotId: string): Promise<LotTraceData> {
-  const q = lotTraceQueries(lotId);
-  const [header, usesRes, reached] = await Promise.all([db.execute(q.header), db.execute(q.uses), db.execute(q.drivers)]);
-  const h = header.rows[0] as unknown as LotRow | undefined;
+  const { header, uses: usesRes, drivers: reached } = await runStatements(LOT_TRACE_STATEMENTS, lotTraceQueries(lotId));
+  const h = header[0] as LotRow | undefined;
   if (!h) throw notFound('The lot');
   const lot: TraceLot = {
     id: h.id, supplierLot: h.supplier_lot, status: h.status, receivedAt: iso(h.received_at)!, certificateId: h.certificate_id,
     materialId: h.material_id, materialCode: h.material_code, materialName: h.material_name,
     supplierId: h.supplier_id, supplierName: h.supplier_name,
   };
-  const usesRaw = usesRes.rows as unknown as UseRow[];
-  const driverRows = reached.rows as unknown as DriverRow[];
+  const usesRaw = usesRes as UseRow[];
+  const driverRows = reached as DriverRow[];
   const wholeBatchIds = [...new Set(usesRaw.filter((u) => !u.driver_id).map((u) => u.batch_id))];
 
   const driverById = new Map(driverRows.map((d) => [d.id, d]));
