@@ -10,8 +10,15 @@ export const loadInputSchema = z
     batchId: idSchema,
     containerCode: scannedCode.optional(),
     mixCode: scannedCode.optional(),
+    /** Rework of one driver: its serial. The batch may then be finished (not cancelled). */
+    serial: z.string().trim().min(1, 'is required').max(60, 'is at most 60 characters').optional(),
+    /** Rework: which recipe step the material is for (default: the first step run at this station's kind). */
+    stepId: idSchema.optional(),
   })
   .superRefine((v, ctx) => {
+    if (v.stepId && !v.serial) {
+      ctx.addIssue({ code: 'custom', path: ['stepId'], message: 'is only for a rework load (give serial too)' });
+    }
     if (!v.containerCode && !v.mixCode) {
       ctx.addIssue({ code: 'custom', path: ['containerCode'], message: 'or mixCode is required' });
     }

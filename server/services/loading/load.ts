@@ -1,7 +1,7 @@
 import { and, eq, inArray, isNull } from 'drizzle-orm';
 import { db, type Tx } from '../../db/client';
-import { containers, materials, stationLoads, stepRunMaterials, stepRuns } from '../../db/schema';
-import { conflict } from '../../errors';
+import { containers, drivers, materials, stationLoads, stepRunMaterials, stepRuns } from '../../db/schema';
+import { AppError, conflict } from '../../errors';
 import type { Actor } from '../auth/actor';
 import { requireRole } from '../auth/actor';
 import { recordAudit } from '../audit';
@@ -28,6 +28,30 @@ export function stepAtStation(station: StationRow, batchCode: string, pending: R
         : `Batch ${batchCode} has finished all its steps; nothing more runs at ${station.code}.`,
       { stationKind: station.kind, nextStepId: next?.id ?? null },
     );
+  }
+  return step;
+}
+
+/**
+ * A rework load: the driver must belong to the batch and have failed (or be under rework); the
+ * step is the one named, or the first of the recipe run at this station's kind.
+ */
+async function reworkStep(tx: Tx, station: StationRow, batch: { id: string; code: string }, steps: RecipeStep[], serial: string, stepId?: string): Promise<RecipeStep> {
+  const [driver] = await tx.select().from(drivers).where(eq(drivers.serial, serial));
+  if (!driver) throw new AppError('NOT_FOUND', `No driver has the serial "${serial}".`, 404, [{ field: 'serial', message: 'is not known' }]);
+  if (driver.batchId !== batch.id) {
+    throw conflict('WRONG_BATCH', `Driver ${driver.serial} belongs to another batch, not ${batch.code}. Scan the driver's own batch.`);
+  }
+  if (driver.status !== 'failed' && driver.status !== 'reworked') {
+    throw conflict('NOT_FOR_REWORK', `Driver ${driver.serial} is ${driver.status.replace('_', ' ')}; only a driver that failed final test is reworked.`);
+  }
+  const step = stepId ? steps.find((s) => s.id === stepId) : steps.find((s) => s.stationKind === station.kind);
+  if (!step) {
+    if (stepId) throw new AppError('NOT_FOUND', 'That recipe step is not part of this batch\'s model.', 404, [{ field: 'stepId', message: 'is not a step of this model' }]);
+    throw conflict('WRONG_STATION', `No step of batch ${batch.code}'s recipe runs at a "${station.kind}" station (${station.code}).`, { stationKind: station.kind });
+  }
+  if (step.stationKind !== station.kind) {
+    throw conflict('WRONG_STATION', `Step "${step.name}" runs at a "${step.stationKind}" station, not at ${station.code} ("${station.kind}").`, { stationKind: station.kind });
   }
   return step;
 }
@@ -61,9 +85,11 @@ export async function loadAtStation(actor: Actor, stationId: string, input: Load
       throw conflict('STATION_RETIRED', `Station ${station.code} is retired; nothing can be loaded there. Use an active station.`);
     }
     const { row: batch } = await findBatch(tx, input.batchId);
-    checkBatchOpen(batch);
+    checkBatchOpen(batch, Boolean(input.serial));
     const progress = await batchProgress(tx, batch);
-    const step = stepAtStation(station, batch.code, progress.pending);
+    const step = input.serial
+      ? await reworkStep(tx, station, batch, progress.steps, input.serial, input.stepId)
+      : stepAtStation(station, batch.code, progress.pending);
 
     let containerId: string | null = null;
     let mixId: string | null = null;
