@@ -13,7 +13,7 @@ import path from 'node:path';
 import { dropDatabase, ensureDatabase, providePostgres } from './pg';
 import { aptInstall } from './lib/apt';
 import { buildClientIfStale, clientSourcesPresent, prepareDatabase } from './lib/app';
-import { log, onShutdown, root, runMain, stopChild, UserFacingError, waitForExit } from './lib/proc';
+import { isShuttingDown, log, onShutdown, root, runMain, stopChild, UserFacingError, waitForExit } from './lib/proc';
 import { summarise } from './lib/summary';
 
 const CHROMIUM = '/usr/bin/chromium';
@@ -111,6 +111,7 @@ runMain(async () => {
   );
   onShutdown(() => stopChild(vitest));
   const exitCode = await waitForExit(vitest);
+  if (isShuttingDown()) return exitCode || 1; // Ctrl-C or SIGTERM: no summary of a cut-short run.
 
   const summary = summarise(reportFile);
   if (summary.note) log(summary.note);
