@@ -1,7 +1,7 @@
 import { Router } from 'express';
-import { scrapInputSchema, serialParamsSchema } from '../../shared/schemas/drivers';
+import { reworkInputSchema, scrapInputSchema, serialParamsSchema } from '../../shared/schemas/drivers';
 import { endpoint } from '../http';
-import { getDriver, scrapDriver } from '../services/drivers';
+import { finishRework, getDriver, scrapDriver, startRework } from '../services/drivers';
 
 /** /api/drivers/:serial — one unit, its history, rework and scrap. */
 export const driversRouter = Router();
@@ -12,5 +12,19 @@ driversRouter.post(
   '/:serial/scrap',
   endpoint({ access: ['quality'], params: serialParamsSchema, body: scrapInputSchema }, ({ actor, params, body }) =>
     scrapDriver(actor, params.serial, body),
+  ),
+);
+
+driversRouter.post(
+  '/:serial/rework/start',
+  endpoint({ access: ['assembler'], params: serialParamsSchema, body: reworkInputSchema }, ({ actor, params, body }) =>
+    startRework(actor, params.serial, body),
+  ),
+);
+
+driversRouter.post(
+  '/:serial/rework/finish',
+  endpoint({ access: ['assembler'], params: serialParamsSchema, body: reworkInputSchema }, ({ actor, params, body }) =>
+    finishRework(actor, params.serial, body),
   ),
 );

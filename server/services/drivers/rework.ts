@@ -1,0 +1,56 @@
+import { eq } from 'drizzle-orm';
+import { db } from '../../db/client';
+import { drivers } from '../../db/schema';
+import { conflict, notFound } from '../../errors';
+import { requireRole, type Actor } from '../auth/actor';
+import { recordAudit } from '../audit';
+import { finishStep, startStep } from '../steps';
+import type { DriverStatus } from '../../../shared/constants';
+import type { ReworkInput, ReworkResult } from '../../../shared/schemas/drivers';
+import { toDriver } from './lookup';
+
+/** A failed unit, or one reworked and not yet re-tested (a rebuild may redo several steps). */
+const REWORKABLE: readonly DriverStatus[] = ['failed', 'reworked'];
+
+async function reworkableDriver(serial: string) {
+  const [driver] = await db.select().from(drivers).where(eq(drivers.serial, serial));
+  if (!driver) throw notFound(`Driver ${serial}`);
+  if (!REWORKABLE.includes(driver.status)) {
+    throw conflict(
+      'NOT_REWORKABLE',
+      `Driver ${serial} is ${driver.status.replace('_', ' ')}; only a driver that failed final test can be reworked.`,
+      { status: driver.status },
+    );
+  }
+  return driver;
+}
+
+/** POST /api/drivers/:serial/rework/start — a single-unit run of one recipe step (steps module, kind 'rework'). */
+export async function startRework(actor: Actor, serial: string, input: ReworkInput): Promise<ReworkResult> {
+  requireRole(actor, 'assembler');
+  const driver = await reworkableDriver(serial);
+  const { stepRun } = await startStep(actor, { batchId: driver.batchId, stepId: input.stepId, stationId: input.stationId, serial });
+  return { driver: toDriver(driver), stepRun };
+}
+
+/**
+ * POST /api/drivers/:serial/rework/finish — finishes the unit's run (consumption and cure are the
+ * steps module's) and marks the driver reworked; it goes back to final test.
+ */
+export async function finishRework(actor: Actor, serial: string, input: ReworkInput): Promise<ReworkResult> {
+  requireRole(actor, 'assembler');
+  const current = await reworkableDriver(serial);
+  const { stepRun } = await finishStep(actor, { batchId: current.batchId, stepId: input.stepId, stationId: input.stationId, serial });
+  // The steps module commits the finish in its own transaction; the status change follows it.
+  const driver = await db.transaction(async (tx) => {
+    const [before] = await tx.select().from(drivers).where(eq(drivers.serial, serial)).for('update');
+    if (before.status === 'reworked') return before;
+    const [after] = await tx.update(drivers).set({ status: 'reworked' }).where(eq(drivers.id, before.id)).returning();
+    await recordAudit(tx, {
+      actorId: actor.id, action: 'driver.status', entityType: 'driver', entityId: before.id,
+      before: { status: before.status }, after: { status: after.status }, reason: `rework run ${stepRun.id} finished`,
+    });
+    return after;
+  });
+  return { driver: toDriver(driver), stepRun };
+}
