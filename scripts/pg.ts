@@ -237,7 +237,8 @@ export async function startLocalCluster(options: LocalClusterOptions): Promise<P
       ? fs.mkdtempSync(path.join(os.tmpdir(), 'tacklog-pg-test-'))
       : path.join('/var/tmp', `tacklog-pg-${crypto.createHash('sha1').update(root).digest('hex').slice(0, 10)}`);
     log(`the "${PG_USER}" user cannot reach ${dataDir} (a parent folder is closed to it); using ${fallback} instead`);
-    fs.rmSync(dataDir, { recursive: true, force: true });
+    // Remove the folder just made for it, but never one that holds anything.
+    if (fs.readdirSync(dataDir).length === 0) fs.rmdirSync(dataDir);
     dataDir = fallback;
     makeOwnedDir(dataDir);
   }
