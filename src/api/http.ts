@@ -11,6 +11,8 @@ export class ApiError extends Error {
     public readonly code: string,
     message: string,
     public readonly details: FieldIssue[] = [],
+    /** The error's `details` as sent, when they are not a list of fields (e.g. {cureCompleteAt} of CURE_INCOMPLETE). */
+    public readonly info: unknown = undefined,
   ) {
     super(message);
     this.name = 'ApiError';
@@ -78,7 +80,7 @@ function errorFrom(status: number, payload: unknown): ApiError {
   }
   const { code, message, details } = parsed.data.error;
   const issues = fieldIssuesSchema.safeParse(details);
-  return new ApiError(status, code, message, issues.success ? issues.data : []);
+  return new ApiError(status, code, message, issues.success ? issues.data : [], issues.success ? undefined : details);
 }
 
 /**
