@@ -426,13 +426,24 @@ export function simulateHistory(
   frozen.containers[1].thawedAt = now.minus({ hours: 1 });
   frozen.containers[1].location = 'Line A, dust cap bench';
 
+  // Purchasing has kept up: every material but one is stocked above its reorder point.
+  for (const m of materials) {
+    if (m.code === 'MAG-NEO-SH') continue;
+    const onHand = lots
+      .filter((l) => l.materialCode === m.code && l.status === 'released')
+      .reduce((sum, l) => sum + l.containers.reduce((s, c) => s + Math.max(0, c.remaining), 0), 0);
+    const want = (m.reorderPoint ?? 0) * 1.5;
+    if (onHand < want) receive(m.code, now.minus({ days: 3, hours: 2 }), Math.ceil((want - onHand) / m.perContainer) + 1);
+  }
+
   // The neodymium slugs run low: below their reorder point.
-  for (const l of lots.filter((x) => x.materialCode === 'MAG-NEO-SH')) {
-    l.containers.forEach((c, i) => {
+  lots
+    .filter((x) => x.materialCode === 'MAG-NEO-SH' && x.status === 'released')
+    .flatMap((l) => l.containers)
+    .forEach((c, i) => {
       c.remaining = i === 0 ? 70 : i === 1 ? 45 : 0;
       if (c.remaining < c.quantity) c.openedAt ??= today.minus({ days: 3 });
     });
-  }
   for (const l of lots) if (l.status === 'released' && l.containers.every((c) => c.remaining <= 0)) l.status = 'used_up';
   return { lots, mixes, batches, stepRuns, loads, readings };
 }
