@@ -1,8 +1,8 @@
 import { Router } from 'express';
 import { serialParamsSchema } from '../../shared/schemas/drivers';
-import { lotTraceParamsSchema } from '../../shared/schemas/trace';
+import { lotStatsQuerySchema, lotTraceParamsSchema } from '../../shared/schemas/trace';
 import { endpoint } from '../http';
-import { lotContainmentCsv, traceDriver, traceLot } from '../services/trace';
+import { lotContainmentCsv, lotStats, traceDriver, traceLot } from '../services/trace';
 
 /**
  * Genealogy traces: backward from a driver, forward from a lot (and its containment CSV).
@@ -14,6 +14,9 @@ traceRouter.get(
   '/drivers/:serial/trace',
   endpoint({ access: 'signed-in', params: serialParamsSchema }, ({ params }) => traceDriver(params.serial)),
 );
+
+// Before the lots router's /lots/:id.
+traceRouter.get('/lots/stats', endpoint({ access: 'signed-in', query: lotStatsQuerySchema }, ({ query }) => lotStats(query)));
 
 traceRouter.get('/lots/:id/trace', endpoint({ access: 'signed-in', params: lotTraceParamsSchema }, ({ params }) => traceLot(params.id)));
 

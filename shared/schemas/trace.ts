@@ -144,3 +144,44 @@ export type LotTrace = z.infer<typeof lotTraceSchema>;
 export const CONTAINMENT_CSV_COLUMNS = [
   'serial', 'status', 'batch_code', 'model', 'step', 'station', 'finished_at', 'container_code', 'mix_code',
 ] as const;
+
+/** GET /api/lots/stats — which lots' drivers fail final test more than the baseline explains. */
+export const lotStatsQuerySchema = z.object({
+  /** Lots received in the last `days` days (the family the many-lots correction runs over). */
+  days: z.coerce.number().int('must be a whole number').min(1, 'must be at least 1').max(3660, 'is at most 3660').default(90),
+  materialId: idSchema.optional(),
+  /** `true` lists only flagged lots (the correction still runs over every lot in the window). */
+  flaggedOnly: z.enum(['true', 'false']).optional().transform((v) => v === 'true'),
+});
+export type LotStatsQuery = z.infer<typeof lotStatsQuerySchema>;
+
+export const lotStatSchema = z.object({
+  lotId: idSchema,
+  supplierLot: z.string(),
+  status: z.enum(LOT_STATUSES),
+  receivedAt: instantSchema,
+  materialId: idSchema,
+  materialCode: z.string(),
+  materialName: z.string(),
+  /** Drivers built in whole-batch runs that used the lot (rework uses come after a failure). */
+  driversBuilt: z.number().int(),
+  /** Of those, drivers with a final test, and drivers that failed one. */
+  tested: z.number().int(),
+  failures: z.number().int(),
+  failureRate: z.number().nullable(),
+  /** Exact one-sided binomial test against the baseline, and its Benjamini–Hochberg q-value. */
+  pValue: z.number(),
+  qValue: z.number(),
+  /** Above the p-chart upper control limit for its sample size. */
+  aboveUcl: z.boolean(),
+  flagged: z.boolean(),
+});
+export type LotStat = z.infer<typeof lotStatSchema>;
+
+export const lotStatsSchema = z.object({
+  baseline: z.number(),
+  q: z.number(),
+  days: z.number().int(),
+  items: z.array(lotStatSchema),
+});
+export type LotStats = z.infer<typeof lotStatsSchema>;

@@ -1,8 +1,9 @@
 import crypto from 'node:crypto';
+import binomialTest from '@stdlib/stats-binomial-test';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { csvField, toCsv } from '../../server/services/trace';
 import type { Role } from '../../shared/constants';
-import { driverTraceSchema, lotTraceSchema, CONTAINMENT_CSV_COLUMNS, type DriverTrace } from '../../shared/schemas/trace';
+import { driverTraceSchema, lotStatsSchema, lotTraceSchema, CONTAINMENT_CSV_COLUMNS, type DriverTrace } from '../../shared/schemas/trace';
 import { startApp, type TestApp } from '../helpers/api';
 import { ensureUser } from '../helpers/db';
 import { buildTraceScenario, type TraceScenario } from '../helpers/trace-scenario';
@@ -229,5 +230,44 @@ describe('containment list (GET /api/lots/:id/trace.csv)', () => {
     // B1 step 2 (4 drivers) + B2 step 2 (3 drivers) + the rework of unit 2.
     expect(wire).toHaveLength(4 + 3 + 1);
     expect(wire.filter((r) => r[0] === s.reworkedSerial)).toHaveLength(2);
+  });
+});
+
+describe('lot statistics (GET /api/lots/stats)', () => {
+  it('counts drivers built, tested and failed per lot from whole-batch runs, and flags the suspect lot', async () => {
+    const ca = s.lots.ca1.materialId;
+    const res = await get(`/lots/stats?materialId=${ca}&days=30`, quality);
+    expect(res.status).toBe(200);
+    const stats = lotStatsSchema.parse(await res.json());
+    const byLot = new Map(stats.items.map((i) => [i.lotId, i]));
+    // The CA lots of the scenario: ca1 built batch 1 (4 units; 3 tested, units 2 and 3 failed; unit 4 scrapped untested),
+    // ca2 was used only in a rework (not counted: the failure came first), ca3 built batch 2 (untested), unused nothing.
+    expect([...byLot.keys()].sort()).toEqual([s.lots.ca1.id, s.lots.ca2.id, s.lots.ca3.id, s.lots.unused.id].sort());
+    const ca1 = byLot.get(s.lots.ca1.id)!;
+    expect(ca1).toMatchObject({ driversBuilt: 4, tested: 3, failures: 2 });
+    expect(ca1.failureRate).toBeCloseTo(2 / 3, 12);
+    expect(byLot.get(s.lots.ca2.id)).toMatchObject({ driversBuilt: 0, tested: 0, failures: 0, failureRate: null, flagged: false });
+    expect(byLot.get(s.lots.ca3.id)).toMatchObject({ driversBuilt: 3, tested: 0, flagged: false });
+    // Reference: @stdlib/stats-binomial-test (a port of R's binom.test), one-sided "greater" against the baseline.
+    const ref = binomialTest(2, 3, { p: stats.baseline, alternative: 'greater' }) as unknown as { pValue: number };
+    expect(ca1.pValue).toBeCloseTo(ref.pValue, 12);
+    // Only ca1 has tested drivers, so Benjamini-Hochberg over one test leaves q = p (Benjamini & Hochberg, 1995).
+    expect(ca1.qValue).toBeCloseTo(ca1.pValue, 12);
+    // p-chart UCL (Montgomery §7.3): p + 3·sqrt(p(1-p)/n) for n = 3.
+    const ucl = stats.baseline + 3 * Math.sqrt((stats.baseline * (1 - stats.baseline)) / 3);
+    expect(ca1.aboveUcl).toBe(2 / 3 > ucl);
+    expect(ca1.flagged).toBe(ca1.qValue <= stats.q || ca1.aboveUcl);
+    expect(stats.items[0].lotId).toBe(s.lots.ca1.id);
+
+    const onlyFlagged = lotStatsSchema.parse(await (await get(`/lots/stats?materialId=${ca}&flaggedOnly=true`, quality)).json());
+    expect(onlyFlagged.items.every((i) => i.flagged)).toBe(true);
+  });
+
+  it('401 without a session; 400 naming a bad query field', async () => {
+    expect((await get('/lots/stats')).status).toBe(401);
+    const bad = await get('/lots/stats?days=0', quality);
+    expect(bad.status).toBe(400);
+    expect((await bad.json()).error.details[0].field).toBe('query.days');
+    expect((await get('/lots/stats?materialId=nope', quality)).status).toBe(400);
   });
 });

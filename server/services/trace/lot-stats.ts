@@ -1,0 +1,71 @@
+import { eq, sql } from 'drizzle-orm';
+import { db } from '../../db/client';
+import { settings } from '../../db/schema';
+import { flagLots } from '../../../shared/stats';
+import type { LotStat, LotStats, LotStatsQuery } from '../../../shared/schemas/trace';
+
+const Q = 0.05;
+
+interface Row {
+  lot_id: string; supplier_lot: string; status: LotStat['status']; received_at: Date;
+  material_id: string; material_code: string; material_name: string;
+  built: number; tested: number; failures: number;
+}
+
+/**
+ * GET /api/lots/stats — per lot: drivers built with it, how many were tested and failed, and
+ * whether that is unlikely under the plant's baseline failure rate (shared/stats flagLots:
+ * exact binomial test with Benjamini–Hochberg over the lots listed, or above the p-chart limit).
+ * Counted per batch first, so each driver is read once per batch, not once per lot.
+ */
+export async function lotStats(query: LotStatsQuery): Promise<LotStats> {
+  const [setting] = await db.select({ value: settings.value }).from(settings).where(eq(settings.key, 'baselineFailureRate'));
+  const baseline = typeof setting?.value === 'number' ? setting.value : 0.01;
+  const res = await db.execute(sql`
+    WITH l AS (
+      SELECT l.id, l.supplier_lot, l.status, l.received_at, m.id AS material_id, m.code AS material_code, m.name AS material_name
+      FROM lots l JOIN materials m ON m.id = l.material_id
+      WHERE l.received_at >= now() - make_interval(days => ${query.days})
+        ${query.materialId ? sql`AND l.material_id = ${query.materialId}` : sql``}
+    ),
+    lot_batches AS (
+      SELECT DISTINCT l.id AS lot_id, sr.batch_id
+      FROM l JOIN containers c ON c.lot_id = l.id
+      JOIN LATERAL (
+        SELECT srm.step_run_id FROM step_run_materials srm WHERE srm.container_id = c.id
+        UNION ALL
+        SELECT srm.step_run_id FROM mixes mx JOIN step_run_materials srm ON srm.mix_id = mx.id
+          WHERE mx.resin_container_id = c.id OR mx.hardener_container_id = c.id
+      ) u ON true
+      JOIN step_runs sr ON sr.id = u.step_run_id AND sr.driver_id IS NULL AND sr.kind = 'build'
+    ),
+    batch_outcomes AS (
+      SELECT d.batch_id, count(*)::int AS built, count(t.driver_id)::int AS tested, count(*) FILTER (WHERE t.failed)::int AS failures
+      FROM drivers d
+      LEFT JOIN LATERAL (
+        SELECT t.driver_id, bool_or(t.result = 'fail') AS failed FROM test_results t WHERE t.driver_id = d.id GROUP BY t.driver_id
+      ) t ON true
+      -- = ANY(ARRAY(…)): straight to the batch index (a plain IN may walk every driver).
+      WHERE d.batch_id = ANY(ARRAY(SELECT DISTINCT batch_id FROM lot_batches))
+      GROUP BY d.batch_id
+    )
+    SELECT l.id AS lot_id, l.supplier_lot, l.status, l.received_at, l.material_id, l.material_code, l.material_name,
+           coalesce(sum(bo.built), 0)::int AS built, coalesce(sum(bo.tested), 0)::int AS tested, coalesce(sum(bo.failures), 0)::int AS failures
+    FROM l
+    LEFT JOIN lot_batches lb ON lb.lot_id = l.id
+    LEFT JOIN batch_outcomes bo ON bo.batch_id = lb.batch_id
+    GROUP BY l.id, l.supplier_lot, l.status, l.received_at, l.material_id, l.material_code, l.material_name`);
+  const rows = res.rows as unknown as Row[];
+  const flagged = flagLots(rows.map((r) => ({ ...r, inspected: r.tested, defectives: r.failures })), baseline, Q);
+  const items: LotStat[] = flagged
+    .map((r) => ({
+      lotId: r.lot_id, supplierLot: r.supplier_lot, status: r.status, receivedAt: new Date(r.received_at).toISOString(),
+      materialId: r.material_id, materialCode: r.material_code, materialName: r.material_name,
+      driversBuilt: r.built, tested: r.tested, failures: r.failures,
+      failureRate: r.tested > 0 ? r.failures / r.tested : null,
+      pValue: r.pValue, qValue: r.qValue, aboveUcl: r.aboveUcl, flagged: r.flagged,
+    }))
+    .filter((r) => !query.flaggedOnly || r.flagged)
+    .sort((a, b) => Number(b.flagged) - Number(a.flagged) || a.pValue - b.pValue || a.supplierLot.localeCompare(b.supplierLot));
+  return { baseline, q: Q, days: query.days, items };
+}
