@@ -8,7 +8,7 @@ import { DateTime } from 'luxon';
 import type { DbOrTx } from '../../db/client';
 import { containers, lots, materials, mixes, stationLoads, stations, stepRuns, buildBatches, recipeSteps, settings } from '../../db/schema';
 import type { AlertSeverity, Role } from '../../../shared/constants';
-import { flagLots } from '../../../shared/stats';
+import { lotStats } from '../trace/lot-stats';
 import { containerExpiryOf, PLANT_ZONE } from '../lots/present';
 import { lotExpirySql } from '../lots/expiry-sql';
 
@@ -131,40 +131,16 @@ export async function expiringSoon(tx: DbOrTx, now: Date): Promise<Finding[]> {
  * upper limit), and lots whose certificate of analysis has expired.
  */
 export async function quarantineAdvised(tx: DbOrTx, now: Date): Promise<Finding[]> {
-  const baseline = await setting<number>(tx, 'baselineFailureRate', 0.01);
-  const stats = await tx.execute<{ lot_id: string; supplier_lot: string; material: string; inspected: number; defectives: number }>(sql`
-    WITH used AS (
-      SELECT c.lot_id, srm.step_run_id FROM step_run_materials srm JOIN containers c ON c.id = srm.container_id
-      UNION
-      SELECT c.lot_id, srm.step_run_id FROM step_run_materials srm
-        JOIN mixes m ON m.id = srm.mix_id
-        JOIN containers c ON c.id IN (m.resin_container_id, m.hardener_container_id)
-    ),
-    lot_drivers AS (
-      SELECT DISTINCT u.lot_id, d.id AS driver_id
-      FROM used u JOIN step_runs sr ON sr.id = u.step_run_id AND sr.kind = 'build'
-      JOIN drivers d ON d.batch_id = sr.batch_id
-    ),
-    outcome AS (
-      SELECT t.driver_id, bool_or(t.result = 'fail') AS failed FROM test_results t GROUP BY t.driver_id
-    )
-    SELECT l.id AS lot_id, l.supplier_lot, m.name AS material,
-           count(*)::int AS inspected, count(*) FILTER (WHERE o.failed)::int AS defectives
-    FROM lot_drivers ld
-    JOIN outcome o ON o.driver_id = ld.driver_id
-    JOIN lots l ON l.id = ld.lot_id
-    JOIN materials m ON m.id = l.material_id
-    WHERE l.status IN ('released', 'on_hold')
-    GROUP BY l.id, l.supplier_lot, m.name`);
-  const flagged = flagLots(stats.rows.map((r) => ({ ...r, inspected: Number(r.inspected), defectives: Number(r.defectives) })), baseline);
+  // The same statistics as GET /api/lots/stats, over the lots received in the last year.
+  const stats = await lotStats({ days: 365, flaggedOnly: true });
   const out = new Map<string, Finding>();
-  for (const f of flagged) {
-    if (!f.flagged) continue;
-    const rate = ((100 * f.defectives) / f.inspected).toFixed(1);
-    out.set(f.lot_id, {
-      kind: 'quarantine_advised', severity: 'warning', subjectType: 'lot', subjectId: f.lot_id, audience: ['quality'],
-      message: `Lot ${f.supplier_lot} of ${f.material}: ${f.defectives} of ${f.inspected} drivers built with it failed final test (${rate} % against a ${(baseline * 100).toFixed(1)} % baseline; q = ${f.qValue.toPrecision(2)}${f.aboveUcl ? ', above the p-chart limit' : ''}). Consider quarantining it and tracing its drivers.`,
-      data: { inspected: f.inspected, defectives: f.defectives, pValue: f.pValue, qValue: f.qValue, aboveUcl: f.aboveUcl, baseline, reason: 'failure_rate' },
+  for (const f of stats.items) {
+    if (!f.flagged || (f.status !== 'released' && f.status !== 'on_hold')) continue;
+    const rate = ((100 * f.failures) / f.tested).toFixed(1);
+    out.set(f.lotId, {
+      kind: 'quarantine_advised', severity: 'warning', subjectType: 'lot', subjectId: f.lotId, audience: ['quality'],
+      message: `Lot ${f.supplierLot} of ${f.materialName}: ${f.failures} of ${f.tested} drivers built with it failed final test (${rate} % against a ${(stats.baseline * 100).toFixed(1)} % baseline; q = ${f.qValue.toPrecision(2)}${f.aboveUcl ? ', above the p-chart limit' : ''}). Consider quarantining it and tracing its drivers.`,
+      data: { inspected: f.tested, defectives: f.failures, pValue: f.pValue, qValue: f.qValue, aboveUcl: f.aboveUcl, baseline: stats.baseline, reason: 'failure_rate' },
     });
   }
   const today = DateTime.fromJSDate(now).setZone(PLANT_ZONE).toISODate() as string;
