@@ -44,7 +44,8 @@ export async function finishRework(actor: Actor, serial: string, input: ReworkIn
   // The steps module commits the finish in its own transaction; the status change follows it.
   const driver = await db.transaction(async (tx) => {
     const [before] = await tx.select().from(drivers).where(eq(drivers.serial, serial)).for('update');
-    if (before.status === 'reworked') return before;
+    // Only failed → reworked: already reworked stays, and a concurrent scrap is not undone.
+    if (before.status !== 'failed') return before;
     const [after] = await tx.update(drivers).set({ status: 'reworked' }).where(eq(drivers.id, before.id)).returning();
     await recordAudit(tx, {
       actorId: actor.id, action: 'driver.status', entityType: 'driver', entityId: before.id,
