@@ -11,6 +11,7 @@ import type { AlertSeverity, Role } from '../../../shared/constants';
 import { lotStats } from '../trace/lot-stats';
 import { containerExpiryOf, PLANT_ZONE } from '../lots/present';
 import { lotExpirySql } from '../lots/expiry-sql';
+import { causeWords } from '../loading/usability';
 
 export interface Finding {
   kind: string;
@@ -21,15 +22,6 @@ export interface Finding {
   audience: Role[];
   data?: Record<string, unknown>;
 }
-
-const CAUSE_WORDS: Record<string, string> = {
-  supplier_expiry: "the supplier's expiry date",
-  shelf_life: 'its shelf life',
-  open_life: 'its life after opening',
-  thawed_life: 'its life after thawing',
-  out_of_storage: 'its time allowed out of cold storage',
-  pot_life: 'its pot life',
-};
 
 function when(d: Date, zone = PLANT_ZONE): string {
   return DateTime.fromJSDate(d).setZone(zone).toFormat('yyyy-MM-dd HH:mm');
@@ -92,7 +84,7 @@ export async function expiredInStock(tx: DbOrTx, now: Date): Promise<Finding[]> 
     out.push({
       kind: 'expired_in_stock', severity: isLoaded ? 'critical' : 'warning', subjectType: 'container', subjectId: c.id,
       audience: isLoaded ? ['quality', 'receiving', 'assembler'] : ['quality', 'receiving'],
-      message: `Container ${c.code} (${m.name}, lot ${l.supplierLot}) passed ${CAUSE_WORDS[exp.cause ?? ''] ?? 'its expiry'} at ${when(new Date(exp.at))} and is ${isLoaded ? 'loaded at a station' : 'still in stock'}: take it out of use.`,
+      message: `Container ${c.code} (${m.name}, lot ${l.supplierLot}) passed ${exp.cause ? causeWords(exp.cause) : 'its expiry'} at ${when(new Date(exp.at))} and is ${isLoaded ? 'loaded at a station' : 'still in stock'}: take it out of use.`,
       data: { containerCode: c.code, lotId: l.id, materialId: m.id, cause: exp.cause, expiredAt: exp.at, loaded: isLoaded },
     });
   }

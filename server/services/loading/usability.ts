@@ -4,18 +4,15 @@
  */
 import type { containers, lots, materials, mixes } from '../../db/schema';
 import { conflict } from '../../errors';
-import {
-  containerExpiry, earliestOf, isExpired, lotExpiry, type ExpiryCause, type ExpiryMaterial, type ExpiryResult,
-} from '../../../shared/expiry';
-import { config } from '../../config';
+import { earliestOf, isExpired, lotExpiry, type ExpiryCause, type ExpiryResult } from '../../../shared/expiry';
+import { containerExpiryOf, expiryLotOf, expiryMaterialOf, PLANT_ZONE } from '../lots/present';
 
 export type ContainerRow = typeof containers.$inferSelect;
 export type LotRow = typeof lots.$inferSelect;
 export type MaterialRow = typeof materials.$inferSelect;
 export type MixRow = typeof mixes.$inferSelect;
 
-/** The zone in which supplier expiry dates end (a date is usable through that whole day). */
-export const PLANT_ZONE = config.plantZone;
+export { PLANT_ZONE };
 
 const CAUSE_WORDS: Record<ExpiryCause, string> = {
   supplier_expiry: "the supplier's expiry date",
@@ -34,40 +31,14 @@ function when(iso: string): string {
   return `${iso.slice(0, 16).replace('T', ' ')} UTC`;
 }
 
-export function expiryMaterial(m: MaterialRow): ExpiryMaterial {
-  return {
-    shelfLifeDays: m.shelfLifeDays,
-    openLifeHours: m.openLifeHours,
-    thawedLifeHours: m.thawedLifeHours,
-    outOfStorageAllowanceHours: m.outOfStorageAllowanceHours,
-    potLifeMinutes: m.potLifeMinutes,
-    storageClass: m.storageClass,
-  };
-}
-
-export function expiryLot(l: LotRow) {
-  return { receivedAt: l.receivedAt.toISOString(), manufacturedOn: l.manufacturedOn, expiresOn: l.expiresOn };
-}
-
 /** Effective expiry of a container (a sealed one being loaded is judged as it is now: unopened). */
 export function expiryOfContainer(c: ContainerRow, l: LotRow, m: MaterialRow, now: Date): ExpiryResult {
-  return containerExpiry(
-    expiryMaterial(m),
-    expiryLot(l),
-    {
-      openedAt: c.openedAt?.toISOString() ?? null,
-      thawedAt: c.thawedAt?.toISOString() ?? null,
-      outOfStorageMinutes: c.outOfStorageMinutes,
-      outOfStorageSince: c.outOfStorageSince?.toISOString() ?? null,
-    },
-    PLANT_ZONE,
-    now,
-  );
+  return containerExpiryOf(c, l, m, now, PLANT_ZONE);
 }
 
 /** Effective expiry of a mix: its pot-life end (set at mixing), or an earlier lot limit of a part. */
 export function expiryOfMix(mix: MixRow, parts: { lot: LotRow; material: MaterialRow }[]): ExpiryResult {
-  const lotLimits = parts.map((p) => lotExpiry(expiryMaterial(p.material), expiryLot(p.lot), PLANT_ZONE));
+  const lotLimits = parts.map((p) => lotExpiry(expiryMaterialOf(p.material), expiryLotOf(p.lot), PLANT_ZONE));
   return earliestOf([
     { cause: 'pot_life', at: mix.potLifeEndsAt.toISOString() },
     ...lotLimits.flatMap((r) => (r.at && r.cause ? [{ cause: r.cause, at: r.at }] : [])),
