@@ -10,6 +10,7 @@ import { recipesRoutes } from './routes/recipes';
 import { lotsRoutes } from './routes/lots';
 import { materialsRoutes } from './routes/materials';
 import { receivingRoutes } from './routes/receiving';
+import { alertsRoutes } from './routes/alerts';
 import './meta';
 
 // ---------------------------------------------------------------------------------------------
@@ -25,6 +26,7 @@ const areaRoutes: RouteRecordRaw[] = [
   ...lotsRoutes,
   ...materialsRoutes,
   ...receivingRoutes,
+  ...alertsRoutes,
 ];
 
 export const routes: RouteRecordRaw[] = [
