@@ -1,7 +1,7 @@
 import { and, eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '../../server/db/client';
-import { auditLog, drivers, stepRuns, testResults } from '../../server/db/schema';
+import { auditLog, drivers, materials, stepRuns, testResults } from '../../server/db/schema';
 import { defectCodeListSchema } from '../../shared/schemas/defects';
 import { driverDetailSchema } from '../../shared/schemas/drivers';
 import { testCreatedSchema } from '../../shared/schemas/tests';
@@ -31,12 +31,21 @@ const testCount = async (serial: string) => {
   const d = await driverRow(serial);
   return (await db.select().from(testResults).where(eq(testResults.driverId, d.id))).length;
 };
-/** Finishes batch 2's last step (dust cap) with its cure complete at `cureAt`. */
-const finishB2Cap = (cureAt: Date) =>
-  db
+/**
+ * Finishes batch 2's last step (dust cap) `hoursAgo` hours ago. The cap adhesive gets a 12 h
+ * full cure at 22 °C (an overnight dust-cap cure: common practice); the gate recomputes the
+ * cure from the area's readings (none here: the reference temperature holds).
+ */
+const finishB2Cap = async (hoursAgo: number) => {
+  await db
+    .update(materials)
+    .set({ cure: { refTempC: 22, handlingMinutes: 120, fullCureMinutes: 720 } })
+    .where(eq(materials.id, s.lots.cap.materialId));
+  await db
     .update(stepRuns)
-    .set({ finishedAt: new Date(Date.now() - 3600_000), cureCompleteAt: cureAt })
+    .set({ finishedAt: new Date(Date.now() - hoursAgo * 3600_000) })
     .where(and(eq(stepRuns.batchId, s.batches.b2.id), eq(stepRuns.stepId, s.steps[2].id)));
+};
 
 describe('POST /api/tests — who and what', () => {
   it('401 without a session; 403 for receiving and admin', async () => {
@@ -93,11 +102,11 @@ describe('POST /api/tests — plant rules', () => {
   });
 
   it('409 CURE_INCOMPLETE while the last step must still cure (dust cap overnight: common practice)', async () => {
-    await finishB2Cap(new Date(Date.now() + 6 * 3600_000));
+    await finishB2Cap(6); // 6 h of a 12 h cure
     const res = await as(assembler).post('/api/tests', { serial: s.batches.b2.serials[0], result: 'pass' });
     expect(res.status).toBe(409);
     expect(res.body.error.code).toBe('CURE_INCOMPLETE');
-    await finishB2Cap(new Date(Date.now() - 60_000));
+    await finishB2Cap(13); // cured an hour ago
   });
 
   it('pass → 201 and the driver is passed, with measurements and the tester kept', async () => {

@@ -6,6 +6,7 @@ import { requireRole, type Actor } from '../auth/actor';
 import { recordAudit } from '../audit';
 import type { TestCreated, TestInput } from '../../../shared/schemas/tests';
 import { toTestRecord } from './records';
+import { cureOfRun, profilesForRuns } from '../cure';
 
 interface MissingStep {
   step_id: string;
@@ -33,16 +34,26 @@ export async function missingSteps(tx: Tx, batchId: string, driverId: string): P
 }
 
 /** When the adhesive of the recipe's last step (if it must cure) is fully cured for this driver; null if nothing to wait for. */
-async function lastStepCureCompleteAt(tx: Tx, batchId: string, driverId: string): Promise<Date | null> {
+async function lastStepCureCompleteAt(tx: Tx, batchId: string, driverId: string, now: Date): Promise<Date | null> {
   const res = await tx.execute(sql`
-    SELECT max(sr.cure_complete_at) AS at
+    SELECT sr.id, sr.finished_at, st.area
     FROM build_batches b
     JOIN LATERAL (SELECT id, wait_for_cure FROM recipe_steps WHERE model_id = b.model_id ORDER BY seq DESC LIMIT 1) last ON true
     JOIN step_runs sr ON sr.step_id = last.id AND sr.finished_at IS NOT NULL
       AND ((sr.batch_id = b.id AND sr.driver_id IS NULL) OR sr.driver_id = ${driverId})
+    JOIN stations st ON st.id = sr.station_id
     WHERE b.id = ${batchId} AND last.wait_for_cure`);
-  const at = (res.rows[0] as { at: Date | string | null } | undefined)?.at;
-  return at ? new Date(at) : null;
+  const runs = res.rows as { id: string; finished_at: Date | string; area: string }[];
+  // The same computation as the station's start gate and the cure board: recomputed from the
+  // area's readings since the finish, not the estimate stored at finish.
+  const profiles = await profilesForRuns(tx, runs.map((r) => r.id));
+  let latest: Date | null = null;
+  for (const r of runs) {
+    const cure = await cureOfRun(tx, { finishedAt: new Date(r.finished_at), area: r.area }, profiles.get(r.id) ?? [], now);
+    const at = cure ? new Date(cure.cureCompleteAt) : null;
+    if (at && (!latest || at > latest)) latest = at;
+  }
+  return latest;
 }
 
 /** POST /api/tests: record one final test; pass → passed, fail → failed (with a defect code). */
@@ -77,8 +88,9 @@ export async function recordTest(actor: Actor, input: TestInput): Promise<TestCr
         missing.map((m) => ({ stepId: m.step_id, seq: m.seq, name: m.name })),
       );
     }
-    const cureAt = await lastStepCureCompleteAt(tx, driver.batchId, driver.id);
-    if (cureAt && cureAt.getTime() > Date.now()) {
+    const now = new Date();
+    const cureAt = await lastStepCureCompleteAt(tx, driver.batchId, driver.id, now);
+    if (cureAt && cureAt > now) {
       throw conflict('CURE_INCOMPLETE', `The last step's adhesive is not fully cured until ${cureAt.toISOString()}; test after that.`, {
         cureCompleteAt: cureAt.toISOString(),
       });
