@@ -40,18 +40,17 @@ export async function startRework(actor: Actor, serial: string, input: ReworkInp
 export async function finishRework(actor: Actor, serial: string, input: ReworkInput): Promise<ReworkResult> {
   requireRole(actor, 'assembler');
   const current = await reworkableDriver(serial);
-  const { stepRun } = await finishStep(actor, { batchId: current.batchId, stepId: input.stepId, stationId: input.stationId, serial });
-  // The steps module commits the finish in its own transaction; the status change follows it.
-  const driver = await db.transaction(async (tx) => {
+  // The finish (a savepoint inside this transaction) and the status change commit together.
+  return db.transaction(async (tx) => {
+    const { stepRun } = await finishStep(actor, { batchId: current.batchId, stepId: input.stepId, stationId: input.stationId, serial }, new Date(), tx);
     const [before] = await tx.select().from(drivers).where(eq(drivers.serial, serial)).for('update');
     // Only failed → reworked: already reworked stays, and a concurrent scrap is not undone.
-    if (before.status !== 'failed') return before;
+    if (before.status !== 'failed') return { driver: toDriver(before), stepRun };
     const [after] = await tx.update(drivers).set({ status: 'reworked' }).where(eq(drivers.id, before.id)).returning();
     await recordAudit(tx, {
       actorId: actor.id, action: 'driver.status', entityType: 'driver', entityId: before.id,
       before: { status: before.status }, after: { status: after.status }, reason: `rework run ${stepRun.id} finished`,
     });
-    return after;
+    return { driver: toDriver(after), stepRun };
   });
-  return { driver: toDriver(driver), stepRun };
 }

@@ -1,5 +1,5 @@
 import { and, eq, isNull } from 'drizzle-orm';
-import { db } from '../../db/client';
+import { db, type DbOrTx } from '../../db/client';
 import { stationLoads, stepRunMaterials, stepRuns } from '../../db/schema';
 import { conflict } from '../../errors';
 import type { Actor } from '../auth/actor';
@@ -13,11 +13,17 @@ import { openRun, stepContext, type StepActionRequest } from './context';
 
 /**
  * Finishes a running step: records what was consumed (amountPerUnit × units, FEFO across what is
- * loaded) and starts the cure clock from the area's readings. Exported for the rework endpoints.
+ * loaded) and starts the cure clock from the area's readings. Exported for the rework endpoints,
+ * which pass their own transaction (`runner`) so the finish and what follows commit together.
  */
-export async function finishStep(actor: Actor, input: StepActionRequest, now: Date = new Date()): Promise<{ stepRun: StepRun }> {
+export async function finishStep(
+  actor: Actor,
+  input: StepActionRequest,
+  now: Date = new Date(),
+  runner: DbOrTx = db,
+): Promise<{ stepRun: StepRun }> {
   requireRole(actor, 'assembler');
-  return db.transaction(async (tx) => {
+  return runner.transaction(async (tx) => {
     const ctx = await stepContext(tx, input);
     const run = await openRun(tx, ctx);
     if (!run) {
