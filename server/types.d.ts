@@ -1,7 +1,6 @@
 import type { Actor } from './services/auth/actor';
 
 declare global {
-  // eslint-disable-next-line @typescript-eslint/no-namespace
   namespace Express {
     interface Request {
       /** Set by the auth middleware when a valid session token came with the request. */

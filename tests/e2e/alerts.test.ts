@@ -1,9 +1,8 @@
 import { afterAll, afterEach, beforeEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { blockExternalRequests, closeBrowser, newPage } from '../helpers/browser';
+import { blockExternalRequests, closeBrowser, newPage, signInAs } from '../helpers/browser';
 
 const baseUrl = inject('baseUrl');
-const password = process.env.TACKLOG_DEMO_PASSWORD || 'tacklog-demo';
 const shots = process.env.TACKLOG_E2E_SCREENSHOTS; // a folder to keep screenshots in, when set
 
 let page: Page;
@@ -28,13 +27,7 @@ async function shot(name: string) {
   if (shots) await page.screenshot({ path: `${shots}/${name}.png`, fullPage: true });
 }
 
-async function signIn(email: string) {
-  await page.goto('/sign-in');
-  await page.locator('[data-test="signin-email"]').fill(email);
-  await page.locator('[data-test="signin-password"]').fill(password);
-  await page.locator('[data-test="signin-submit"]').click();
-  await page.locator('[data-test="home-page"]').waitFor();
-}
+const signIn = (email: string) => signInAs(page, email);
 
 async function openAlerts() {
   await page.locator('[data-test="nav-alerts.list"]').click();

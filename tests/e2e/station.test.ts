@@ -1,6 +1,6 @@
 import { afterAll, afterEach, beforeAll, describe, expect, inject, it } from 'vitest';
 import { request as playwrightRequest, type APIRequestContext, type Page } from 'playwright-core';
-import { blockExternalRequests, closeBrowser, newPage } from '../helpers/browser';
+import { blockExternalRequests, closeBrowser, newPage, signInAs } from '../helpers/browser';
 
 /**
  * A full assembler session at the magnet-assembly station with keyboard-wedge input (typed
@@ -94,11 +94,7 @@ async function scanFieldHasFocus(): Promise<boolean> {
 beforeAll(async () => {
   page = await newPage(baseUrl);
   external = await blockExternalRequests(page);
-  await page.goto('/sign-in');
-  await page.locator('[data-test="signin-email"]').fill('assembler@tacklog.test');
-  await page.locator('[data-test="signin-password"]').fill(password);
-  await page.locator('[data-test="signin-submit"]').click();
-  await page.locator('[data-test="home-page"]').waitFor();
+  await signInAs(page, 'assembler@tacklog.test');
 });
 
 afterEach(() => {

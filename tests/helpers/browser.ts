@@ -74,3 +74,15 @@ export async function blockExternalRequests(page: Page): Promise<string[]> {
   });
   return external;
 }
+
+/** Password of the demo accounts (api.md). */
+export const DEMO_PASSWORD = process.env.TACKLOG_DEMO_PASSWORD || 'tacklog-demo';
+
+/** Signs in through the sign-in form and waits for the home page. */
+export async function signInAs(page: Page, email: string, password: string = DEMO_PASSWORD): Promise<void> {
+  await page.goto('/sign-in');
+  await page.locator('[data-test="signin-email"]').fill(email);
+  await page.locator('[data-test="signin-password"]').fill(password);
+  await page.locator('[data-test="signin-submit"]').click();
+  await page.locator('[data-test="home-page"]').waitFor();
+}
