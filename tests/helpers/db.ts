@@ -21,7 +21,7 @@ import type { Role } from '../../shared/constants';
 import { db } from '../../server/db/client';
 import { runMigrations } from '../../server/db/migrate';
 import { users } from '../../server/db/schema';
-import { forgetActors, hashPassword } from '../../server/services/auth';
+import { hashPassword } from '../../server/services/auth';
 import { signSessionToken } from '../../server/services/auth/tokens';
 
 /** Password of every user ensureUser makes (unless given another). */
@@ -90,7 +90,6 @@ export async function ensureUser(
     }
   }
   await db.update(users).set(values).where(eq(users.id, id));
-  forgetActors(id); // the server caches sign-ins for a few seconds
   return { id, email, name, password, roles, token: signSessionToken(id) };
 }
 

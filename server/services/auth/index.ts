@@ -29,29 +29,9 @@ export async function login(input: LoginInput): Promise<{ token: string; user: U
   return { token: signSessionToken(row.id), user: toUser(row) };
 }
 
-/**
- * Signed-in users seen in the last few seconds: every request checks its session against the
- * users table, and a station scanning fast should not pay a lookup per scan. A change of roles
- * or a disabled account takes effect within ACTOR_CACHE_MS.
- */
-const ACTOR_CACHE_MS = 10_000;
-const ACTOR_CACHE_MAX = 1000;
-const actorCache = new Map<string, { actor: Actor | null; until: number }>();
-
-/** Forgets cached sign-ins (after a change to users, or in tests). */
-export function forgetActors(userId?: string): void {
-  if (userId) actorCache.delete(userId);
-  else actorCache.clear();
-}
-
 /** The actor for a user id from a session token; null when the user is gone or disabled. */
 export async function actorForUserId(userId: string): Promise<Actor | null> {
-  const now = Date.now();
-  const hit = actorCache.get(userId);
-  if (hit && hit.until > now) return hit.actor;
   const [row] = await db.select().from(users).where(eq(users.id, userId)).limit(1);
-  const actor = row && row.active ? toUser(row) : null;
-  if (actorCache.size >= ACTOR_CACHE_MAX) actorCache.clear();
-  actorCache.set(userId, { actor, until: now + ACTOR_CACHE_MS });
-  return actor;
+  if (!row || !row.active) return null;
+  return toUser(row);
 }
