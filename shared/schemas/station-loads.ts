@@ -97,6 +97,8 @@ export const stationLoadSchema = z.object({
   mix: loadedMixSchema.nullable(),
   /** The container's lot, or the mix's resin lot. */
   lot: loadedLotSchema,
+  /** A mix's other part (hardener or activator), so its hazards show too; null for a container. */
+  partMaterial: loadedMaterialSchema.nullable(),
   /** The container's material, or the mix's resin material. */
   material: loadedMaterialSchema,
   expiresAt: instantSchema.nullable(),

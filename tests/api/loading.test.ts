@@ -130,6 +130,10 @@ describe('loading: accepted', () => {
     expect(res.mix?.code).toBe(mix.code);
     expect(res.expiryCause).toBe('pot_life');
     expect(res.expiresAt).toBe(mix.potLifeEndsAt.toISOString());
+    // Both parts' hazards reach the station's safety panel: the resin as `material`, the hardener as `partMaterial`.
+    expect(res.material.id).toBe(epoxy.resin.id);
+    expect(res.partMaterial?.id).toBe(epoxy.hardener.id);
+    expect(res.partMaterial?.hazards.pictograms).toEqual(epoxy.hardener.hazards.pictograms);
   });
 });
 

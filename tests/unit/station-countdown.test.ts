@@ -9,6 +9,7 @@ const base = {
   batchCode: 'HB12W-260304-01', loadedAt: '2026-03-04T08:00:00.000Z', loadedBy: null,
   lot: { id: '00000000-0000-4000-8000-000000000004', supplierLot: 'L1', status: 'released' as const },
   material: { id: '00000000-0000-4000-8000-000000000005', code: 'ADH', name: 'Adhesive', kind: 'adhesive' as const, unit: 'g', hazards: { pictograms: [], statements: [] }, sdsAttachmentId: null },
+  partMaterial: null,
 };
 
 function mixLoad(mixedAt: string, endsAt: string): StationLoad {

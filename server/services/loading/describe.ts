@@ -71,6 +71,7 @@ export async function describeLoads(tx: DbOrTx, rows: LoadRow[], now: Date): Pro
         mix: null,
         lot: { id: c.lot.id, supplierLot: c.lot.supplierLot, status: c.lot.status },
         material: materialSummary(c.material),
+        partMaterial: null,
         expiresAt: e.at,
         expiryCause: e.cause,
       };
@@ -83,6 +84,7 @@ export async function describeLoads(tx: DbOrTx, rows: LoadRow[], now: Date): Pro
       mix: mixSummary(m.mix),
       lot: { id: m.resin.lot.id, supplierLot: m.resin.lot.supplierLot, status: m.resin.lot.status },
       material: materialSummary(m.resin.material),
+      partMaterial: materialSummary(m.hardener.material),
       expiresAt: e.at,
       expiryCause: e.cause,
     };
