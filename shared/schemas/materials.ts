@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { GHS_PICTOGRAMS, MATERIAL_KINDS, STORAGE_CLASSES, type MaterialKind } from '../constants';
 import { isValidGtin } from '../gs1';
 import { idSchema, instantSchema } from './common';
+import { attachmentSchema } from './attachments';
 
 /**
  * Material catalogue: the shapes the API sends and accepts (api.md `Material`, plus
@@ -222,3 +223,7 @@ export type Material = z.infer<typeof materialSchema>;
 
 export const materialListSchema = z.object({ items: z.array(materialSchema) });
 export const materialResultSchema = materialSchema;
+
+/** POST /api/materials/:id/sds (admin) → 201: the stored safety data sheet and the material now naming it. */
+export const sdsUploadResultSchema = z.object({ attachment: attachmentSchema, material: materialSchema });
+export type SdsUploadResult = z.infer<typeof sdsUploadResultSchema>;

@@ -1,9 +1,7 @@
-import { z } from 'zod';
-import { attachmentSchema } from '@shared/schemas/attachments';
 import {
   materialListSchema,
-  materialSchema,
   materialResultSchema,
+  sdsUploadResultSchema,
   type Material,
   type MaterialInput,
   type MaterialPatch,
@@ -48,12 +46,10 @@ export function retireMaterial(id: string): Promise<Material> {
   return apiFetch(`/api/materials/${encodeURIComponent(id)}/retire`, { method: 'POST', schema: materialResultSchema });
 }
 
-/** POST /api/materials/:id/sds answer (the server's shape; no shared schema names it yet). */
-const sdsResultSchema = z.object({ attachment: attachmentSchema, material: materialSchema });
 
 /** POST /api/materials/:id/sds (admin) → 201: uploads the safety data sheet (PDF, PNG or JPEG). */
 export async function uploadSds(id: string, file: File): Promise<Material> {
-  const result = await uploadFile(`/api/materials/${encodeURIComponent(id)}/sds`, file, {}, sdsResultSchema);
+  const result = await uploadFile(`/api/materials/${encodeURIComponent(id)}/sds`, file, {}, sdsUploadResultSchema);
   return result.material;
 }
 

@@ -24,6 +24,7 @@ import { certificateResultSchema, lotDetailSchema } from '../../shared/schemas/l
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
 import { fields, jpegBytes, newMaterial, newSupplier, pdfBytes, pngBytes, receive, upload } from '../helpers/receiving';
+import { sdsUploadResultSchema } from '../../shared/schemas/materials';
 
 let app: TestApp;
 let admin: TestUser;
@@ -166,6 +167,7 @@ describe('safety data sheet upload and downloads', () => {
     expect(await stored()).toEqual(before);
     const res = await upload(app.baseUrl, `/api/materials/${material.id}/sds`, { bytes: pdfBytes('SDS'), type: 'application/pdf', filename: 'sds.pdf', token: admin.token });
     expect(res.status).toBe(201);
+    expect(sdsUploadResultSchema.safeParse(res.body).success).toBe(true);
     expect(res.body.material.sdsAttachmentId).toBe(res.body.attachment.id);
     expect(res.body.attachment.kind).toBe('sds');
     expect((await as(assembler).get(`/api/materials/${material.id}`)).body.sdsAttachmentId).toBe(res.body.attachment.id);
