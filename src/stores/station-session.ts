@@ -117,11 +117,21 @@ export const useStationSessionStore = defineStore('station-session', () => {
     if (!queue.online.value) say(queuedFeedback(label));
   }
 
-  async function refreshStations(): Promise<void> {
-    const list = await stationsApi.listStations();
-    stations.value = list;
-    writeStored(KEYS.stations, list);
-    if (station.value) setStation(list.find((s) => s.id === station.value?.id) ?? null);
+  /** The station list being fetched, so a scan that comes first can wait for it. */
+  let stationsLoading: Promise<void> | null = null;
+
+  function refreshStations(): Promise<void> {
+    const loading = (async () => {
+      const list = await stationsApi.listStations();
+      stations.value = list;
+      writeStored(KEYS.stations, list);
+      if (station.value) setStation(list.find((s) => s.id === station.value?.id) ?? null);
+    })();
+    stationsLoading = loading;
+    void loading.finally(() => {
+      if (stationsLoading === loading) stationsLoading = null;
+    }).catch(() => undefined);
+    return loading;
   }
 
   /** The traveler and what is loaded here, from the server (kept as they were when it cannot be reached). */
@@ -176,6 +186,8 @@ export const useStationSessionStore = defineStore('station-session', () => {
 
   /** One scan (or typed code + Enter). */
   async function scan(code: string): Promise<void> {
+    // A scanner is fast: the first scan may come before the station list has arrived.
+    if (!station.value && stationsLoading) await stationsLoading.catch(() => undefined);
     const meaning = interpretScan(code, stations.value, traveler.value !== null);
     if (meaning.type === 'station') return selectStation(meaning.station);
     if (!station.value) {

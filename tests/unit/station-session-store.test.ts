@@ -102,6 +102,20 @@ describe('station session store', () => {
     expect(store.feedback?.code).toBe('NO_STATION');
   });
 
+  it('waits for the station list when the first scan comes before it has arrived', async () => {
+    const store = useStationSessionStore();
+    vi.mocked(stationsApi.listLoaded).mockResolvedValue({ items: [], now: NOW });
+    let arrive: (list: Station[]) => void = () => undefined;
+    vi.mocked(stationsApi.listStations).mockReturnValueOnce(new Promise((resolve) => { arrive = resolve; }));
+    const listing = store.refreshStations();
+    const scanning = store.scan('ST-MAG-1'); // a fast scanner, right after the page opened
+    arrive([magStation, capStation]);
+    await listing;
+    await scanning;
+    expect(store.station?.code).toBe('ST-MAG-1');
+    expect(store.feedback?.code).not.toBe('NO_STATION');
+  });
+
   it('takes the station from its scanned code and remembers it on this device', async () => {
     const store = await sessionAtMagnetStation();
     expect(store.station?.code).toBe('ST-MAG-1');
