@@ -18,6 +18,16 @@ export const useAlertsStore = defineStore('alerts', () => {
 
   let pageInFlight: { key: string; promise: Promise<void>; controller: AbortController } | null = null;
   let countInFlight: Promise<number> | null = null;
+  /**
+   * Alerts changed here (acknowledged, resolved), with a tick of when: a page that was asked for
+   * before the change and arrives after it must not show the old state again.
+   */
+  let tick = 0;
+  const changedHere = new Map<string, { alert: Alert; tick: number }>();
+  const newestOf = (a: Alert, askedAt: number): Alert => {
+    const mine = changedHere.get(a.id);
+    return mine && mine.tick > askedAt ? mine.alert : a;
+  };
 
   /** Loads one page of alerts; the same query in flight is shared, a different one cancels it. */
   function loadPage(query: alertsApi.AlertQuery): Promise<void> {
@@ -25,10 +35,11 @@ export const useAlertsStore = defineStore('alerts', () => {
     if (pageInFlight?.key === key) return pageInFlight.promise;
     pageInFlight?.controller.abort();
     const controller = new AbortController();
+    const askedAt = ++tick;
     const promise = alertsApi
       .listAlerts(query, controller.signal)
       .then((result) => {
-        page.value = { items: result.items, total: result.total, key };
+        page.value = { items: result.items.map((a) => newestOf(a, askedAt)), total: result.total, key };
       })
       .finally(() => {
         if (pageInFlight?.promise === promise) pageInFlight = null;
@@ -59,6 +70,7 @@ export const useAlertsStore = defineStore('alerts', () => {
   }
 
   function putAlert(alert: Alert): Alert {
+    changedHere.set(alert.id, { alert, tick: ++tick });
     if (page.value) page.value = { ...page.value, items: page.value.items.map((a) => (a.id === alert.id ? alert : a)) };
     return alert;
   }

@@ -122,6 +122,24 @@ describe('alerts store: acknowledge, resolve and the watch', () => {
     expect(store.page?.items.map((i) => i.state)).toEqual(['acknowledged', 'resolved']);
   });
 
+  it('does not let a page asked for before an acknowledgement bring the old state back', async () => {
+    const a = alert();
+    const store = useAlertsStore();
+    let arrive: (v: { items: Alert[]; total: number }) => void = () => undefined;
+    vi.mocked(alertsApi.listAlerts).mockReturnValueOnce(new Promise((resolve) => { arrive = resolve; }));
+    const loading = store.loadPage({ limit: 25, offset: 0 });
+    vi.mocked(alertsApi.acknowledgeAlert).mockResolvedValueOnce({ ...a, state: 'acknowledged', acknowledgedAt: T, acknowledgedBy: 'u' });
+    await store.acknowledge(a.id);
+    arrive({ items: [a], total: 1 }); // read by the server before the acknowledgement
+    await loading;
+    expect(store.page?.items.map((i) => i.state)).toEqual(['acknowledged']);
+
+    // A page asked for after the change shows what the server says now (here: resolved by someone else).
+    vi.mocked(alertsApi.listAlerts).mockResolvedValueOnce({ items: [{ ...a, state: 'resolved' }], total: 1 });
+    await store.loadPage({ limit: 25, offset: 0, state: 'resolved' });
+    expect(store.page?.items.map((i) => i.state)).toEqual(['resolved']);
+  });
+
   it('leaves the page as it was when the server refuses', async () => {
     const a = alert();
     vi.mocked(alertsApi.listAlerts).mockResolvedValueOnce({ items: [a], total: 1 });
