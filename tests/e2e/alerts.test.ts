@@ -79,13 +79,14 @@ describe('alerts page', () => {
     await page.goBack();
     await page.locator('[data-test="alerts-page"]').waitFor();
     await filterKind(null);
+    // Wait until the unfiltered list is shown (more than the quarantine advice alone).
+    await expect.poll(async () => (await cards().count()) > (await cards('quarantine_advised').count())).toBe(true);
     await shot('alerts-quality');
 
     // Acknowledge an open alert: it stays live, now acknowledged.
-    const open = cards().filter({ has: page.locator('[data-test="alert-acknowledge"]') }).first();
-    const ackId = await open.getAttribute('data-alert-id');
-    await open.locator('[data-test="alert-acknowledge"]').click();
+    const ackId = await cards().filter({ has: page.locator('[data-test="alert-acknowledge"]') }).first().getAttribute('data-alert-id');
     const acknowledged = page.locator(`[data-alert-id="${ackId}"]`);
+    await acknowledged.locator('[data-test="alert-acknowledge"]').click();
     await expect.poll(() => acknowledged.getAttribute('data-state')).toBe('acknowledged');
     expect(await acknowledged.locator('[data-test="alert-state"]').innerText()).toContain('Acknowledged');
 
