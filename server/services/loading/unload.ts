@@ -4,7 +4,7 @@ import { containers, mixes, stationLoads } from '../../db/schema';
 import { AppError } from '../../errors';
 import type { Actor } from '../auth/actor';
 import { requireRole } from '../auth/actor';
-import { recordAudit } from '../audit';
+import { auditUnloads } from './unload-audit';
 import { findStation } from '../stations';
 import type { UnloadInput, UnloadResult } from '../../../shared/schemas/station-loads';
 import { scannedContainerCode } from './context';
@@ -32,16 +32,7 @@ export async function unloadAtStation(actor: Actor, stationId: string, input: Un
       const field = input.loadId ? 'loadId' : input.containerCode ? 'containerCode' : 'mixCode';
       throw new AppError('NOT_FOUND', `Nothing like that is loaded at station ${station.code}.`, 404, [{ field, message: 'is not loaded here' }]);
     }
-    for (const r of rows) {
-      await recordAudit(tx, {
-        actorId: actor.id,
-        action: 'station.unload',
-        entityType: 'station_load',
-        entityId: r.id,
-        before: { unloadedAt: null },
-        after: { unloadedAt: now.toISOString() },
-      });
-    }
+    await auditUnloads(tx, actor.id, rows);
     return { unloaded: rows.map((r) => r.id) };
   });
 }

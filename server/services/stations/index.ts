@@ -5,6 +5,7 @@ import { conflict, notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
 import { requireRole } from '../auth/actor';
 import { recordAudit } from '../audit';
+import { auditUnloads } from '../loading/unload-audit';
 import type { Station, StationInput, StationListQuery, StationPatch } from '../../../shared/schemas/stations';
 
 type StationRow = typeof stations.$inferSelect;
@@ -96,15 +97,5 @@ async function unloadEverything(tx: DbOrTx, actor: Actor, stationId: string): Pr
     .set({ unloadedAt: new Date() })
     .where(and(eq(stationLoads.stationId, stationId), isNull(stationLoads.unloadedAt)))
     .returning();
-  for (const r of rows) {
-    await recordAudit(tx, {
-      actorId: actor.id,
-      action: 'station.unload',
-      entityType: 'station_load',
-      entityId: r.id,
-      before: { unloadedAt: null },
-      after: { unloadedAt: r.unloadedAt?.toISOString() },
-      reason: 'station retired',
-    });
-  }
+  await auditUnloads(tx, actor.id, rows, 'station retired');
 }
