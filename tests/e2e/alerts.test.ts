@@ -1,31 +1,15 @@
-import { afterAll, afterEach, beforeEach, describe, expect, inject, it } from 'vitest';
+import { describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { blockExternalRequests, closeBrowser, newPage, signInAs } from '../helpers/browser';
+import { freshPagePerTest, keepScreenshot, signInAs } from '../helpers/browser';
 
 const baseUrl = inject('baseUrl');
-const shots = process.env.TACKLOG_E2E_SCREENSHOTS; // a folder to keep screenshots in, when set
 
 let page: Page;
-let external: string[];
-
-beforeEach(async () => {
-  page = await newPage(baseUrl);
-  external = await blockExternalRequests(page);
+freshPagePerTest(baseUrl, (p) => {
+  page = p;
 });
 
-afterEach(async () => {
-  // Fonts, icons and scripts are all served by Tacklog itself.
-  expect(external).toEqual([]);
-  await page.context().close();
-});
-
-afterAll(async () => {
-  await closeBrowser();
-});
-
-async function shot(name: string) {
-  if (shots) await page.screenshot({ path: `${shots}/${name}.png`, fullPage: true });
-}
+const shot = (name: string) => keepScreenshot(page, name);
 
 const signIn = (email: string) => signInAs(page, email);
 

@@ -1,9 +1,9 @@
-import { afterAll, afterEach, beforeEach, describe, expect, inject, it } from 'vitest';
+import { describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import type { Role } from '../../shared/constants';
 import { NAV_ITEMS } from '../../src/navigation';
 import { ROLE_LABELS } from '../../src/roles';
-import { blockExternalRequests, closeBrowser, newPage } from '../helpers/browser';
+import { freshPagePerTest } from '../helpers/browser';
 
 const baseUrl = inject('baseUrl');
 const password = process.env.TACKLOG_DEMO_PASSWORD || 'tacklog-demo';
@@ -17,21 +17,8 @@ const ACCOUNTS: { email: string; role: Role }[] = [
 ];
 
 let page: Page;
-let external: string[];
-
-beforeEach(async () => {
-  page = await newPage(baseUrl);
-  external = await blockExternalRequests(page);
-});
-
-afterEach(async () => {
-  // Fonts, icons and scripts are bundled: nothing may have left 127.0.0.1.
-  expect(external).toEqual([]);
-  await page.context().close();
-});
-
-afterAll(async () => {
-  await closeBrowser();
+freshPagePerTest(baseUrl, (p) => {
+  page = p;
 });
 
 async function signIn(email: string, secret: string) {

@@ -1,4 +1,5 @@
 import { chromium, type Browser, type Page } from 'playwright-core';
+import { afterAll, afterEach, beforeEach, expect } from 'vitest';
 
 /** Debian's chromium; browser tests never download a browser. */
 export const CHROMIUM_PATH = '/usr/bin/chromium';
@@ -85,4 +86,32 @@ export async function signInAs(page: Page, email: string, password: string = DEM
   await page.locator('[data-test="signin-password"]').fill(password);
   await page.locator('[data-test="signin-submit"]').click();
   await page.locator('[data-test="home-page"]').waitFor();
+}
+
+/**
+ * A fresh page for every test of the file, with outside requests blocked and the check after
+ * each test that none was made; the browser closes after the file. `use` receives each page.
+ */
+export function freshPagePerTest(baseUrl: string, use: (page: Page) => void): void {
+  let page: Page;
+  let external: string[];
+  beforeEach(async () => {
+    page = await newPage(baseUrl);
+    external = await blockExternalRequests(page);
+    use(page);
+  });
+  afterEach(async () => {
+    // Fonts, icons, scripts and label previews are all served by Tacklog itself.
+    expect(external).toEqual([]);
+    await page.context().close();
+  });
+  afterAll(async () => {
+    await closeBrowser();
+  });
+}
+
+/** Keeps a full-page screenshot when TACKLOG_E2E_SCREENSHOTS names a folder. */
+export async function keepScreenshot(page: Page, name: string): Promise<void> {
+  const folder = process.env.TACKLOG_E2E_SCREENSHOTS;
+  if (folder) await page.screenshot({ path: `${folder}/${name}.png`, fullPage: true });
 }
