@@ -1,6 +1,7 @@
 import type { Request, Response, NextFunction, RequestHandler } from 'express';
 import type { z } from 'zod';
 import type { Role } from '../shared/constants';
+import { type Action, can, isAction } from '../shared/permissions';
 import type { Actor } from './services/auth/actor';
 import { hasRole } from './services/auth/actor';
 import { AppError, forbidden, notSignedIn } from './errors';
@@ -8,9 +9,10 @@ import { zodIssues } from './middleware/errors';
 
 /**
  * Who may call an endpoint. Every endpoint must say it (deny by default):
- * 'public' (anyone), 'signed-in' (any role), or the list of roles allowed.
+ * 'public' (anyone), 'signed-in' (any role), or an action of the permission map
+ * (`shared/permissions.ts`). A list of roles is the older form, being replaced by actions.
  */
-export type Access = 'public' | 'signed-in' | readonly Role[];
+export type Access = 'public' | 'signed-in' | Action | readonly Role[];
 
 export interface EndpointContext<B, Q, P> {
   actor: Actor;
@@ -49,6 +51,10 @@ export function checkAccess(access: Access, actor: Actor | undefined): void {
   if (access === 'public') return;
   if (!actor) throw notSignedIn();
   if (access === 'signed-in') return;
+  if (typeof access === 'string') {
+    if (!isAction(access) || !can(actor.roles, access)) throw forbidden();
+    return;
+  }
   if (!hasRole(actor, ...access)) throw forbidden(`This needs one of the roles: ${access.join(', ')}.`);
 }
 

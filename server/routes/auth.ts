@@ -5,6 +5,7 @@ import { endpoint } from '../http';
 import { login } from '../services/auth';
 import { SESSION_COOKIE } from '../services/auth/tokens';
 import { config } from '../config';
+import { permissionsFor } from '../../shared/permissions';
 
 export const authRouter = Router();
 
@@ -44,5 +45,5 @@ authRouter.post(
 
 authRouter.get(
   '/me',
-  endpoint({ access: 'signed-in' }, ({ actor }) => ({ user: actor })),
+  endpoint({ access: 'signed-in' }, ({ actor }) => ({ user: { ...actor, permissions: permissionsFor(actor.roles) } })),
 );

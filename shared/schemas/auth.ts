@@ -21,4 +21,6 @@ export type User = z.infer<typeof userSchema>;
 export const loginResultSchema = z.object({ token: z.string(), user: userSchema });
 export type LoginResult = z.infer<typeof loginResultSchema>;
 
-export const meResultSchema = z.object({ user: userSchema });
+/** The signed-in user with the actions the permission map allows them (`shared/permissions.ts`). */
+export const meUserSchema = userSchema.extend({ permissions: z.array(z.string()) });
+export const meResultSchema = z.object({ user: meUserSchema });

@@ -1,4 +1,5 @@
 import type { Role } from '../../../shared/constants';
+import { can, type Action } from '../../../shared/permissions';
 import { forbidden } from '../../errors';
 
 /** The signed-in person a request acts for. */
@@ -18,4 +19,9 @@ export function requireRole(actor: Actor, ...roles: Role[]): void {
   if (!hasRole(actor, ...roles)) {
     throw forbidden(`This needs one of the roles: ${roles.join(', ')}.`);
   }
+}
+
+/** First line of every service operation that needs a permission from the one map. */
+export function requirePermission(actor: Actor, action: Action): void {
+  if (!can(actor.roles, action)) throw forbidden();
 }
