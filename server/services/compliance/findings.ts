@@ -6,7 +6,8 @@
 import { and, eq, gt, gte, inArray, isNull, lte, notInArray, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { DbOrTx } from '../../db/client';
-import { containers, lots, materials, mixes, stationLoads, stations, stepRuns, buildBatches, recipeSteps, settings } from '../../db/schema';
+import { containers, lots, materials, mixes, stationLoads, stations, stepRuns, buildBatches, recipeSteps } from '../../db/schema';
+import { readSetting } from '../settings';
 import type { AlertSeverity, Role } from '../../../shared/constants';
 import { lotStats } from '../trace/lot-stats';
 import { containerExpiryOf, PLANT_ZONE } from '../lots/present';
@@ -27,10 +28,6 @@ function when(d: Date, zone = PLANT_ZONE): string {
   return DateTime.fromJSDate(d).setZone(zone).toFormat('yyyy-MM-dd HH:mm');
 }
 
-async function setting<T>(tx: DbOrTx, key: string, fallback: T): Promise<T> {
-  const [row] = await tx.select({ value: settings.value }).from(settings).where(eq(settings.key, key));
-  return (row?.value as T | undefined) ?? fallback;
-}
 
 /** A mix past its pot life while still loaded at a station. */
 export async function potLifeExceeded(tx: DbOrTx, now: Date): Promise<Finding[]> {
@@ -47,9 +44,10 @@ export async function potLifeExceeded(tx: DbOrTx, now: Date): Promise<Finding[]>
   }));
 }
 
-/** Steps started before the previous step's cure was complete (with or without a deviation), last 30 days. */
+/** Steps started before the previous step's cure was complete (with or without a deviation), within the look-back setting. */
 export async function shortCures(tx: DbOrTx, now: Date): Promise<Finding[]> {
-  const since = new Date(now.getTime() - 30 * 86_400_000);
+  const lookbackDays = await readSetting('shortCureLookbackDays', tx);
+  const since = new Date(now.getTime() - lookbackDays * 86_400_000);
   const rows = await tx
     .select({ id: stepRuns.id, batch: buildBatches.code, step: recipeSteps.name, startedAt: stepRuns.startedAt, deviationId: stepRuns.deviationId })
     .from(stepRuns)
@@ -93,7 +91,7 @@ export async function expiredInStock(tx: DbOrTx, now: Date): Promise<Finding[]> 
 
 /** Lots with stock whose lot-level expiry falls within the warning window. */
 export async function expiringSoon(tx: DbOrTx, now: Date): Promise<Finding[]> {
-  const days = await setting<number>(tx, 'expiringSoonDays', 14);
+  const days = await readSetting('expiringSoonDays', tx);
   const horizon = new Date(now.getTime() + days * 86_400_000);
   const expiry = lotExpirySql(PLANT_ZONE);
   const rows = await tx
@@ -123,8 +121,8 @@ export async function expiringSoon(tx: DbOrTx, now: Date): Promise<Finding[]> {
  * upper limit), and lots whose certificate of analysis has expired.
  */
 export async function quarantineAdvised(tx: DbOrTx, now: Date): Promise<Finding[]> {
-  // The same statistics as GET /api/lots/stats, over the lots received in the last year.
-  const stats = await lotStats({ days: 365, flaggedOnly: true });
+  // The same statistics as GET /api/lots/stats, over the lots received in the statistics window.
+  const stats = await lotStats({ days: await readSetting('lotStatsWindowDays', tx), flaggedOnly: true });
   const out = new Map<string, Finding>();
   for (const f of stats.items) {
     if (!f.flagged || (f.status !== 'released' && f.status !== 'on_hold')) continue;

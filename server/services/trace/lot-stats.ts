@@ -1,10 +1,8 @@
-import { eq, sql } from 'drizzle-orm';
+import { sql } from 'drizzle-orm';
 import { db } from '../../db/client';
-import { settings } from '../../db/schema';
+import { readSetting } from '../settings';
 import { flagLots } from '../../../shared/stats';
 import type { LotStat, LotStats, LotStatsQuery } from '../../../shared/schemas/trace';
-
-const Q = 0.05;
 
 interface Row {
   lot_id: string; supplier_lot: string; status: LotStat['status']; received_at: Date;
@@ -19,8 +17,8 @@ interface Row {
  * Counted per batch first, so each driver is read once per batch, not once per lot.
  */
 export async function lotStats(query: LotStatsQuery): Promise<LotStats> {
-  const [setting] = await db.select({ value: settings.value }).from(settings).where(eq(settings.key, 'baselineFailureRate'));
-  const baseline = typeof setting?.value === 'number' ? setting.value : 0.01;
+  const baseline = await readSetting('baselineFailureRate');
+  const fdr = await readSetting('falseDiscoveryRate');
   const res = await db.execute(sql`
     WITH l AS (
       SELECT l.id, l.supplier_lot, l.status, l.received_at, m.id AS material_id, m.code AS material_code, m.name AS material_name
@@ -56,7 +54,7 @@ export async function lotStats(query: LotStatsQuery): Promise<LotStats> {
     LEFT JOIN batch_outcomes bo ON bo.batch_id = lb.batch_id
     GROUP BY l.id, l.supplier_lot, l.status, l.received_at, l.material_id, l.material_code, l.material_name`);
   const rows = res.rows as unknown as Row[];
-  const flagged = flagLots(rows.map((r) => ({ ...r, inspected: r.tested, defectives: r.failures })), baseline, Q);
+  const flagged = flagLots(rows.map((r) => ({ ...r, inspected: r.tested, defectives: r.failures })), baseline, fdr);
   const items: LotStat[] = flagged
     .map((r) => ({
       lotId: r.lot_id, supplierLot: r.supplier_lot, status: r.status, receivedAt: new Date(r.received_at).toISOString(),
@@ -67,5 +65,5 @@ export async function lotStats(query: LotStatsQuery): Promise<LotStats> {
     }))
     .filter((r) => !query.flaggedOnly || r.flagged)
     .sort((a, b) => Number(b.flagged) - Number(a.flagged) || a.pValue - b.pValue || a.supplierLot.localeCompare(b.supplierLot));
-  return { baseline, q: Q, days: query.days, items };
+  return { baseline, q: fdr, days: query.days, items };
 }

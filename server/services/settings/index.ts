@@ -1,0 +1,29 @@
+import { eq } from 'drizzle-orm';
+import { db, type DbOrTx } from '../../db/client';
+import { settings } from '../../db/schema';
+
+/**
+ * The plant's named settings and their defaults. A row in the `settings` table with the same
+ * key overrides the default; no rule in the services writes a bare number for these.
+ */
+export const SETTING_DEFAULTS = {
+  /** The compliance watch reports steps started short of cure within this many days. */
+  shortCureLookbackDays: 30,
+  /** A lot whose expiry falls within this many days raises "expiring soon". */
+  expiringSoonDays: 14,
+  /** Lot failure statistics cover lots received within this many days. */
+  lotStatsWindowDays: 365,
+  /** False discovery rate for the Benjamini–Hochberg correction over lots. */
+  falseDiscoveryRate: 0.05,
+  /** Plant failure rate at final test used as the baseline when none is recorded (about 1 in 100: common practice). */
+  baselineFailureRate: 0.01,
+} as const;
+
+export type SettingKey = keyof typeof SETTING_DEFAULTS;
+
+/** A setting's value: the stored one when it is a number, else the default. */
+export async function readSetting(key: SettingKey, tx: DbOrTx = db): Promise<number> {
+  const [row] = await tx.select({ value: settings.value }).from(settings).where(eq(settings.key, key));
+  const value = row?.value;
+  return typeof value === 'number' && Number.isFinite(value) ? value : SETTING_DEFAULTS[key];
+}
