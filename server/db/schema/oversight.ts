@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { bigserial, index, integer, jsonb, pgTable, primaryKey, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
+import { bigint, bigserial, index, integer, jsonb, pgTable, primaryKey, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
 import { alertSeverityEnum, alertStateEnum, emailStatusEnum, roleEnum } from './enums';
 import { users } from './users';
 
@@ -64,7 +64,12 @@ export const idempotencyKeys = pgTable(
   (t) => [primaryKey({ columns: [t.actorId, t.key] }), index('idempotency_keys_created_idx').on(t.createdAt)],
 );
 
-/** Append-only audit trail (a trigger refuses UPDATE and DELETE). */
+/**
+ * Append-only audit trail (a trigger refuses UPDATE and DELETE), chained for tamper evidence:
+ * at commit each row gets the next `chainSeq`, the previous row's hash and its own hash
+ * (SHA-256 over the row's canonical text and the previous hash), under one lock so the chain
+ * is linear. See drizzle/*_audit_chain.sql and server/services/audit-chain.
+ */
 export const auditLog = pgTable(
   'audit_log',
   {
@@ -77,8 +82,16 @@ export const auditLog = pgTable(
     before: jsonb('before'),
     after: jsonb('after'),
     reason: text('reason'),
+    chainSeq: bigint('chain_seq', { mode: 'number' }),
+    prevHash: text('prev_hash'),
+    hash: text('hash'),
   },
-  (t) => [index('audit_log_entity_idx').on(t.entityType, t.entityId, t.at), index('audit_log_at_idx').on(t.at)],
+  (t) => [
+    index('audit_log_entity_idx').on(t.entityType, t.entityId, t.at),
+    index('audit_log_at_idx').on(t.at),
+    uniqueIndex('audit_log_chain_seq_key').on(t.chainSeq),
+    index('audit_log_actor_idx').on(t.actorId, t.at),
+  ],
 );
 
 /** Plant-wide settings (notification recipients, baseline failure rate, …). */

@@ -8,6 +8,7 @@ import { DateTime } from 'luxon';
 import type { DbOrTx } from '../../db/client';
 import { containers, lots, materials, mixes, stationLoads, stations, stepRuns, buildBatches, recipeSteps } from '../../db/schema';
 import { readSetting } from '../settings';
+import { auditChainBroken } from './audit-check';
 import type { AlertSeverity, Role } from '../../../shared/constants';
 import { lotStats } from '../trace/lot-stats';
 import { containerExpiryOf, PLANT_ZONE } from '../lots/present';
@@ -17,7 +18,7 @@ import { causeWords } from '../loading/usability';
 export interface Finding {
   kind: string;
   severity: AlertSeverity;
-  subjectType: 'mix' | 'step_run' | 'container' | 'lot' | 'material';
+  subjectType: 'mix' | 'step_run' | 'container' | 'lot' | 'material' | 'audit_entry';
   subjectId: string;
   message: string;
   audience: Role[];
@@ -171,5 +172,7 @@ export async function belowReorderPoint(tx: DbOrTx): Promise<Finding[]> {
   }));
 }
 
-export const ALL_CHECKS = [potLifeExceeded, shortCures, expiredInStock, expiringSoon, quarantineAdvised, (tx: DbOrTx) => belowReorderPoint(tx)];
+export const ALL_CHECKS = [
+  potLifeExceeded, shortCures, expiredInStock, expiringSoon, quarantineAdvised, (tx: DbOrTx) => belowReorderPoint(tx), auditChainBroken,
+];
 

@@ -33,6 +33,7 @@ export const KIND_WORDS: Record<AlertKind, string> = {
   expiring_soon: 'Lot expiring soon',
   quarantine_advised: 'Quarantine advised',
   below_reorder_point: 'Below reorder point',
+  audit_chain_broken: 'Audit trail does not verify',
 };
 
 export function severityLook(severity: string): AlertLook {
