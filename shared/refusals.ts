@@ -33,6 +33,8 @@ export const REFUSALS = {
   MODEL_RETIRED: { status: 409, title: 'Driver model retired' },
   MODEL_IN_USE: { status: 409, title: 'Recipe in use' },
   MODEL_HAS_NO_STEPS: { status: 409, title: 'Recipe has no steps' },
+  MODEL_NOT_CURRENT: { status: 409, title: 'Not the current recipe revision' },
+  REVISION_DRAFT_EXISTS: { status: 409, title: 'A draft revision already exists' },
 
   // Lots and containers
   LOT_ON_HOLD: { status: 409, title: 'Lot on hold' },

@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { endpoint } from '../http';
 import { driverModelInputSchema, driverModelPatchSchema, modelListQuerySchema } from '../../shared/schemas/models';
 import { idParamsSchema } from '../../shared/schemas/stations';
-import { createModel, getModel, listModels, updateModel } from '../services/models';
+import { createModel, createRevision, getModel, listModels, makeRevisionCurrent, updateModel } from '../services/models';
 
 export const modelsRouter = Router();
 
@@ -20,4 +20,14 @@ modelsRouter.patch(
   endpoint({ access: ['admin'], params: idParamsSchema, body: driverModelPatchSchema }, ({ actor, params, body }) =>
     updateModel(actor, params.id, body),
   ),
+);
+
+modelsRouter.post(
+  '/:id/revisions',
+  endpoint({ access: 'recipes.edit', params: idParamsSchema, status: 201 }, ({ actor, params }) => createRevision(actor, params.id)),
+);
+
+modelsRouter.post(
+  '/:id/make-current',
+  endpoint({ access: 'recipes.edit', params: idParamsSchema }, ({ actor, params }) => makeRevisionCurrent(actor, params.id)),
 );

@@ -20,6 +20,8 @@ export const batchSchema = z.object({
   modelId: idSchema,
   modelCode: z.string(),
   modelName: z.string(),
+  /** The recipe revision the batch is built with (kept when a newer revision becomes current). */
+  modelRevision: z.number().int().positive(),
   quantity: z.number().int(),
   status: batchStatusSchema,
   createdBy: idSchema.nullable(),

@@ -39,6 +39,10 @@ export const driverModelSchema = z.object({
   /** True once a build batch has used the model (its steps can no longer be replaced). */
   inUse: z.boolean(),
   createdAt: instantSchema,
+  /** Recipe revision (1, 2, …): a revision used by a batch is frozen; a copy becomes the next one. */
+  revision: z.number().int().positive(),
+  /** The revision new batches are built with. */
+  current: z.boolean(),
 });
 export type DriverModel = z.infer<typeof driverModelSchema>;
 
@@ -102,6 +106,16 @@ export const modelListQuerySchema = z.object({
     .enum(['true', 'false'])
     .optional()
     .transform((v) => v === 'true'),
+  /** Every revision, not only the current ones (the recipes page). */
+  includeRevisions: z
+    .enum(['true', 'false'])
+    .optional()
+    .transform((v) => v === 'true'),
 });
+
+/** How people name a revision: "HB12W rev 2". */
+export function revisionLabel(model: { code: string; revision: number }): string {
+  return `${model.code} rev ${model.revision}`;
+}
 
 export const driverModelListSchema = z.object({ items: z.array(driverModelSchema) });

@@ -36,7 +36,7 @@ function step(n: number, name: string, kind: string, state: TravelerStep['state'
 function traveler(steps: TravelerStep[]): BatchDetail {
   return {
     batch: {
-      id: id(50), code: 'HB12W-260304-01', modelId: id(60), modelCode: 'HB12W', modelName: '12 in woofer', quantity: 4,
+      id: id(50), code: 'HB12W-260304-01', modelId: id(60), modelCode: 'HB12W', modelName: '12 in woofer', modelRevision: 1, quantity: 4,
       status: 'open', createdBy: null, createdAt: NOW, completedAt: null,
     },
     steps, currentStepId: steps[0].id, drivers: [], reworkRuns: [],

@@ -109,8 +109,16 @@ export const driverModels = pgTable(
     description: text('description'),
     active: boolean('active').notNull().default(true),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    /** Recipe revision of this model code: 1, 2, … Each revision has its own steps; batches keep theirs. */
+    revision: integer('revision').notNull().default(1),
+    /** The revision new batches are built with; exactly one per code. */
+    current: boolean('current').notNull().default(true),
   },
-  (t) => [uniqueIndex('driver_models_code_uq').on(t.code)],
+  (t) => [
+    uniqueIndex('driver_models_code_revision_uq').on(t.code, t.revision),
+    uniqueIndex('driver_models_current_uq').on(t.code).where(sql`${t.current}`),
+    check('driver_models_revision_ck', sql`${t.revision} >= 1`),
+  ],
 );
 
 export const recipeSteps = pgTable(

@@ -1,13 +1,14 @@
 import { and, count, eq, like, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import { db } from '../../db/client';
-import { buildBatches, drivers, recipeSteps } from '../../db/schema';
+import { buildBatches, driverModels, drivers, recipeSteps } from '../../db/schema';
 import { conflict } from '../../errors';
 import type { Actor } from '../auth/actor';
 import { requireRole } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { findModelRow } from '../models';
 import type { BatchCreated, BatchInput } from '../../../shared/schemas/batches';
+import { revisionLabel } from '../../../shared/schemas/models';
 import { toBatch } from './read';
 
 /** <batch code>-<unit, 4 digits>: readable on a label and unique because the batch code is. */
@@ -23,6 +24,14 @@ export async function createBatch(actor: Actor, input: BatchInput, now: Date = n
     if (!model.active) {
       throw conflict('MODEL_RETIRED', `The model ${model.code} is retired; ask an administrator to reactivate it or pick another model.`);
     }
+    if (!model.current) {
+      const [current] = await tx.select().from(driverModels).where(and(eq(driverModels.code, model.code), eq(driverModels.current, true)));
+      throw conflict(
+        'MODEL_NOT_CURRENT',
+        `${revisionLabel(model)} is not the current recipe of ${model.code}${current ? `; build with ${revisionLabel(current)}` : ''}.`,
+        current ? { currentModelId: current.id, currentRevision: current.revision } : undefined,
+      );
+    }
     const [{ n: steps }] = await tx.select({ n: count() }).from(recipeSteps).where(eq(recipeSteps.modelId, model.id));
     if (steps === 0) throw conflict('MODEL_HAS_NO_STEPS', `The model ${model.code} has no recipe steps yet; an administrator must add them first.`);
 
@@ -32,7 +41,7 @@ export async function createBatch(actor: Actor, input: BatchInput, now: Date = n
     const [{ n: today }] = await tx
       .select({ n: count() })
       .from(buildBatches)
-      .where(and(eq(buildBatches.modelId, model.id), like(buildBatches.code, `${prefix}%`)));
+      .where(like(buildBatches.code, `${prefix}%`)); // across every revision of the code
     const code = `${prefix}${String(today + 1).padStart(2, '0')}`;
 
     const [row] = await tx

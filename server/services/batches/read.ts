@@ -5,7 +5,7 @@ import { notFound } from '../../errors';
 import type { Batch, BatchListQuery, BatchPage } from '../../../shared/schemas/batches';
 
 type BatchRow = typeof buildBatches.$inferSelect;
-type ModelRow = { code: string; name: string };
+type ModelRow = { code: string; name: string; revision: number };
 
 export function toBatch(row: BatchRow, model: ModelRow): Batch {
   return {
@@ -14,6 +14,7 @@ export function toBatch(row: BatchRow, model: ModelRow): Batch {
     modelId: row.modelId,
     modelCode: model.code,
     modelName: model.name,
+    modelRevision: model.revision,
     quantity: row.quantity,
     status: row.status,
     createdBy: row.createdBy,
@@ -24,7 +25,7 @@ export function toBatch(row: BatchRow, model: ModelRow): Batch {
 
 export async function findBatch(tx: DbOrTx, id: string, lock = false): Promise<{ row: BatchRow; batch: Batch }> {
   const q = tx
-    .select({ b: buildBatches, m: { code: driverModels.code, name: driverModels.name } })
+    .select({ b: buildBatches, m: { code: driverModels.code, name: driverModels.name, revision: driverModels.revision } })
     .from(buildBatches)
     .innerJoin(driverModels, eq(driverModels.id, buildBatches.modelId))
     .where(eq(buildBatches.id, id));
@@ -43,7 +44,7 @@ export async function listBatches(query: BatchListQuery): Promise<BatchPage> {
   );
   const [rows, [{ n }]] = await Promise.all([
     db
-      .select({ b: buildBatches, m: { code: driverModels.code, name: driverModels.name } })
+      .select({ b: buildBatches, m: { code: driverModels.code, name: driverModels.name, revision: driverModels.revision } })
       .from(buildBatches)
       .innerJoin(driverModels, eq(driverModels.id, buildBatches.modelId))
       .where(where)

@@ -1,2 +1,2 @@
 export { getModel, listModels, loadSteps, findModelRow } from './read';
-export { createModel, updateModel } from './write';
+export { createModel, createRevision, makeRevisionCurrent, updateModel } from './write';

@@ -1,4 +1,4 @@
-import { asc, eq, inArray, sql } from 'drizzle-orm';
+import { and, asc, eq, inArray } from 'drizzle-orm';
 import { db, type DbOrTx } from '../../db/client';
 import { buildBatches, driverModels, recipeStepMaterials, recipeSteps } from '../../db/schema';
 import { notFound } from '../../errors';
@@ -48,6 +48,8 @@ export async function toModels(tx: DbOrTx, rows: ModelRow[]): Promise<DriverMode
     steps: steps.get(r.id) ?? [],
     inUse: used.has(r.id),
     createdAt: r.createdAt.toISOString(),
+    revision: r.revision,
+    current: r.current,
   }));
 }
 
@@ -63,11 +65,16 @@ export async function getModel(id: string, tx: DbOrTx = db): Promise<DriverModel
   return model;
 }
 
-export async function listModels(query: { includeRetired: boolean }): Promise<{ items: DriverModel[] }> {
+export async function listModels(query: { includeRetired: boolean; includeRevisions?: boolean }): Promise<{ items: DriverModel[] }> {
   const rows = await db
     .select()
     .from(driverModels)
-    .where(query.includeRetired ? sql`true` : eq(driverModels.active, true))
-    .orderBy(asc(driverModels.code));
+    .where(
+      and(
+        query.includeRetired ? undefined : eq(driverModels.active, true),
+        query.includeRevisions ? undefined : eq(driverModels.current, true),
+      ),
+    )
+    .orderBy(asc(driverModels.code), asc(driverModels.revision));
   return { items: await toModels(db, rows) };
 }

@@ -1,12 +1,12 @@
-import { and, eq, inArray } from 'drizzle-orm';
+import { and, count, desc, eq, inArray, sql } from 'drizzle-orm';
 import { db, type Tx } from '../../db/client';
 import { buildBatches, driverModels, materials, recipeStepMaterials, recipeSteps, stations } from '../../db/schema';
 import { conflict, fieldError } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission, requireRole } from '../auth/actor';
 import { recordAudit } from '../audit';
-import type { DriverModel, DriverModelInput, DriverModelPatch, RecipeStepInput } from '../../../shared/schemas/models';
-import { findModelRow, getModel } from './read';
+import { revisionLabel, type DriverModel, type DriverModelInput, type DriverModelPatch, type RecipeStepInput } from '../../../shared/schemas/models';
+import { findModelRow, getModel, loadSteps } from './read';
 
 /**
  * Checks a recipe against the plant: every step's station kind is run by some active station,
@@ -50,10 +50,14 @@ export async function createModel(actor: Actor, input: DriverModelInput): Promis
   requireRole(actor, 'admin');
   return db.transaction(async (tx) => {
     await checkRecipe(tx, input.steps);
-    const [row] = await tx
+    // A code names one model across its revisions: any revision of it makes the code taken.
+    const [taken] = await tx.select({ id: driverModels.id }).from(driverModels).where(eq(driverModels.code, input.code)).limit(1);
+    const [row] = taken
+      ? []
+      : await tx
       .insert(driverModels)
       .values({ code: input.code, name: input.name, description: input.description ?? null })
-      .onConflictDoNothing({ target: driverModels.code })
+      .onConflictDoNothing({ target: [driverModels.code, driverModels.revision] })
       .returning();
     if (!row) {
       throw conflict('DUPLICATE_CODE', `A driver model with the code "${input.code}" already exists; choose another code.`, [
@@ -77,7 +81,7 @@ export async function updateModel(actor: Actor, id: string, patch: DriverModelPa
       if (used) {
         throw conflict(
           'MODEL_IN_USE',
-          `Build batches already use ${before.code}, so its steps cannot be replaced (the travelers point at them). Create a new model for the changed recipe.`,
+          `Build batches already use ${revisionLabel(before)}, so its steps cannot be replaced (the travelers point at them). Copy it as a new revision and change that.`,
         );
       }
       await checkRecipe(tx, patch.steps);
@@ -92,6 +96,75 @@ export async function updateModel(actor: Actor, id: string, patch: DriverModelPa
     if (Object.keys(fields).length) await tx.update(driverModels).set(fields).where(and(eq(driverModels.id, id)));
     const after = await getModel(id, tx);
     await recordAudit(tx, { actorId: actor.id, action: 'model.update', entityType: 'driver_model', entityId: id, before, after });
+    return after;
+  });
+}
+
+/**
+ * POST /api/models/:id/revisions: copies a revision's recipe (name, description, steps and
+ * their materials) as the next revision of the same code. The copy is not current and no batch
+ * uses it, so its steps can be edited; PATCH it, then make it current. One draft at a time.
+ */
+export async function createRevision(actor: Actor, id: string): Promise<DriverModel> {
+  requirePermission(actor, 'recipes.edit');
+  return db.transaction(async (tx) => {
+    const source = await findModelRow(tx, id);
+    // One writer per model code at a time, so two copies cannot take the same number.
+    await tx.execute(sql`SELECT pg_advisory_xact_lock(hashtext(${`model-revision:${source.code}`}))`);
+    const revisions = await tx.select().from(driverModels).where(eq(driverModels.code, source.code)).orderBy(desc(driverModels.revision));
+    const current = revisions.find((r) => r.current);
+    const draft = revisions.find((r) => !r.current && current && r.revision > current.revision);
+    if (draft) {
+      throw conflict(
+        'REVISION_DRAFT_EXISTS',
+        `${revisionLabel(draft)} is already a draft of ${source.code}: change that one, or make it current first.`,
+        { modelId: draft.id, revision: draft.revision },
+      );
+    }
+    const next = (revisions[0]?.revision ?? source.revision) + 1;
+    const [row] = await tx
+      .insert(driverModels)
+      .values({ code: source.code, name: source.name, description: source.description, active: true, revision: next, current: false })
+      .returning();
+    const steps = (await loadSteps(tx, [source.id])).get(source.id) ?? [];
+    await insertSteps(
+      tx,
+      row.id,
+      steps.map((s) => ({ seq: s.seq, name: s.name, stationKind: s.stationKind, waitForCure: s.waitForCure, materials: s.materials })),
+    );
+    const model = await getModel(row.id, tx);
+    await recordAudit(tx, {
+      actorId: actor.id,
+      action: 'model.revise',
+      entityType: 'driver_model',
+      entityId: row.id,
+      after: { ...model, copiedFrom: { id: source.id, revision: source.revision } },
+    });
+    return model;
+  });
+}
+
+/** POST /api/models/:id/make-current: new batches of this code are built with this revision. */
+export async function makeRevisionCurrent(actor: Actor, id: string): Promise<DriverModel> {
+  requirePermission(actor, 'recipes.edit');
+  return db.transaction(async (tx) => {
+    const row = await findModelRow(tx, id);
+    await tx.execute(sql`SELECT pg_advisory_xact_lock(hashtext(${`model-revision:${row.code}`}))`);
+    const [before] = await tx.select().from(driverModels).where(and(eq(driverModels.code, row.code), eq(driverModels.current, true)));
+    if (before?.id === row.id) return getModel(id, tx);
+    const [{ n }] = await tx.select({ n: count() }).from(recipeSteps).where(eq(recipeSteps.modelId, id));
+    if (n === 0) throw conflict('MODEL_HAS_NO_STEPS', `${revisionLabel(row)} has no recipe steps yet; add them before making it current.`);
+    await tx.update(driverModels).set({ current: false }).where(and(eq(driverModels.code, row.code), eq(driverModels.current, true)));
+    await tx.update(driverModels).set({ current: true }).where(eq(driverModels.id, id));
+    const after = await getModel(id, tx);
+    await recordAudit(tx, {
+      actorId: actor.id,
+      action: 'model.makeCurrent',
+      entityType: 'driver_model',
+      entityId: id,
+      before: before ? { currentRevision: before.revision, currentId: before.id } : null,
+      after: { currentRevision: after.revision, currentId: after.id },
+    });
     return after;
   });
 }
