@@ -23,6 +23,7 @@ import { labelsRouter } from './labels';
 import { attachmentsRouter } from './attachments';
 import { alertsRouter, complianceRouter } from './alerts';
 import { auditRouter } from './audit';
+import { qualityRouter } from './quality';
 
 /** Every API router, mounted under /api. Add a domain's router here. */
 export const apiRouter = Router();
@@ -53,3 +54,4 @@ apiRouter.use('/attachments', attachmentsRouter);
 apiRouter.use('/alerts', alertsRouter);
 apiRouter.use('/compliance', complianceRouter);
 apiRouter.use('/audit', auditRouter);
+apiRouter.use('/quality', qualityRouter);

@@ -17,6 +17,10 @@ export const SETTING_DEFAULTS = {
   falseDiscoveryRate: 0.05,
   /** Plant failure rate at final test used as the baseline when none is recorded (about 1 in 100: common practice). */
   baselineFailureRate: 0.01,
+  /** The baseline is computed from final tests within this many days … */
+  baselineWindowDays: 90,
+  /** … when at least this many drivers were tested there (else the default above). */
+  baselineMinTested: 200,
 } as const;
 
 export type SettingKey = keyof typeof SETTING_DEFAULTS;

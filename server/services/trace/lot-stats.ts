@@ -1,6 +1,7 @@
 import { sql } from 'drizzle-orm';
 import { db } from '../../db/client';
 import { readSetting } from '../settings';
+import { plantBaseline } from '../quality/baseline';
 import { flagLots } from '../../../shared/stats';
 import type { LotStat, LotStats, LotStatsQuery } from '../../../shared/schemas/trace';
 
@@ -17,7 +18,7 @@ interface Row {
  * Counted per batch first, so each driver is read once per batch, not once per lot.
  */
 export async function lotStats(query: LotStatsQuery): Promise<LotStats> {
-  const baseline = await readSetting('baselineFailureRate');
+  const baseline = (await plantBaseline()).rate;
   const fdr = await readSetting('falseDiscoveryRate');
   const res = await db.execute(sql`
     WITH l AS (
