@@ -46,6 +46,20 @@ function parsePart<S extends Schema>(schema: S | undefined, value: unknown, wher
   return result.data;
 }
 
+/** The access each endpoint (and upload middleware) was made with, for the route table. */
+const accessByHandler = new WeakMap<RequestHandler, Access>();
+
+/** The access a handler was made with by `endpoint()` or `withAccess()`; undefined for other handlers. */
+export function accessOf(handler: unknown): Access | undefined {
+  return typeof handler === 'function' ? accessByHandler.get(handler as RequestHandler) : undefined;
+}
+
+/** Marks a handler that checks `access` itself (e.g. an upload parser), so the route table knows it. */
+export function withAccess(access: Access, handler: RequestHandler): RequestHandler {
+  accessByHandler.set(handler, access);
+  return handler;
+}
+
 export function checkAccess(access: Access, actor: Actor | undefined): void {
   if (access === 'public') return;
   if (!actor) throw notSignedIn();
@@ -64,7 +78,7 @@ export function endpoint<BS extends Schema | undefined = undefined, QS extends S
   options: EndpointOptions<BS, QS, PS>,
   handler: (ctx: EndpointContext<Out<BS>, Out<QS>, Out<PS>>) => Promise<unknown> | unknown,
 ): RequestHandler {
-  return async (req: Request, res: Response, next: NextFunction) => {
+  return withAccess(options.access, async (req: Request, res: Response, next: NextFunction) => {
     try {
       checkAccess(options.access, req.actor);
       const params = parsePart(options.params as Schema | undefined, req.params, 'params');
@@ -86,5 +100,5 @@ export function endpoint<BS extends Schema | undefined = undefined, QS extends S
     } catch (err) {
       next(err);
     }
-  };
+  });
 }

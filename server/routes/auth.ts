@@ -31,7 +31,7 @@ authRouter.post(
       maxAge: config.sessionHours * 3600 * 1000,
       path: '/',
     });
-    return result;
+    return { token: result.token, user: { ...result.user, permissions: permissionsFor(result.user.roles) } };
   }),
 );
 
