@@ -168,7 +168,7 @@ describe('access matrix', () => {
         const may = allowed === null || allowed.includes(role);
         if (may && (res.status === 401 || res.status === 403)) wrong.push(`${key(route)} as ${role} (allowed) → ${res.status}`);
         if (!may && res.status !== 403) wrong.push(`${key(route)} as ${role} (refused) → ${res.status}`);
-        if (!may && res.status === 403 && res.body?.error?.code !== 'FORBIDDEN') wrong.push(`${key(route)} as ${role} → 403 without FORBIDDEN`);
+        if (!may && res.status === 403 && (res.body as { error?: { code?: string } } | null)?.error?.code !== 'FORBIDDEN') wrong.push(`${key(route)} as ${role} → 403 without FORBIDDEN`);
         if (res.status >= 500) wrong.push(`${key(route)} as ${role} → ${res.status}`);
       }
     }
