@@ -1,4 +1,5 @@
 import { conflict } from '../../errors';
+import type { RefusalCode } from '../../../shared/refusals';
 import type { Actor } from '../auth/actor';
 import { requirePermission } from '../auth/actor';
 import { isExpired } from '../../../shared/expiry';
@@ -21,7 +22,7 @@ function when(d: string): string {
 /** Only a released lot may be opened (LOT_ON_HOLD, LOT_QUARANTINED, LOT_REJECTED, LOT_USED_UP otherwise). */
 function checkReleased(lot: LotRow, material: MaterialRow): void {
   const name = `${material.name} lot ${lot.supplierLot}`;
-  const refusals: Record<string, [string, string]> = {
+  const refusals: Record<string, [RefusalCode, string]> = {
     on_hold: ['LOT_ON_HOLD', `${name} is on hold awaiting incoming inspection; ask quality to release it before opening a container.`],
     quarantined: ['LOT_QUARANTINED', `${name} is quarantined by quality; do not open it.`],
     rejected: ['LOT_REJECTED', `${name} was rejected by quality; do not open it.`],
