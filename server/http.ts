@@ -1,18 +1,17 @@
 import type { Request, Response, NextFunction, RequestHandler } from 'express';
 import type { z } from 'zod';
-import type { Role } from '../shared/constants';
 import { type Action, can, isAction } from '../shared/permissions';
-import type { Actor } from './services/auth/actor';
-import { hasRole } from './services/auth/actor';
+import { forbiddenFor, type Actor } from './services/auth/actor';
 import { AppError, forbidden, notSignedIn } from './errors';
 import { zodIssues } from './middleware/errors';
 
 /**
  * Who may call an endpoint. Every endpoint must say it (deny by default):
- * 'public' (anyone), 'signed-in' (any role), or an action of the permission map
- * (`shared/permissions.ts`). A list of roles is the older form, being replaced by actions.
+ * 'public' (anyone), 'signed-in' (a read every role may do), or an action of the one
+ * permission map (`shared/permissions.ts`), which says the roles. There is no role-list form:
+ * roles are written only in the map.
  */
-export type Access = 'public' | 'signed-in' | Action | readonly Role[];
+export type Access = 'public' | 'signed-in' | Action;
 
 export interface EndpointContext<B, Q, P> {
   actor: Actor;
@@ -47,15 +46,27 @@ function parsePart<S extends Schema>(schema: S | undefined, value: unknown, wher
   return result.data;
 }
 
+/** The access each endpoint (and upload middleware) was made with, for the route table. */
+const accessByHandler = new WeakMap<RequestHandler, Access>();
+
+/** The access a handler was made with by `endpoint()` or `withAccess()`; undefined for other handlers. */
+export function accessOf(handler: unknown): Access | undefined {
+  return typeof handler === 'function' ? accessByHandler.get(handler as RequestHandler) : undefined;
+}
+
+/** Marks a handler that checks `access` itself (e.g. an upload parser), so the route table knows it. */
+export function withAccess(access: Access, handler: RequestHandler): RequestHandler {
+  accessByHandler.set(handler, access);
+  return handler;
+}
+
 export function checkAccess(access: Access, actor: Actor | undefined): void {
   if (access === 'public') return;
   if (!actor) throw notSignedIn();
   if (access === 'signed-in') return;
-  if (typeof access === 'string') {
-    if (!isAction(access) || !can(actor.roles, access)) throw forbidden();
-    return;
-  }
-  if (!hasRole(actor, ...access)) throw forbidden(`This needs one of the roles: ${access.join(', ')}.`);
+  // An action the map does not know is refused to everyone (and fails the route-table test).
+  if (!isAction(access)) throw forbidden();
+  if (!can(actor.roles, access)) throw forbiddenFor(access);
 }
 
 /**
@@ -67,7 +78,7 @@ export function endpoint<BS extends Schema | undefined = undefined, QS extends S
   options: EndpointOptions<BS, QS, PS>,
   handler: (ctx: EndpointContext<Out<BS>, Out<QS>, Out<PS>>) => Promise<unknown> | unknown,
 ): RequestHandler {
-  return async (req: Request, res: Response, next: NextFunction) => {
+  return withAccess(options.access, async (req: Request, res: Response, next: NextFunction) => {
     try {
       checkAccess(options.access, req.actor);
       const params = parsePart(options.params as Schema | undefined, req.params, 'params');
@@ -89,5 +100,5 @@ export function endpoint<BS extends Schema | undefined = undefined, QS extends S
     } catch (err) {
       next(err);
     }
-  };
+  });
 }

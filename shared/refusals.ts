@@ -1,15 +1,17 @@
 /**
  * The one catalogue of error and refusal codes: each code's HTTP status and a plain title a
- * person reads ("Lot on hold"). The server throws from it (`conflict('LOT_ON_HOLD', …)`), the
- * client matches on it and shows the title, never the code. Codes stay in the JSON for scripts.
+ * person reads ("Lot on hold"). The server throws from it (`conflict('LOT_ON_HOLD', …)`, which
+ * takes the status from here), the client matches on it and shows the title with the server's
+ * message, never the code. Codes stay in the JSON for scripts. A code used anywhere in server/
+ * or src/ must be listed here (tests/unit/refusals.test.ts scans the source).
  */
 export const REFUSALS = {
   // Input and transport
-  VALIDATION_FAILED: { status: 400, title: 'Check the form' },
+  VALIDATION_FAILED: { status: 400, title: 'Input not accepted' },
   BAD_REQUEST: { status: 400, title: 'Request not understood' },
   MALFORMED_JSON: { status: 400, title: 'Request not understood' },
   BAD_UPLOAD: { status: 400, title: 'Upload not accepted' },
-  FILE_MISSING: { status: 400, title: 'File missing' },
+  FILE_MISSING: { status: 404, title: 'Document file missing' },
   TOO_LARGE: { status: 413, title: 'File too large' },
   NOT_SIGNED_IN: { status: 401, title: 'Sign in to continue' },
   BAD_CREDENTIALS: { status: 401, title: 'E-mail or password not recognised' },
@@ -19,6 +21,7 @@ export const REFUSALS = {
   IDEMPOTENCY_IN_PROGRESS: { status: 409, title: 'Already being processed' },
   IDEMPOTENCY_KEY_REUSED: { status: 422, title: 'Request key already used for another request' },
   INTERNAL: { status: 500, title: 'Something went wrong' },
+  DB_DOWN: { status: 503, title: 'Database not reachable' },
 
   // Catalogue
   DUPLICATE: { status: 409, title: 'Already exists' },
@@ -84,6 +87,15 @@ export const REFUSALS = {
   // Alerts
   ALERT_ACKNOWLEDGED: { status: 409, title: 'Alert already acknowledged' },
   ALERT_RESOLVED: { status: 409, title: 'Alert already resolved' },
+
+  // Said by the client itself, with no answer from the server (status 0) or an unreadable one.
+  NETWORK: { status: 0, title: 'Server not reachable' },
+  BAD_RESPONSE: { status: 0, title: 'Unexpected answer from the server' },
+  HTTP_ERROR: { status: 0, title: 'Request refused' },
+  CLIENT_ERROR: { status: 0, title: 'Could not be sent' },
+  OFFLINE: { status: 0, title: 'Offline' },
+  UNKNOWN_BATCH: { status: 0, title: 'Not a build batch' },
+  NO_STATION: { status: 0, title: 'Scan the station first' },
 } as const satisfies Record<string, { status: number; title: string }>;
 
 export type RefusalCode = keyof typeof REFUSALS;
@@ -93,6 +105,22 @@ export function isRefusalCode(code: string): code is RefusalCode {
 }
 
 /** The plain title of a code; an unknown code reads as a general refusal, never as the code. */
-export function refusalTitle(code: string): string {
-  return isRefusalCode(code) ? REFUSALS[code].title : 'Not accepted';
+export function refusalTitle(code: string | null | undefined): string {
+  return code && isRefusalCode(code) ? REFUSALS[code].title : 'Not accepted';
+}
+
+/** The HTTP status the catalogue gives a code. */
+export function refusalStatus(code: RefusalCode): number {
+  return REFUSALS[code].status;
+}
+
+/**
+ * What a person reads for a refusal: the plain title, then the server's message ("Lot on hold.
+ * Lot L-77 is on hold awaiting incoming inspection …"). The code itself is never shown.
+ */
+export function refusalText(code: string | null | undefined, message?: string | null): string {
+  const title = refusalTitle(code);
+  const detail = (message ?? '').trim();
+  if (!detail) return `${title}.`;
+  return detail.toLowerCase().startsWith(title.toLowerCase()) ? detail : `${title}. ${detail}`;
 }

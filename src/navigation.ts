@@ -1,5 +1,5 @@
-import type { Role } from '@shared/constants';
-import { rolesAllow } from './roles';
+import type { Action } from '@shared/permissions';
+import { actionsOf, type PermissionNeed } from './router/meta';
 
 /**
  * The drawer's navigation, in one place. An item shows only when its route name is registered
@@ -20,8 +20,8 @@ export interface NavItem {
   /** Material icon name (bundled from @quasar/extras). */
   icon: string;
   group: NavGroupId;
-  /** Who sees it; absent = everyone signed in. */
-  roles?: readonly Role[];
+  /** The action (or any of the actions) the area is for; absent = everyone signed in. */
+  permission?: PermissionNeed;
 }
 
 export const NAV_GROUPS: readonly NavGroup[] = [
@@ -35,35 +35,37 @@ export const NAV_GROUPS: readonly NavGroup[] = [
 export const NAV_ITEMS: readonly NavItem[] = [
   { to: 'home', label: 'Home', icon: 'home', group: 'start' },
 
-  { to: 'receiving.new', label: 'Receiving', icon: 'move_to_inbox', group: 'floor', roles: ['receiving', 'admin'] },
-  { to: 'labels.print', label: 'Labels', icon: 'qr_code_2', group: 'floor', roles: ['receiving', 'quality', 'admin'] },
+  { to: 'receiving.new', label: 'Receiving', icon: 'move_to_inbox', group: 'floor', permission: 'lots.receive' },
+  { to: 'labels.print', label: 'Labels', icon: 'qr_code_2', group: 'floor', permission: 'labels.print' },
   { to: 'scan.lookup', label: 'Scan a code', icon: 'qr_code_scanner', group: 'floor' },
-  { to: 'station.work', label: 'Station', icon: 'precision_manufacturing', group: 'floor', roles: ['assembler'] },
-  { to: 'batches.list', label: 'Batches', icon: 'layers', group: 'floor', roles: ['assembler', 'quality'] },
-  { to: 'cure.board', label: 'Cure board', icon: 'timer', group: 'floor', roles: ['assembler', 'quality'] },
-  { to: 'tests.final', label: 'Final test', icon: 'fact_check', group: 'floor', roles: ['assembler', 'quality'] },
-  { to: 'readings.list', label: 'Shop conditions', icon: 'device_thermostat', group: 'floor', roles: ['assembler', 'quality', 'admin'] },
+  { to: 'station.work', label: 'Station', icon: 'precision_manufacturing', group: 'floor', permission: 'steps.run' },
+  { to: 'batches.list', label: 'Batches', icon: 'layers', group: 'floor', permission: 'batches.create' },
+  { to: 'cure.board', label: 'Cure board', icon: 'timer', group: 'floor', permission: ['steps.run', 'deviations.record'] },
+  { to: 'tests.final', label: 'Final test', icon: 'fact_check', group: 'floor', permission: 'tests.record' },
+  { to: 'readings.list', label: 'Shop conditions', icon: 'device_thermostat', group: 'floor', permission: 'readings.record' },
 
   { to: 'lots.list', label: 'Lots', icon: 'inventory_2', group: 'oversight' },
-  { to: 'trace.search', label: 'Trace', icon: 'account_tree', group: 'oversight', roles: ['quality'] },
-  { to: 'alerts.list', label: 'Alerts', icon: 'notifications', group: 'oversight', roles: ['quality', 'admin', 'purchasing'] },
-  { to: 'stock.overview', label: 'Stock & expiry', icon: 'event_busy', group: 'oversight', roles: ['purchasing'] },
+  // Everyone may read a trace (a scanned driver or lot links to it); the menu offers the trace
+  // search to those who decide on lots, who use it for containment.
+  { to: 'trace.search', label: 'Trace', icon: 'account_tree', group: 'oversight', permission: 'lots.release' },
+  { to: 'alerts.list', label: 'Alerts', icon: 'notifications', group: 'oversight', permission: 'alerts.resolve' },
+  { to: 'stock.overview', label: 'Stock & expiry', icon: 'event_busy', group: 'oversight', permission: 'stock.read' },
 
-  { to: 'catalogue.materials', label: 'Materials', icon: 'science', group: 'catalogue', roles: ['admin'] },
-  { to: 'catalogue.suppliers', label: 'Suppliers', icon: 'local_shipping', group: 'catalogue', roles: ['admin', 'purchasing'] },
-  { to: 'catalogue.stations', label: 'Stations', icon: 'place', group: 'catalogue', roles: ['admin'] },
-  { to: 'catalogue.models', label: 'Driver models', icon: 'speaker', group: 'catalogue', roles: ['admin'] },
+  { to: 'catalogue.materials', label: 'Materials', icon: 'science', group: 'catalogue', permission: 'materials.edit' },
+  { to: 'catalogue.suppliers', label: 'Suppliers', icon: 'local_shipping', group: 'catalogue', permission: 'suppliers.edit' },
+  { to: 'catalogue.stations', label: 'Stations', icon: 'place', group: 'catalogue', permission: 'stations.edit' },
+  { to: 'catalogue.models', label: 'Driver models', icon: 'speaker', group: 'catalogue', permission: 'models.edit' },
 
-  { to: 'users.list', label: 'Users', icon: 'manage_accounts', group: 'admin', roles: ['admin'] },
+  { to: 'users.list', label: 'Users', icon: 'manage_accounts', group: 'admin', permission: 'users.manage' },
 ];
 
-/** The items a user with `roles` may see, among those whose route exists. */
+/** The items a user may see (`can` answers for the user, e.g. the session's), among those whose route exists. */
 export function visibleNavItems(
-  roles: readonly Role[],
+  can: (...actions: Action[]) => boolean,
   routeExists: (name: string) => boolean,
   items: readonly NavItem[] = NAV_ITEMS,
 ): NavItem[] {
-  return items.filter((item) => routeExists(item.to) && rolesAllow(item.roles, roles));
+  return items.filter((item) => routeExists(item.to) && (!item.permission || can(...actionsOf(item.permission))));
 }
 
 /** Visible items grouped for the drawer, empty groups left out. */

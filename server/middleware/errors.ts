@@ -1,7 +1,8 @@
-import type { ErrorRequestHandler, RequestHandler } from 'express';
+import type { ErrorRequestHandler, RequestHandler, Response } from 'express';
 import type { z } from 'zod';
 import type { FieldIssue } from '../../shared/schemas/common';
 import { AppError } from '../errors';
+import { REFUSALS, type RefusalCode } from '../../shared/refusals';
 
 /** zod issues as the API's `details`: [{field: 'containers', message: '...'}]. */
 export function zodIssues(error: z.ZodError, prefix = ''): FieldIssue[] {
@@ -23,6 +24,11 @@ interface HttpishError {
   field?: string;
 }
 
+/** Sends the API's error shape with a code of the catalogue (and its status unless given). */
+export function sendError(res: Response, code: RefusalCode, message: string, details?: unknown, status: number = REFUSALS[code].status): void {
+  res.status(status).json({ error: { code, message, details } });
+}
+
 /** The single error handler: AppError → its status; body-parser and upload errors → 4xx; the rest → 500. */
 export const errorHandler: ErrorRequestHandler = (err, req, res, next) => {
   if (res.headersSent) {
@@ -30,29 +36,27 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, next) => {
     return;
   }
   if (err instanceof AppError) {
-    res.status(err.status).json({ error: { code: err.code, message: err.message, details: err.details } });
+    sendError(res, err.code, err.message, err.details, err.status);
     return;
   }
   const e = err as HttpishError;
   if (e.type === 'entity.parse.failed') {
-    res.status(400).json({ error: { code: 'MALFORMED_JSON', message: 'The request body is not valid JSON.' } });
+    sendError(res, 'MALFORMED_JSON', 'The request body is not valid JSON.');
     return;
   }
   if (e.type === 'entity.too.large' || e.code === 'LIMIT_FILE_SIZE') {
-    res.status(413).json({
-      error: { code: 'TOO_LARGE', message: 'The upload is larger than allowed.', details: e.field ? [{ field: e.field, message: 'is too large' }] : undefined },
-    });
+    sendError(res, 'TOO_LARGE', 'The upload is larger than allowed.', e.field ? [{ field: e.field, message: 'is too large' }] : undefined);
     return;
   }
   if (typeof e.code === 'string' && e.code.startsWith('LIMIT_')) {
-    res.status(400).json({ error: { code: 'BAD_UPLOAD', message: `The upload was refused (${e.code}).`, details: e.field ? [{ field: e.field, message: 'was refused' }] : undefined } });
+    sendError(res, 'BAD_UPLOAD', `The upload was refused (${e.code}).`, e.field ? [{ field: e.field, message: 'was refused' }] : undefined);
     return;
   }
   const status = e.status ?? e.statusCode;
   if (typeof status === 'number' && status >= 400 && status < 500) {
-    res.status(status).json({ error: { code: 'BAD_REQUEST', message: 'The request could not be read.' } });
+    sendError(res, 'BAD_REQUEST', 'The request could not be read.', undefined, status);
     return;
   }
   console.error(`[error] ${req.method} ${req.originalUrl}:`, err);
-  res.status(500).json({ error: { code: 'INTERNAL', message: 'Something went wrong on the server; it has been logged.' } });
+  sendError(res, 'INTERNAL', 'Something went wrong on the server; it has been logged.');
 };

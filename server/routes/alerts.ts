@@ -10,16 +10,16 @@ alertsRouter.get('/', endpoint({ access: 'signed-in', query: alertListQuerySchem
 
 alertsRouter.post(
   '/:id/acknowledge',
-  endpoint({ access: 'signed-in', params: alertParamsSchema }, async ({ actor, params }) => ({ alert: await acknowledgeAlert(actor, params.id) })),
+  endpoint({ access: 'alerts.acknowledge', params: alertParamsSchema }, async ({ actor, params }) => ({ alert: await acknowledgeAlert(actor, params.id) })),
 );
 
 alertsRouter.post(
   '/:id/resolve',
-  endpoint({ access: ['admin', 'quality', 'purchasing'], params: alertParamsSchema, body: alertResolveInputSchema }, async ({ actor, params, body }) => ({
+  endpoint({ access: 'alerts.resolve', params: alertParamsSchema, body: alertResolveInputSchema }, async ({ actor, params, body }) => ({
     alert: await resolveAlert(actor, params.id, body.resolution),
   })),
 );
 
 export const complianceRouter = Router();
 
-complianceRouter.post('/run', endpoint({ access: ['admin', 'quality'] }, ({ actor }) => runComplianceNow(actor)));
+complianceRouter.post('/run', endpoint({ access: 'compliance.run' }, ({ actor }) => runComplianceNow(actor)));

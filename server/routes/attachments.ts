@@ -2,7 +2,7 @@ import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
 import { config } from '../config';
 import { AppError, fieldError } from '../errors';
-import { checkAccess, endpoint, type Access } from '../http';
+import { checkAccess, endpoint, withAccess, type Access } from '../http';
 import { contentDisposition, getAttachment, readAttachment } from '../services/attachments';
 import { attachmentDownloadQuerySchema, attachmentParamsSchema, UPLOAD_FIELD } from '../../shared/schemas/attachments';
 
@@ -19,7 +19,7 @@ const upload = multer({
  * within the size limit. The route's service checks the content and stores it.
  */
 export function acceptUpload(access: Access): RequestHandler {
-  return (req, res, next) => {
+  return withAccess(access, (req, res, next) => {
     try {
       checkAccess(access, req.actor);
     } catch (err) {
@@ -42,7 +42,7 @@ export function acceptUpload(access: Access): RequestHandler {
       }
       next(err);
     });
-  };
+  });
 }
 
 export const attachmentsRouter = Router();

@@ -5,6 +5,7 @@ import { endpoint } from '../http';
 import { login } from '../services/auth';
 import { SESSION_COOKIE } from '../services/auth/tokens';
 import { config } from '../config';
+import { sendError } from '../middleware/errors';
 import { permissionsFor } from '../../shared/permissions';
 
 export const authRouter = Router();
@@ -15,7 +16,7 @@ const loginLimiter = rateLimit({
   standardHeaders: 'draft-7',
   legacyHeaders: false,
   handler: (_req, res) => {
-    res.status(429).json({ error: { code: 'TOO_MANY_ATTEMPTS', message: 'Too many sign-in attempts; wait a few minutes and try again.' } });
+    sendError(res, 'TOO_MANY_ATTEMPTS', 'Too many sign-in attempts; wait a few minutes and try again.');
   },
 });
 
@@ -31,7 +32,7 @@ authRouter.post(
       maxAge: config.sessionHours * 3600 * 1000,
       path: '/',
     });
-    return result;
+    return { token: result.token, user: { ...result.user, permissions: permissionsFor(result.user.roles) } };
   }),
 );
 

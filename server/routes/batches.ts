@@ -11,7 +11,7 @@ batchesRouter.get('/', endpoint({ access: 'signed-in', query: batchListQuerySche
 
 batchesRouter.post(
   '/',
-  endpoint({ access: ['assembler', 'quality'], body: batchInputSchema, status: 201 }, ({ actor, body }) => createBatch(actor, body)),
+  endpoint({ access: 'batches.create', body: batchInputSchema, status: 201 }, ({ actor, body }) => createBatch(actor, body)),
 );
 
 batchesRouter.get('/:id', endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => getBatchDetail(params.id)));

@@ -12,12 +12,12 @@ defectsRouter.get('/', endpoint({ access: 'signed-in', query: defectCodeListQuer
 
 defectsRouter.post(
   '/',
-  endpoint({ access: ['quality', 'admin'], body: defectCodeCreateSchema, status: 201 }, ({ actor, body }) => createDefectCode(actor, body)),
+  endpoint({ access: 'defects.edit', body: defectCodeCreateSchema, status: 201 }, ({ actor, body }) => createDefectCode(actor, body)),
 );
 
 defectsRouter.patch(
   '/:code',
-  endpoint({ access: ['quality', 'admin'], params: defectCodeParamsSchema, body: defectCodeUpdateSchema }, ({ actor, params, body }) =>
+  endpoint({ access: 'defects.edit', params: defectCodeParamsSchema, body: defectCodeUpdateSchema }, ({ actor, params, body }) =>
     updateDefectCode(actor, params.code, body),
   ),
 );

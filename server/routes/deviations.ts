@@ -9,5 +9,5 @@ deviationsRouter.get('/', endpoint({ access: 'signed-in', query: deviationListQu
 
 deviationsRouter.post(
   '/',
-  endpoint({ access: ['quality'], body: deviationInputSchema, status: 201 }, ({ actor, body }) => recordDeviation(actor, body)),
+  endpoint({ access: 'deviations.record', body: deviationInputSchema, status: 201 }, ({ actor, body }) => recordDeviation(actor, body)),
 );

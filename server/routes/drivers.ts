@@ -10,21 +10,21 @@ driversRouter.get('/:serial', endpoint({ access: 'signed-in', params: serialPara
 
 driversRouter.post(
   '/:serial/scrap',
-  endpoint({ access: ['quality'], params: serialParamsSchema, body: scrapInputSchema }, ({ actor, params, body }) =>
+  endpoint({ access: 'drivers.scrap', params: serialParamsSchema, body: scrapInputSchema }, ({ actor, params, body }) =>
     scrapDriver(actor, params.serial, body),
   ),
 );
 
 driversRouter.post(
   '/:serial/rework/start',
-  endpoint({ access: ['assembler'], params: serialParamsSchema, body: reworkInputSchema }, ({ actor, params, body }) =>
+  endpoint({ access: 'drivers.rework', params: serialParamsSchema, body: reworkInputSchema }, ({ actor, params, body }) =>
     startRework(actor, params.serial, body),
   ),
 );
 
 driversRouter.post(
   '/:serial/rework/finish',
-  endpoint({ access: ['assembler'], params: serialParamsSchema, body: reworkInputSchema }, ({ actor, params, body }) =>
+  endpoint({ access: 'drivers.rework', params: serialParamsSchema, body: reworkInputSchema }, ({ actor, params, body }) =>
     finishRework(actor, params.serial, body),
   ),
 );

@@ -10,7 +10,7 @@ labelsRouter.get('/layouts', endpoint({ access: 'signed-in' }, () => listLabelLa
 /** text/html to open in a browser tab and print at 100 %. */
 labelsRouter.get(
   '/render',
-  endpoint({ access: ['receiving', 'quality', 'admin'], query: labelRenderQuerySchema }, async ({ actor, query, res }) => {
+  endpoint({ access: 'labels.print', query: labelRenderQuerySchema }, async ({ actor, query, res }) => {
     const html = await renderLabels(actor, query);
     res.status(200).type('html').setHeader('Cache-Control', 'no-store').send(html);
     return undefined;

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { endpoint } from '../http';
 import { attachCertificate, receiveLot } from '../services/receiving';
-import { changeLotStatus, getLotDetail, getLotHistory, listLots } from '../services/lots';
+import { changeLotStatus, getLotDetail, getLotHistory, getLotStatusChanges, listLots } from '../services/lots';
 import { lotListQuerySchema, lotParamsSchema, lotStatusChangeSchema, receiveLotInputSchema } from '../../shared/schemas/lots';
 import { certificateFieldsSchema } from '../../shared/schemas/attachments';
 import { acceptUpload } from './attachments';
@@ -12,24 +12,28 @@ lotsRouter.get('/', endpoint({ access: 'signed-in', query: lotListQuerySchema },
 
 lotsRouter.post(
   '/',
-  endpoint({ access: ['receiving', 'admin'], body: receiveLotInputSchema, status: 201 }, ({ actor, body }) => receiveLot(actor, body)),
+  endpoint({ access: 'lots.receive', body: receiveLotInputSchema, status: 201 }, ({ actor, body }) => receiveLot(actor, body)),
 );
 
 lotsRouter.get('/:id', endpoint({ access: 'signed-in', params: lotParamsSchema }, ({ params }) => getLotDetail(params.id)));
 
-lotsRouter.get('/:id/history', endpoint({ access: 'signed-in', params: lotParamsSchema }, ({ params }) => getLotHistory(params.id)));
+/** The full audit trail of a lot and its containers (names, old and new values): quality and admin. */
+lotsRouter.get('/:id/history', endpoint({ access: 'lots.readHistory', params: lotParamsSchema }, ({ actor, params }) => getLotHistory(actor, params.id)));
+
+/** How the lot's status moved, when and why: anyone signed in. */
+lotsRouter.get('/:id/status-changes', endpoint({ access: 'signed-in', params: lotParamsSchema }, ({ params }) => getLotStatusChanges(params.id)));
 
 lotsRouter.post(
   '/:id/status',
-  endpoint({ access: ['quality'], params: lotParamsSchema, body: lotStatusChangeSchema }, ({ actor, params, body }) => changeLotStatus(actor, params.id, body)),
+  endpoint({ access: 'lots.release', params: lotParamsSchema, body: lotStatusChangeSchema }, ({ actor, params, body }) => changeLotStatus(actor, params.id, body)),
 );
 
 /** Certificate of analysis: multipart/form-data, PDF/PNG/JPEG in `file`, optional `expiresOn`. */
 lotsRouter.post(
   '/:id/certificate',
-  acceptUpload(['receiving', 'quality']),
+  acceptUpload('lots.attachCertificate'),
   endpoint(
-    { access: ['receiving', 'quality'], params: lotParamsSchema, body: certificateFieldsSchema, status: 201 },
+    { access: 'lots.attachCertificate', params: lotParamsSchema, body: certificateFieldsSchema, status: 201 },
     ({ actor, params, body, req }) => attachCertificate(actor, params.id, req.file, body),
   ),
 );

@@ -17,22 +17,22 @@ materialsRouter.get('/:id/fefo', endpoint({ access: 'signed-in', params: materia
 
 materialsRouter.post(
   '/',
-  endpoint({ access: ['admin'], body: materialInputSchema, status: 201 }, ({ actor, body }) => createMaterial(actor, body)),
+  endpoint({ access: 'materials.edit', body: materialInputSchema, status: 201 }, ({ actor, body }) => createMaterial(actor, body)),
 );
 
 materialsRouter.patch(
   '/:id',
-  endpoint({ access: ['admin'], params: materialParamsSchema, body: materialPatchSchema }, ({ actor, params, body }) => updateMaterial(actor, params.id, body)),
+  endpoint({ access: 'materials.edit', params: materialParamsSchema, body: materialPatchSchema }, ({ actor, params, body }) => updateMaterial(actor, params.id, body)),
 );
 
 materialsRouter.post(
   '/:id/retire',
-  endpoint({ access: ['admin'], params: materialParamsSchema }, ({ actor, params }) => retireMaterial(actor, params.id)),
+  endpoint({ access: 'materials.edit', params: materialParamsSchema }, ({ actor, params }) => retireMaterial(actor, params.id)),
 );
 
 /** Safety data sheet: multipart/form-data, PDF (or PNG/JPEG) in the field `file`. */
 materialsRouter.post(
   '/:id/sds',
-  acceptUpload(['admin']),
-  endpoint({ access: ['admin'], params: materialParamsSchema, status: 201 }, ({ actor, params, req }) => attachSds(actor, params.id, req.file)),
+  acceptUpload('materials.edit'),
+  endpoint({ access: 'materials.edit', params: materialParamsSchema, status: 201 }, ({ actor, params, req }) => attachSds(actor, params.id, req.file)),
 );

@@ -10,14 +10,14 @@ modelsRouter.get('/', endpoint({ access: 'signed-in', query: modelListQuerySchem
 
 modelsRouter.post(
   '/',
-  endpoint({ access: ['admin'], body: driverModelInputSchema, status: 201 }, ({ actor, body }) => createModel(actor, body)),
+  endpoint({ access: 'models.edit', body: driverModelInputSchema, status: 201 }, ({ actor, body }) => createModel(actor, body)),
 );
 
 modelsRouter.get('/:id', endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => getModel(params.id)));
 
 modelsRouter.patch(
   '/:id',
-  endpoint({ access: ['admin'], params: idParamsSchema, body: driverModelPatchSchema }, ({ actor, params, body }) =>
+  endpoint({ access: 'models.edit', params: idParamsSchema, body: driverModelPatchSchema }, ({ actor, params, body }) =>
     updateModel(actor, params.id, body),
   ),
 );

@@ -10,7 +10,7 @@ readingsRouter.get('/', endpoint({ access: 'signed-in', query: readingQuerySchem
 /** One reading answers with the Reading; `{readings: [...]}` answers `{items}`. */
 readingsRouter.post(
   '/',
-  endpoint({ access: ['assembler', 'quality', 'admin'], body: readingsPostSchema, status: 201 }, async ({ actor, body }) => {
+  endpoint({ access: 'readings.record', body: readingsPostSchema, status: 201 }, async ({ actor, body }) => {
     const items = await recordReadings(actor, body.items);
     return body.single ? items[0] : { items };
   }),

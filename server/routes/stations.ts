@@ -15,26 +15,26 @@ stationsRouter.get('/', endpoint({ access: 'signed-in', query: stationListQueryS
 
 stationsRouter.post(
   '/',
-  endpoint({ access: ['admin'], body: stationInputSchema, status: 201 }, ({ actor, body }) => createStation(actor, body)),
+  endpoint({ access: 'stations.edit', body: stationInputSchema, status: 201 }, ({ actor, body }) => createStation(actor, body)),
 );
 
 stationsRouter.get('/:id', endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => getStation(params.id)));
 
 stationsRouter.patch(
   '/:id',
-  endpoint({ access: ['admin'], params: idParamsSchema, body: stationPatchSchema }, ({ actor, params, body }) =>
+  endpoint({ access: 'stations.edit', params: idParamsSchema, body: stationPatchSchema }, ({ actor, params, body }) =>
     updateStation(actor, params.id, body),
   ),
 );
 
 stationsRouter.post(
   '/:id/retire',
-  endpoint({ access: ['admin'], params: idParamsSchema }, ({ actor, params }) => retireStation(actor, params.id)),
+  endpoint({ access: 'stations.edit', params: idParamsSchema }, ({ actor, params }) => retireStation(actor, params.id)),
 );
 
 stationsRouter.post(
   '/:id/load',
-  endpoint({ access: ['assembler'], params: idParamsSchema, body: loadInputSchema }, ({ actor, params, body }) =>
+  endpoint({ access: 'stations.load', params: idParamsSchema, body: loadInputSchema }, ({ actor, params, body }) =>
     loadAtStation(actor, params.id, body),
   ),
 );
@@ -48,14 +48,14 @@ stationsRouter.get(
 
 stationsRouter.post(
   '/:id/unload',
-  endpoint({ access: ['assembler'], params: idParamsSchema, body: unloadInputSchema }, ({ actor, params, body }) =>
+  endpoint({ access: 'stations.load', params: idParamsSchema, body: unloadInputSchema }, ({ actor, params, body }) =>
     unloadAtStation(actor, params.id, body),
   ),
 );
 
 stationsRouter.post(
   '/:id/mixes',
-  endpoint({ access: ['assembler'], params: idParamsSchema, body: mixInputSchema, status: 201 }, ({ actor, params, body }) =>
+  endpoint({ access: 'mixes.create', params: idParamsSchema, body: mixInputSchema, status: 201 }, ({ actor, params, body }) =>
     createMix(actor, params.id, body),
   ),
 );

@@ -8,14 +8,14 @@ export const stepsRouter = Router();
 
 stepsRouter.post(
   '/:id/steps/:stepId/start',
-  endpoint({ access: ['assembler'], params: stepParamsSchema, body: stepActionInputSchema }, ({ actor, params, body }) =>
+  endpoint({ access: 'steps.run', params: stepParamsSchema, body: stepActionInputSchema }, ({ actor, params, body }) =>
     startStep(actor, { batchId: params.id, stepId: params.stepId, stationId: body.stationId, serial: body.serial }),
   ),
 );
 
 stepsRouter.post(
   '/:id/steps/:stepId/finish',
-  endpoint({ access: ['assembler'], params: stepParamsSchema, body: stepActionInputSchema }, ({ actor, params, body }) =>
+  endpoint({ access: 'steps.run', params: stepParamsSchema, body: stepActionInputSchema }, ({ actor, params, body }) =>
     finishStep(actor, { batchId: params.id, stepId: params.stepId, stationId: body.stationId, serial: body.serial }),
   ),
 );

@@ -13,15 +13,15 @@ suppliersRouter.get('/:id', endpoint({ access: 'signed-in', params: supplierPara
 
 suppliersRouter.post(
   '/',
-  endpoint({ access: ['admin', 'purchasing'], body: supplierInputSchema, status: 201 }, ({ actor, body }) => createSupplier(actor, body)),
+  endpoint({ access: 'suppliers.edit', body: supplierInputSchema, status: 201 }, ({ actor, body }) => createSupplier(actor, body)),
 );
 
 suppliersRouter.patch(
   '/:id',
-  endpoint({ access: ['admin', 'purchasing'], params: supplierParamsSchema, body: supplierPatchSchema }, ({ actor, params, body }) => updateSupplier(actor, params.id, body)),
+  endpoint({ access: 'suppliers.edit', params: supplierParamsSchema, body: supplierPatchSchema }, ({ actor, params, body }) => updateSupplier(actor, params.id, body)),
 );
 
 suppliersRouter.post(
   '/:id/retire',
-  endpoint({ access: ['admin', 'purchasing'], params: supplierParamsSchema }, ({ actor, params }) => retireSupplier(actor, params.id)),
+  endpoint({ access: 'suppliers.edit', params: supplierParamsSchema }, ({ actor, params }) => retireSupplier(actor, params.id)),
 );

@@ -8,5 +8,5 @@ export const testsRouter = Router();
 
 testsRouter.post(
   '/',
-  endpoint({ access: ['assembler', 'quality'], body: testInputSchema, status: 201 }, ({ actor, body }) => recordTest(actor, body)),
+  endpoint({ access: 'tests.record', body: testInputSchema, status: 201 }, ({ actor, body }) => recordTest(actor, body)),
 );

@@ -6,5 +6,5 @@ export const usersRouter = Router();
 
 usersRouter.get(
   '/',
-  endpoint({ access: ['admin'] }, ({ actor }) => listUsers(actor)),
+  endpoint({ access: 'users.manage' }, ({ actor }) => listUsers(actor)),
 );

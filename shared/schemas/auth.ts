@@ -18,9 +18,16 @@ export const userSchema = z.object({
 });
 export type User = z.infer<typeof userSchema>;
 
-export const loginResultSchema = z.object({ token: z.string(), user: userSchema });
+/**
+ * The signed-in user with the actions the permission map allows them (`shared/permissions.ts`),
+ * as sent by sign-in and by GET /api/auth/me. The client shows and hides controls from
+ * `permissions`; the server checks every request again.
+ */
+export const sessionUserSchema = userSchema.extend({ permissions: z.array(z.string()) });
+export type SessionUser = z.infer<typeof sessionUserSchema>;
+
+/** POST /api/auth/login → {token, user: {id, email, name, roles, permissions}}. */
+export const loginResultSchema = z.object({ token: z.string(), user: sessionUserSchema });
 export type LoginResult = z.infer<typeof loginResultSchema>;
 
-/** The signed-in user with the actions the permission map allows them (`shared/permissions.ts`). */
-export const meUserSchema = userSchema.extend({ permissions: z.array(z.string()) });
-export const meResultSchema = z.object({ user: meUserSchema });
+export const meResultSchema = z.object({ user: sessionUserSchema });

@@ -202,7 +202,23 @@ export const historyEntrySchema = z.object({
   reason: z.string().nullable(),
 });
 export type HistoryEntry = z.infer<typeof historyEntrySchema>;
+/** GET /api/lots/:id/history (`lots.readHistory`: quality, admin). */
 export const lotHistorySchema = z.object({ items: z.array(historyEntrySchema) });
+
+/**
+ * One line of GET /api/lots/:id/status-changes (anyone signed in): how the lot's status moved,
+ * when and why. No names and no before/after records: the full history is for quality and
+ * administrators (`lots.readHistory`).
+ */
+export const statusChangeEntrySchema = z.object({
+  at: instantSchema,
+  /** Null for the status the lot was received with. */
+  from: lotStatusSchema.nullable(),
+  to: lotStatusSchema,
+  reason: z.string().nullable(),
+});
+export type StatusChangeEntry = z.infer<typeof statusChangeEntrySchema>;
+export const lotStatusChangesSchema = z.object({ items: z.array(statusChangeEntrySchema) });
 
 /** POST /api/lots/:id/certificate → 201. */
 export const certificateResultSchema = z.object({ attachment: attachmentSchema, lot: lotSchema });

@@ -1,21 +1,37 @@
 import { z } from 'zod';
 import { errorBodySchema, fieldIssueSchema, type FieldIssue } from '@shared/schemas/common';
+import { isRefusalCode, refusalText, refusalTitle, type RefusalCode } from '@shared/refusals';
 
 /**
  * A failed API call, built from the API's error shape {error: {code, message, details}}.
- * `status` is 0 when the server could not be reached at all.
+ * `status` is 0 when the server could not be reached at all. `code` is from the one catalogue
+ * (`shared/refusals.ts`), so comparisons are checked; a code this client does not know (a newer
+ * server) reads as HTTP_ERROR, with the server's own in `serverCode`. People read `text` (the
+ * plain title and the server's message), never the code.
  */
 export class ApiError extends Error {
   constructor(
     public readonly status: number,
-    public readonly code: string,
+    public readonly code: RefusalCode,
     message: string,
     public readonly details: FieldIssue[] = [],
     /** The error's `details` as sent, when they are not a list of fields (e.g. {cureCompleteAt} of CURE_INCOMPLETE). */
     public readonly info: unknown = undefined,
+    /** The code as the server sent it (the same as `code` unless this client does not know it). */
+    public readonly serverCode: string = code,
   ) {
     super(message);
     this.name = 'ApiError';
+  }
+
+  /** The refusal's plain title ("Lot on hold"). */
+  get title(): string {
+    return refusalTitle(this.code);
+  }
+
+  /** What a person reads: the title, then the server's message. */
+  get text(): string {
+    return refusalText(this.code, this.message);
   }
 
   /** The server's message for one field (400 responses list the fields in error). */
@@ -69,18 +85,28 @@ async function readJson(response: Response): Promise<unknown> {
   try {
     return JSON.parse(text) as unknown;
   } catch {
-    throw new ApiError(response.status, 'BAD_RESPONSE', `The server sent an unreadable answer (HTTP ${response.status}).`);
+    throw new ApiError(response.status, 'BAD_RESPONSE', `The answer could not be read (HTTP ${response.status}).`);
   }
 }
 
 function errorFrom(status: number, payload: unknown): ApiError {
   const parsed = errorBodySchema.safeParse(payload);
   if (!parsed.success) {
-    return new ApiError(status, 'HTTP_ERROR', `The server refused the request (HTTP ${status}).`);
+    return new ApiError(status, 'HTTP_ERROR', `The server answered HTTP ${status}.`);
   }
   const { code, message, details } = parsed.data.error;
   const issues = fieldIssuesSchema.safeParse(details);
-  return new ApiError(status, code, message, issues.success ? issues.data : [], issues.success ? undefined : details);
+  const known = isRefusalCode(code) ? code : 'HTTP_ERROR';
+  return new ApiError(status, known, message, issues.success ? issues.data : [], issues.success ? undefined : details, code);
+}
+
+/**
+ * What a person reads for anything a call or an action threw: for a refusal its plain title and
+ * the server's message (never the code); for other errors their message.
+ */
+export function errorText(err: unknown): string {
+  if (err instanceof ApiError) return err.text;
+  return err instanceof Error ? err.message : String(err);
 }
 
 /**
@@ -109,7 +135,7 @@ export async function apiFetch<S extends z.ZodTypeAny>(path: string, request: Ap
     });
   } catch (err) {
     if (err instanceof DOMException && err.name === 'AbortError') throw err;
-    throw new ApiError(0, 'NETWORK', 'The Tacklog server could not be reached. Check the connection and try again.');
+    throw new ApiError(0, 'NETWORK', 'The Tacklog server could not be reached: check the connection and try again.');
   }
 
   const payload = await readJson(response);
@@ -121,7 +147,7 @@ export async function apiFetch<S extends z.ZodTypeAny>(path: string, request: Ap
   const parsed = request.schema.safeParse(payload);
   if (!parsed.success) {
     console.error(`[api] ${request.method ?? 'GET'} ${path}: unexpected response shape`, parsed.error.issues);
-    throw new ApiError(response.status, 'BAD_RESPONSE', 'The server answered in an unexpected shape; the page may be out of date. Reload it.');
+    throw new ApiError(response.status, 'BAD_RESPONSE', 'The page may be out of date: reload it.');
   }
   return parsed.data as z.infer<S>;
 }

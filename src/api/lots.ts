@@ -2,10 +2,12 @@ import {
   certificateResultSchema,
   lotDetailSchema,
   lotHistorySchema,
+  lotStatusChangesSchema,
   lotPageSchema,
   lotResultSchema,
   receiveLotResultSchema,
   type HistoryEntry,
+  type StatusChangeEntry,
   type Lot,
   type LotDetail,
   type LotPage,
@@ -57,9 +59,15 @@ export function getLot(id: string): Promise<LotDetail> {
   return apiFetch(`/api/lots/${encodeURIComponent(id)}`, { schema: lotDetailSchema });
 }
 
-/** GET /api/lots/:id/history (signed in): audit entries of the lot and its containers. */
+/** GET /api/lots/:id/history (`lots.readHistory`: quality, admin): audit entries of the lot and its containers. */
 export async function lotHistory(id: string): Promise<HistoryEntry[]> {
   const result = await apiFetch(`/api/lots/${encodeURIComponent(id)}/history`, { schema: lotHistorySchema });
+  return result.items;
+}
+
+/** GET /api/lots/:id/status-changes (signed in): the lot's status changes, when and why. */
+export async function lotStatusChanges(id: string): Promise<StatusChangeEntry[]> {
+  const result = await apiFetch(`/api/lots/${encodeURIComponent(id)}/status-changes`, { schema: lotStatusChangesSchema });
   return result.items;
 }
 

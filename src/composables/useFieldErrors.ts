@@ -108,9 +108,9 @@ export function useFieldErrors(known?: readonly string[], labels: Readonly<Recor
     if (err.details.length > 0) {
       const sorted = sortIssues(err.details, known);
       Object.assign(errors, named(sorted.fields));
-      if (sorted.general.length > 0 || Object.keys(sorted.fields).length === 0) formError.value = err.message;
+      if (sorted.general.length > 0 || Object.keys(sorted.fields).length === 0) formError.value = err.text;
     } else {
-      formError.value = err.message;
+      formError.value = err.text;
     }
     return true;
   }

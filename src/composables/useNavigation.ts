@@ -7,7 +7,7 @@ import { groupNavItems, visibleNavItems, type NavItem } from '@/navigation';
 export function useNavigation() {
   const router = useRouter();
   const session = useSessionStore();
-  const items = computed<NavItem[]>(() => visibleNavItems(session.roles, (name) => router.hasRoute(name)));
+  const items = computed<NavItem[]>(() => visibleNavItems(session.can, (name) => router.hasRoute(name)));
   const groups = computed(() => groupNavItems(items.value));
   return { items, groups };
 }

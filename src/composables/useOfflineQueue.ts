@@ -1,5 +1,5 @@
 import { getCurrentScope, onScopeDispose, readonly, ref, type Ref } from 'vue';
-import { ApiError } from '@/api/http';
+import { ApiError, errorText } from '@/api/http';
 
 /**
  * A station that loses its network keeps working: every action is queued in the browser
@@ -119,7 +119,7 @@ export function createOfflineQueue(options: OfflineQueueOptions) {
         }
         outcome = {
           ok: false,
-          error: err instanceof ApiError ? err : new ApiError(0, 'CLIENT_ERROR', err instanceof Error ? err.message : String(err)),
+          error: err instanceof ApiError ? err : new ApiError(0, 'CLIENT_ERROR', errorText(err)),
         };
       }
       online.value = true;

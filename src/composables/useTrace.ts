@@ -1,5 +1,5 @@
 import { ref, watch, type Ref } from 'vue';
-import { ApiError } from '@/api/http';
+import { ApiError, errorText } from '@/api/http';
 
 /**
  * Reads one trace (a driver's or a lot's) whenever its key changes: the trace, whether it is
@@ -18,7 +18,7 @@ export function useTrace<T>(key: () => string, read: (key: string) => Promise<T>
       trace.value = await read(k);
     } catch (err) {
       error.value =
-        err instanceof ApiError && err.status === 404 ? notFound(k) : `The trace could not be read: ${err instanceof Error ? err.message : String(err)}`;
+        err instanceof ApiError && err.status === 404 ? notFound(k) : `The trace could not be read: ${errorText(err)}`;
     } finally {
       loading.value = false;
     }

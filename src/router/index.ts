@@ -1,7 +1,6 @@
 import { watch } from 'vue';
 import { createRouter, createWebHistory, type RouteLocationNormalized, type RouteRecordRaw, type Router } from 'vue-router';
 import { useSessionStore } from '@/stores/session';
-import { rolesAllow } from '@/roles';
 import { safeRedirect } from './redirect';
 import { homeRoutes, notFoundRoute, publicRoutes } from './routes/core';
 import { productionRoutes } from './routes/production';
@@ -11,11 +10,11 @@ import { lotsRoutes } from './routes/lots';
 import { materialsRoutes } from './routes/materials';
 import { receivingRoutes } from './routes/receiving';
 import { alertsRoutes } from './routes/alerts';
-import './meta';
+import { actionsOf } from './meta';
 
 // ---------------------------------------------------------------------------------------------
 // Area routes. Each area keeps its routes in src/router/routes/<area>.ts (lazy components,
-// dotted names like 'lots.detail', meta {roles}) and adds ONE import and ONE entry below.
+// dotted names like 'lots.detail', meta {permission}) and adds ONE import and ONE entry below.
 // Route names used by the drawer are listed in src/navigation.ts.
 // ---------------------------------------------------------------------------------------------
 const areaRoutes: RouteRecordRaw[] = [
@@ -56,7 +55,7 @@ export async function guard(to: RouteLocationNormalized) {
   if (!user) {
     return to.fullPath === '/' ? { name: 'auth.signin' } : { name: 'auth.signin', query: { redirect: to.fullPath } };
   }
-  if (!rolesAllow(to.meta.roles, user.roles)) return { name: 'home' };
+  if (to.meta.permission && !session.can(...actionsOf(to.meta.permission))) return { name: 'home' };
   return true;
 }
 

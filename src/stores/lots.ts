@@ -2,7 +2,7 @@ import { readonly, ref } from 'vue';
 import { defineStore } from 'pinia';
 import type { Container } from '@shared/schemas/containers';
 import type { Attachment } from '@shared/schemas/attachments';
-import type { HistoryEntry, Lot, LotDetail, LotListItem, LotStatusChange, ReceiveLotInput, ReceiveLotResult } from '@shared/schemas/lots';
+import type { HistoryEntry, Lot, LotDetail, LotListItem, LotStatusChange, ReceiveLotInput, ReceiveLotResult, StatusChangeEntry } from '@shared/schemas/lots';
 import * as lotsApi from '@/api/lots';
 import * as containersApi from '@/api/containers';
 import type { ContainerAction } from '@/api/containers';
@@ -16,10 +16,12 @@ export const useLotsStore = defineStore('lots', () => {
   const page = ref<{ items: LotListItem[]; total: number; key: string } | null>(null);
   const details = ref<Record<string, LotDetail>>({});
   const histories = ref<Record<string, HistoryEntry[]>>({});
+  const statusChanges = ref<Record<string, StatusChangeEntry[]>>({});
   const lastReceipt = ref<ReceiveLotResult | null>(null);
 
   const detailInFlight = new Map<string, Promise<LotDetail>>();
   const historyInFlight = new Map<string, Promise<HistoryEntry[]>>();
+  const statusChangesInFlight = new Map<string, Promise<StatusChangeEntry[]>>();
   let pageInFlight: { key: string; promise: Promise<void>; controller: AbortController } | null = null;
 
   function putDetail(detail: LotDetail): LotDetail {
@@ -75,6 +77,22 @@ export const useLotsStore = defineStore('lots', () => {
     return promise;
   }
 
+  /** The lot's status changes only (for people who may not read its full history). */
+  function loadStatusChanges(id: string): Promise<StatusChangeEntry[]> {
+    let promise = statusChangesInFlight.get(id);
+    if (!promise) {
+      promise = lotsApi
+        .lotStatusChanges(id)
+        .then((items) => {
+          statusChanges.value = { ...statusChanges.value, [id]: items };
+          return items;
+        })
+        .finally(() => statusChangesInFlight.delete(id));
+      statusChangesInFlight.set(id, promise);
+    }
+    return promise;
+  }
+
   async function receive(input: ReceiveLotInput, idempotencyKey: string): Promise<ReceiveLotResult> {
     const result = await lotsApi.receiveLot(input, idempotencyKey);
     lastReceipt.value = result;
@@ -93,9 +111,12 @@ export const useLotsStore = defineStore('lots', () => {
     return lot;
   }
 
-  /** Reloads a lot's detail and history after a change. */
-  async function refreshLot(id: string): Promise<void> {
-    await Promise.all([loadLot(id, true), loadHistory(id)]);
+  /**
+   * Reloads a lot's detail and its history after a change: the full history for people who may
+   * read it (`lots.readHistory`), its status changes for everyone else.
+   */
+  async function refreshLot(id: string, fullHistory: boolean): Promise<void> {
+    await Promise.all([loadLot(id, true), fullHistory ? loadHistory(id) : loadStatusChanges(id)]);
   }
 
   function putContainer(lotId: string, container: Container): void {
@@ -131,10 +152,12 @@ export const useLotsStore = defineStore('lots', () => {
     page: readonly(page),
     details: readonly(details),
     histories: readonly(histories),
+    statusChanges: readonly(statusChanges),
     lastReceipt: readonly(lastReceipt),
     loadPage,
     loadLot,
     loadHistory,
+    loadStatusChanges,
     receive,
     clearReceipt,
     changeStatus,

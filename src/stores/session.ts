@@ -1,25 +1,31 @@
 import { computed, ref, type DeepReadonly } from 'vue';
 import { defineStore } from 'pinia';
 import type { Role } from '@shared/constants';
-import type { User } from '@shared/schemas/auth';
+import type { Action } from '@shared/permissions';
+import type { SessionUser } from '@shared/schemas/auth';
 import * as authApi from '@/api/auth';
 import { ApiError, onUnauthorized } from '@/api/http';
 
 /**
- * Who is signed in. The httpOnly cookie set by the server is the browser session, so the
- * store keeps only the user; it never shows notifications (pages do).
+ * Who is signed in and what they may do. The httpOnly cookie set by the server is the browser
+ * session, so the store keeps only the user, with the actions the server's permission map
+ * allows them (`user.permissions`, from sign-in and from GET /api/auth/me). Pages, the router
+ * and the navigation ask `can(action)`; the server checks every request again. The store never
+ * shows notifications (pages do).
  */
 export const useSessionStore = defineStore('session', () => {
-  const current = ref<User | null>(null);
+  const current = ref<SessionUser | null>(null);
   /** True once the server has said who (if anyone) is signed in. */
   const loaded = ref(false);
-  let inFlight: Promise<DeepReadonly<User> | null> | null = null;
+  let inFlight: Promise<DeepReadonly<SessionUser> | null> | null = null;
 
-  const user = computed<DeepReadonly<User> | null>(() => current.value);
+  const user = computed<DeepReadonly<SessionUser> | null>(() => current.value);
+  /** The roles held, for saying who someone is (role chips, greetings); decisions use `can`. */
   const roles = computed<readonly Role[]>(() => current.value?.roles ?? []);
+  const permissions = computed<ReadonlySet<string>>(() => new Set(current.value?.permissions ?? []));
   const signedIn = computed(() => current.value !== null);
 
-  function setUser(next: User | null) {
+  function setUser(next: SessionUser | null) {
     current.value = next;
     loaded.value = true;
   }
@@ -30,7 +36,7 @@ export const useSessionStore = defineStore('session', () => {
   });
 
   /** Asks the server once who is signed in; concurrent callers share one request. */
-  function load(): Promise<DeepReadonly<User> | null> {
+  function load(): Promise<DeepReadonly<SessionUser> | null> {
     if (loaded.value) return Promise.resolve(current.value);
     if (!inFlight) {
       inFlight = authApi
@@ -55,7 +61,7 @@ export const useSessionStore = defineStore('session', () => {
     return inFlight;
   }
 
-  async function signIn(email: string, password: string): Promise<DeepReadonly<User>> {
+  async function signIn(email: string, password: string): Promise<DeepReadonly<SessionUser>> {
     const result = await authApi.login({ email, password });
     setUser(result.user);
     return result.user;
@@ -71,12 +77,13 @@ export const useSessionStore = defineStore('session', () => {
     setUser(null);
   }
 
-  /** True when the user holds at least one of `wanted` (or is signed in, when none is given). */
-  function hasRole(...wanted: Role[]): boolean {
-    if (!current.value) return false;
-    if (wanted.length === 0) return true;
-    return wanted.some((role) => current.value?.roles.includes(role));
+  /**
+   * Whether the signed-in user may do `action` (one of the permission map's actions), as the
+   * server said. With several actions: whether they may do any of them. False when signed out.
+   */
+  function can(...actions: Action[]): boolean {
+    return actions.some((action) => permissions.value.has(action));
   }
 
-  return { user, loaded: computed(() => loaded.value), roles, signedIn, load, signIn, signOut, hasRole };
+  return { user, loaded: computed(() => loaded.value), roles, signedIn, load, signIn, signOut, can };
 });

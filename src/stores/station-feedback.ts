@@ -1,9 +1,11 @@
+import { refusalTitle, type RefusalCode } from '@shared/refusals';
 import type { ApiError } from '@/api/http';
 
 /**
  * What the station screen shows after every scan or action: a big accept / refuse / queued
- * panel with the server's reason text and its reason code. Kept apart from the store so the
- * wording is in one place.
+ * panel with a headline in plain words (the refusal catalogue's title) and the server's reason
+ * text. The reason code rides along for scripts and tests only. Kept apart from the store so
+ * the wording is in one place.
  */
 export type FeedbackKind = 'accept' | 'refuse' | 'queued' | 'info';
 
@@ -12,48 +14,28 @@ export interface StationFeedback {
   kind: FeedbackKind;
   title: string;
   message: string;
-  /** The server's reason code (WRONG_MATERIAL, LOT_ON_HOLD …) or a local one (OFFLINE …). */
-  code: string | null;
+  /** The reason code (WRONG_MATERIAL, LOT_ON_HOLD …, or a local one: OFFLINE …) for scripts and tests; never shown. */
+  code: RefusalCode | null;
   at: string;
 }
 
 let nextId = 1;
 
-export function feedback(kind: FeedbackKind, title: string, message: string, code: string | null = null, at = new Date()): StationFeedback {
+export function feedback(kind: FeedbackKind, title: string, message: string, code: RefusalCode | null = null, at = new Date()): StationFeedback {
   return { id: nextId++, kind, title, message, code, at: at.toISOString() };
 }
 
-/** Headline for a refusal, by reason code; the server's own message says the details. */
-const REFUSAL_TITLES: Record<string, string> = {
-  WRONG_MATERIAL: 'Refused: wrong material',
-  WRONG_STATION: 'Refused: not this station',
-  LOT_ON_HOLD: 'Refused: lot on hold',
-  LOT_QUARANTINED: 'Refused: lot quarantined',
-  LOT_REJECTED: 'Refused: lot rejected',
-  EXPIRED: 'Refused: expired',
-  OPEN_LIFE_EXCEEDED: 'Refused: after-opening life over',
-  POT_LIFE_EXCEEDED: 'Refused: pot life over',
-  CONTAINER_EMPTY: 'Refused: container empty',
-  CONTAINER_SCRAPPED: 'Refused: container scrapped',
-  STATION_RETIRED: 'Refused: station retired',
-  BATCH_CLOSED: 'Refused: batch closed',
-  MIX_DISCARDED: 'Refused: mix discarded',
-  CURE_INCOMPLETE: 'Refused: cure not complete',
-  MATERIAL_NOT_LOADED: 'Refused: material not loaded',
-  INSUFFICIENT_STOCK: 'Refused: not enough loaded',
-  STEP_NOT_STARTED: 'Refused: step not started',
-  STEP_ALREADY_STARTED: 'Refused: step already running',
-  STEP_ALREADY_DONE: 'Refused: step already done',
-  STEP_OUT_OF_ORDER: 'Refused: an earlier step is not finished',
-  WRONG_BATCH: 'Refused: wrong batch',
-  NOT_FOUND: 'Refused: unknown code',
-  VALIDATION_FAILED: 'Refused: check the input',
-  FORBIDDEN: 'Refused: not allowed for your role',
-};
+/** "Refused: lot on hold": the catalogue's plain title as the headline; the server's message says the details. */
+export function refusalHeadline(code: RefusalCode | null, what: string): string {
+  if (!code || code === 'HTTP_ERROR') return `Refused: ${what}`;
+  const title = refusalTitle(code);
+  // Lower-case the first letter unless the title starts with an abbreviation (GTIN …).
+  const lead = /^[A-Z][a-z]/.test(title) ? title.charAt(0).toLowerCase() + title.slice(1) : title;
+  return `Refused: ${lead}`;
+}
 
 export function refusalFeedback(error: ApiError, what: string): StationFeedback {
-  const title = REFUSAL_TITLES[error.code] ?? `Refused: ${what}`;
-  return feedback('refuse', title, error.message, error.code);
+  return feedback('refuse', refusalHeadline(error.code, what), error.message, error.code);
 }
 
 export function queuedFeedback(label: string): StationFeedback {

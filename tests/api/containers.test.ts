@@ -124,6 +124,11 @@ describe('location, empty and scrap', () => {
     const { lot, containers: [a, b] } = await lotOf({});
     const moved = await as(clerk).post(`/api/containers/${a.id}/location`, { location: 'Cabinet B4' });
     expect(moved.body.container.location).toBe('Cabinet B4');
+    // Emptying is recorded where the container is used (station, quality), not at the dock.
+    const byClerk = await as(clerk).post(`/api/containers/${a.id}/empty`);
+    expect(byClerk.status).toBe(403);
+    expect(byClerk.body.error.code).toBe('FORBIDDEN');
+    expect((await db.select().from(containers).where(eq(containers.id, a.id)))[0].status).toBe('sealed');
     const emptied = await as(assembler).post(`/api/containers/${a.id}/empty`);
     expect(emptied.body.container).toMatchObject({ status: 'empty', remaining: 0 });
     expect((await as(assembler).post(`/api/containers/${a.id}/empty`)).body.error.code).toBe('CONTAINER_EMPTY');

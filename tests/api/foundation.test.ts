@@ -11,6 +11,7 @@ import { healthSchema } from '../../shared/schemas/health';
 import { userListSchema } from '../../shared/schemas/users';
 import { db } from '../../server/db/client';
 import { users } from '../../server/db/schema';
+import { permissionsFor } from '../../shared/permissions';
 import { api, listen, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, TEST_PASSWORD } from '../helpers/db';
 
@@ -58,7 +59,10 @@ describe('sign-in', () => {
     const res = await api(app.baseUrl).post('/api/auth/login', { email: quality.email, password: TEST_PASSWORD });
     expect(res.status).toBe(200);
     const body = loginResultSchema.parse(res.body);
-    expect(body.user).toEqual({ id: quality.id, email: quality.email, name: quality.name, roles: ['quality'] });
+    // The contract's {id, email, name, roles}, plus the actions the permission map allows.
+    expect(body.user).toEqual({ id: quality.id, email: quality.email, name: quality.name, roles: ['quality'], permissions: permissionsFor(['quality']) });
+    expect(body.user.permissions).toContain('lots.release');
+    expect(body.user.permissions).not.toContain('lots.receive');
     expect(body.token.split('.')).toHaveLength(3); // RFC 7519 §3: a JWS compact serialisation has three parts
 
     const cookie = sessionCookie(res.headers);
@@ -119,7 +123,12 @@ describe('sessions', () => {
     const receiving = await ensureUser(['receiving']);
     const res = await api(app.baseUrl, receiving.token).get('/api/auth/me');
     expect(res.status).toBe(200);
-    expect(meResultSchema.parse(res.body).user).toMatchObject({ id: receiving.id, roles: ['receiving'] });
+    const user = meResultSchema.parse(res.body).user;
+    expect(user).toMatchObject({ id: receiving.id, roles: ['receiving'] });
+    expect(user.permissions).toEqual(permissionsFor(['receiving']));
+    expect(user.permissions).toContain('lots.receive');
+    expect(user.permissions).not.toContain('containers.empty');
+    expect(user.permissions).not.toContain('lots.readHistory');
   });
 
   it('GET /api/auth/me knows the user by the session cookie from sign-in', async () => {

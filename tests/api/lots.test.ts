@@ -5,7 +5,7 @@ import { auditLog, containers, lots } from '../../server/db/schema';
 import { sqlLotExpiries } from '../../server/services/lots';
 import { lotExpiry } from '../../shared/expiry';
 import { fefoResultSchema } from '../../shared/schemas/containers';
-import { lotDetailSchema, lotHistorySchema, lotPageSchema } from '../../shared/schemas/lots';
+import { lotDetailSchema, lotHistorySchema, lotPageSchema, lotStatusChangesSchema } from '../../shared/schemas/lots';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
 import { fields, newMaterial, newSupplier, receive, uniq } from '../helpers/receiving';
@@ -15,10 +15,11 @@ let admin: TestUser;
 let clerk: TestUser;
 let quality: TestUser;
 let assembler: TestUser;
+let purchasing: TestUser;
 beforeAll(async () => {
   app = await startApp();
-  [admin, clerk, quality, assembler] = await Promise.all([
-    ensureUser(['admin']), ensureUser(['receiving']), ensureUser(['quality']), ensureUser(['assembler']),
+  [admin, clerk, quality, assembler, purchasing] = await Promise.all([
+    ensureUser(['admin']), ensureUser(['receiving']), ensureUser(['quality']), ensureUser(['assembler']), ensureUser(['purchasing']),
   ]);
 });
 afterAll(() => app.close());
@@ -79,19 +80,44 @@ describe('lot status', () => {
     expect(entries.every((e) => e.actorId === quality.id)).toBe(true);
   });
 
-  it('history lists the lot and container entries with names, oldest first', async () => {
+  it('history lists the lot and container entries with names, oldest first, for quality and admin only', async () => {
     const { lot, containers: cs } = await heldLot();
     await as(quality).post(`/api/lots/${lot.id}/status`, { status: 'released' });
     await as(assembler).post(`/api/containers/${cs[0].id}/open`);
     await as(clerk).post(`/api/containers/${cs[1].id}/location`, { location: 'Fridge 2' });
     expect((await as().get(`/api/lots/${lot.id}/history`)).status).toBe(401);
-    const res = await as(assembler).get(`/api/lots/${lot.id}/history`);
-    expect(res.status).toBe(200);
-    const { items } = lotHistorySchema.parse(res.body);
-    expect(items.map((i) => i.action)).toEqual(['lot.receive', 'lot.status', 'container.open', 'container.move']);
-    expect(items.map((i) => i.actorName)).toEqual([clerk.name, quality.name, assembler.name, clerk.name]);
-    expect(items[2]).toMatchObject({ entityType: 'container', containerCode: cs[0].code, before: { status: 'sealed', openedAt: null } });
-    expect(items[3].after).toEqual({ location: 'Fridge 2' });
+    // Names and before/after values are for quality and administrators (lots.readHistory).
+    for (const other of [assembler, clerk, purchasing]) expect((await as(other).get(`/api/lots/${lot.id}/history`)).status).toBe(403);
+    for (const reader of [quality, admin]) {
+      const res = await as(reader).get(`/api/lots/${lot.id}/history`);
+      expect(res.status).toBe(200);
+      const { items } = lotHistorySchema.parse(res.body);
+      expect(items.map((i) => i.action)).toEqual(['lot.receive', 'lot.status', 'container.open', 'container.move']);
+      expect(items.map((i) => i.actorName)).toEqual([clerk.name, quality.name, assembler.name, clerk.name]);
+      expect(items[2]).toMatchObject({ entityType: 'container', containerCode: cs[0].code, before: { status: 'sealed', openedAt: null } });
+      expect(items[3].after).toEqual({ location: 'Fridge 2' });
+    }
+    expect((await as(quality).get('/api/lots/00000000-0000-4000-8000-000000000000/history')).status).toBe(404);
+  });
+
+  it('status changes: every signed-in role sees status, time and reason, no names or records', async () => {
+    const { lot } = await heldLot();
+    await as(quality).post(`/api/lots/${lot.id}/status`, { status: 'released' });
+    await as(quality).post(`/api/lots/${lot.id}/status`, { status: 'quarantined', reason: 'Supplier notice: viscosity drift' });
+    expect((await as().get(`/api/lots/${lot.id}/status-changes`)).status).toBe(401);
+    for (const reader of [assembler, clerk, purchasing, quality, admin]) {
+      const res = await as(reader).get(`/api/lots/${lot.id}/status-changes`);
+      expect(res.status).toBe(200);
+      const { items } = lotStatusChangesSchema.parse(res.body);
+      expect(items.map((i) => [i.from, i.to, i.reason])).toEqual([
+        [null, 'on_hold', null],
+        ['on_hold', 'released', null],
+        ['released', 'quarantined', 'Supplier notice: viscosity drift'],
+      ]);
+      for (const item of res.body.items) expect(Object.keys(item).sort()).toEqual(['at', 'from', 'reason', 'to']);
+      expect(JSON.stringify(res.body)).not.toContain(quality.name);
+    }
+    expect((await as(assembler).get('/api/lots/00000000-0000-4000-8000-000000000000/status-changes')).status).toBe(404);
   });
 });
 

@@ -2,7 +2,9 @@ import { describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import type { Role } from '../../shared/constants';
 import { NAV_ITEMS } from '../../src/navigation';
-import { ROLE_LABELS } from '../../src/roles';
+import { can } from '../../shared/permissions';
+import { roleWord } from '../../shared/words';
+import { actionsOf } from '../../src/router/meta';
 import { freshPagePerTest } from '../helpers/browser';
 
 const baseUrl = inject('baseUrl');
@@ -56,20 +58,21 @@ describe('sign-in', () => {
 
       // Header: who is signed in and with which role.
       await expect.poll(() => page.locator('[data-test="user-name"]').innerText()).toContain(`(${account.role})`);
-      expect(await page.locator('[data-test="user-roles"]').innerText()).toContain(ROLE_LABELS[account.role]);
+      expect(await page.locator('[data-test="user-roles"]').innerText()).toContain(roleWord(account.role));
       expect(await page.locator(`[data-test="role-panel-${account.role}"]`).count()).toBe(1);
 
       // The drawer shows exactly the items this role may use whose routes exist; other roles' items never.
-      const allowed = NAV_ITEMS.filter((item) => !item.roles || item.roles.includes(account.role)).map((i) => i.to);
-      const forbidden = NAV_ITEMS.filter((item) => item.roles && !item.roles.includes(account.role)).map((i) => i.to);
+      const mayUse = (item: (typeof NAV_ITEMS)[number]) => !item.permission || actionsOf(item.permission).some((a) => can([account.role], a));
+      const allowed = NAV_ITEMS.filter(mayUse).map((i) => i.to);
+      const forbidden = NAV_ITEMS.filter((item) => !mayUse(item)).map((i) => i.to);
       const expected = (await registeredRoutes(allowed)).sort();
       expect(expected).toContain('home');
       const shown = await navItemsShown();
       expect(shown).toEqual(expected);
       for (const name of forbidden) expect(shown).not.toContain(name);
 
-      // The safety note is on the home page for people who handle adhesives.
-      const handlesAdhesives = account.role === 'assembler' || account.role === 'receiving';
+      // The safety note is on the home page for people who handle containers of adhesive.
+      const handlesAdhesives = can([account.role], 'containers.handle');
       expect(await page.locator('[data-test="safety-note"]').count()).toBe(handlesAdhesives ? 1 : 0);
 
       await page.locator('[data-test="signout"]').click();

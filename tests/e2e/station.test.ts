@@ -157,7 +157,9 @@ describe('station screen', () => {
     await expectFeedback('refuse', /Refused: wrong material/);
     expect(await page.locator('[data-test="feedback-word"]').innerText()).toBe('REFUSED');
     expect(await page.locator('[data-test="feedback-message"]').innerText()).toMatch(/Wrong material: container .* is Paper cone, 12 in, but step "Magnet assembly" uses/);
-    expect(await page.locator('[data-test="feedback-code"]').innerText()).toContain('WRONG_MATERIAL');
+    // The code is for scripts (data-code), never shown: people read the title and the reason.
+    expect(await page.locator('[data-test="feedback"]').getAttribute('data-code')).toBe('WRONG_MATERIAL');
+    expect(await page.locator('[data-test="feedback"]').innerText()).not.toContain('WRONG_MATERIAL');
     expect(await page.locator('[data-test="loaded-item"]').count()).toBe(1);
     await page.screenshot({ path: '/tmp/station-refuse.png', fullPage: true });
 

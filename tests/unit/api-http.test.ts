@@ -1,6 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { z } from 'zod';
-import { ApiError, apiFetch, onUnauthorized } from '@/api/http';
+import { ApiError, apiFetch, errorText, onUnauthorized } from '@/api/http';
 
 type Call = { url: string; init: RequestInit };
 let calls: Call[] = [];
@@ -91,6 +91,23 @@ describe('apiFetch errors', () => {
       message: 'Lot L-0042 is on hold for inspection.',
       details: [],
     });
+  });
+
+  it('reads a refusal for people as its plain title and the message, never the code', async () => {
+    answer(409, { error: { code: 'LOT_ON_HOLD', message: 'Lot L-0042 is on hold for inspection.' } });
+    const err = await apiFetch('/api/x', { schema: okSchema }).catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(ApiError);
+    expect((err as ApiError).title).toBe('Lot on hold');
+    expect(errorText(err)).toBe('Lot on hold. Lot L-0042 is on hold for inspection.');
+    expect(errorText(err)).not.toContain('LOT_ON_HOLD');
+    expect(errorText(new Error('boom'))).toBe('boom');
+  });
+
+  it('keeps a code this client does not know as serverCode and reads it as a general refusal', async () => {
+    answer(409, { error: { code: 'SOME_NEWER_RULE', message: 'A newer server refused it.' } });
+    const err = (await apiFetch('/api/x', { schema: okSchema }).catch((e: unknown) => e)) as ApiError;
+    expect(err).toMatchObject({ status: 409, code: 'HTTP_ERROR', serverCode: 'SOME_NEWER_RULE' });
+    expect(err.text).toBe('Request refused. A newer server refused it.');
   });
 
   it('tells 401 listeners, and only on 401', async () => {

@@ -1,9 +1,14 @@
 import { describe, expect, it } from 'vitest';
+import { can } from '../../shared/permissions';
+import type { Role } from '../../shared/constants';
 import { containerMenu } from '../../src/components/lots/containerActions';
 import { fieldChanges, valueText } from '../../src/components/lots/historyText';
 
 const sealed = { status: 'sealed' as const, thawedAt: null, outOfStorageSince: null };
-const actions = (...args: Parameters<typeof containerMenu>) => containerMenu(...args).map((i) => i.action);
+type MenuArgs = Parameters<typeof containerMenu>;
+/** The menu for someone holding `roles`, asking the one permission map as the session does. */
+const actions = (c: MenuArgs[0], storageClass: MenuArgs[1], roles: Role[], lotStatus?: MenuArgs[3]) =>
+  containerMenu(c, storageClass, (action) => can(roles, action), lotStatus).map((i) => i.action);
 
 describe('container actions offered', () => {
   it('offers opening only for a released lot (on hold and quarantined lots are blocked: ISO 9001 §8.5.2 inspection status)', () => {
@@ -24,7 +29,10 @@ describe('container actions offered', () => {
     expect(actions(sealed, 'ambient', ['quality'])).not.toContain('out-of-storage');
   });
 
-  it('follows the roles of the container routes: purchasing only looks, scrapping is for quality and receiving', () => {
+  it('follows the permission map: purchasing only looks, scrapping is for quality and receiving, emptying is not for receiving', () => {
+    expect(actions(sealed, 'ambient', ['receiving'])).not.toContain('empty');
+    expect(actions(sealed, 'ambient', ['assembler'])).toContain('empty');
+    expect(actions(sealed, 'ambient', ['receiving'])).toContain('scrap');
     expect(actions(sealed, 'ambient', ['purchasing'])).toEqual([]);
     expect(actions(sealed, 'ambient', ['assembler'])).not.toContain('scrap');
     expect(actions(sealed, 'ambient', ['admin'])).toEqual(['reprint']);

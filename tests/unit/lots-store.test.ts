@@ -11,6 +11,7 @@ vi.mock('@/api/lots', () => ({
   listLots: unexpected('listLots'),
   getLot: unexpected('getLot'),
   lotHistory: unexpected('lotHistory'),
+  lotStatusChanges: unexpected('lotStatusChanges'),
   receiveLot: unexpected('receiveLot'),
   changeLotStatus: unexpected('changeLotStatus'),
   uploadCertificate: unexpected('uploadCertificate'),
@@ -144,9 +145,20 @@ describe('lots store: one lot', () => {
       { id: 1, at: T, actorId: null, actorName: 'Receiving clerk', action: 'lot.received', entityType: 'lot', entityId: LOT_ID, containerCode: null, before: null, after: { status: 'on_hold' }, reason: null },
     ]);
     const store = useLotsStore();
-    await store.refreshLot(LOT_ID);
+    await store.refreshLot(LOT_ID, true);
     expect(store.histories[LOT_ID]).toHaveLength(1);
     expect(lotsApi.getLot).toHaveBeenCalledTimes(1);
+    expect(lotsApi.lotStatusChanges).not.toHaveBeenCalled();
+  });
+
+  it('refreshes only the status changes for someone who may not read the full history', async () => {
+    vi.mocked(lotsApi.getLot).mockResolvedValue(detail);
+    vi.mocked(lotsApi.lotStatusChanges).mockResolvedValueOnce([{ at: T, from: null, to: 'on_hold', reason: null }]);
+    const store = useLotsStore();
+    await store.refreshLot(LOT_ID, false);
+    expect(store.statusChanges[LOT_ID]).toEqual([{ at: T, from: null, to: 'on_hold', reason: null }]);
+    expect(store.histories[LOT_ID]).toBeUndefined();
+    expect(lotsApi.lotHistory).not.toHaveBeenCalled();
   });
 
   it('keeps the last receipt and the certificate uploaded for it', async () => {

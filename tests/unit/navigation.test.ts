@@ -1,32 +1,36 @@
 import { describe, expect, it } from 'vitest';
 import { ROLES, type Role } from '../../shared/constants';
+import { can, type Action } from '../../shared/permissions';
 import { NAV_GROUPS, NAV_ITEMS, groupNavItems, visibleNavItems, type NavItem } from '@/navigation';
 import { safeRedirect } from '@/router/redirect';
 
 const everyRoute = () => true;
+/** `can` as the session answers it for someone holding `roles` (from the one permission map). */
+const canAs = (roles: Role[]) => (...actions: Action[]) => actions.some((a) => can(roles, a));
 const labelsFor = (roles: Role[], exists: (name: string) => boolean = everyRoute) =>
-  visibleNavItems(roles, exists).map((item) => item.label);
+  visibleNavItems(canAs(roles), exists).map((item) => item.label);
 
 const FIXTURE: NavItem[] = [
   { to: 'home', label: 'Home', icon: 'home', group: 'start' },
-  { to: 'station.work', label: 'Station', icon: 'x', group: 'floor', roles: ['assembler'] },
-  { to: 'batches.list', label: 'Batches', icon: 'x', group: 'floor', roles: ['assembler', 'quality'] },
+  { to: 'station.work', label: 'Station', icon: 'x', group: 'floor', permission: 'steps.run' },
+  { to: 'batches.list', label: 'Batches', icon: 'x', group: 'floor', permission: 'batches.create' },
+  { to: 'cure.board', label: 'Cure', icon: 'x', group: 'floor', permission: ['steps.run', 'deviations.record'] },
   { to: 'lots.list', label: 'Lots', icon: 'x', group: 'oversight' },
-  { to: 'users.list', label: 'Users', icon: 'x', group: 'admin', roles: ['admin'] },
+  { to: 'users.list', label: 'Users', icon: 'x', group: 'admin', permission: 'users.manage' },
 ];
 const fixtureLabels = (roles: Role[], exists: (name: string) => boolean = everyRoute) =>
-  visibleNavItems(roles, exists, FIXTURE).map((item) => item.label);
+  visibleNavItems(canAs(roles), exists, FIXTURE).map((item) => item.label);
 
 describe('visibleNavItems', () => {
   it('keeps items open to everyone and those of a role the user holds, in order', () => {
-    expect(fixtureLabels(['assembler'])).toEqual(['Home', 'Station', 'Batches', 'Lots']);
-    expect(fixtureLabels(['quality'])).toEqual(['Home', 'Batches', 'Lots']);
+    expect(fixtureLabels(['assembler'])).toEqual(['Home', 'Station', 'Batches', 'Cure', 'Lots']);
+    expect(fixtureLabels(['quality'])).toEqual(['Home', 'Batches', 'Cure', 'Lots']);
     expect(fixtureLabels(['admin'])).toEqual(['Home', 'Lots', 'Users']);
     expect(fixtureLabels([])).toEqual(['Home', 'Lots']);
   });
 
   it('joins the menus of a person holding several roles, each item once', () => {
-    expect(fixtureLabels(['assembler', 'quality', 'admin'])).toEqual(['Home', 'Station', 'Batches', 'Lots', 'Users']);
+    expect(fixtureLabels(['assembler', 'quality', 'admin'])).toEqual(['Home', 'Station', 'Batches', 'Cure', 'Lots', 'Users']);
   });
 
   it('shows only items whose route is registered', () => {
@@ -36,9 +40,9 @@ describe('visibleNavItems', () => {
   });
 
   it('groups items in drawer order and leaves empty groups out', () => {
-    const grouped = groupNavItems(visibleNavItems(['quality'], everyRoute, FIXTURE));
+    const grouped = groupNavItems(visibleNavItems(canAs(['quality']), everyRoute, FIXTURE));
     expect(grouped.map((entry) => entry.group.id)).toEqual(['start', 'floor', 'oversight']);
-    expect(grouped[1].items.map((item) => item.label)).toEqual(['Batches']);
+    expect(grouped[1].items.map((item) => item.label)).toEqual(['Batches', 'Cure']);
   });
 });
 

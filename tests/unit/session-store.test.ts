@@ -1,7 +1,8 @@
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { createPinia, setActivePinia } from 'pinia';
 import { z } from 'zod';
-import type { User } from '../../shared/schemas/auth';
+import type { SessionUser } from '../../shared/schemas/auth';
+import { permissionsFor } from '../../shared/permissions';
 import * as authApi from '@/api/auth';
 import { ApiError, apiFetch } from '@/api/http';
 import { useSessionStore } from '@/stores/session';
@@ -10,11 +11,12 @@ import { useSessionStore } from '@/stores/session';
 vi.mock('@/api/auth', () => ({ login: vi.fn(), logout: vi.fn(), me: vi.fn() }));
 const api = vi.mocked(authApi);
 
-const quality: User = {
+const quality: SessionUser = {
   id: '3f0b8c1e-6a57-4c4e-9d0e-2b7f6f4f8a11',
   email: 'quality@tacklog.test',
   name: 'Tomas Ferreira (quality)',
   roles: ['quality'],
+  permissions: permissionsFor(['quality']),
 };
 const notSignedIn = () => new ApiError(401, 'NOT_SIGNED_IN', 'Sign in to continue.');
 
@@ -52,7 +54,7 @@ afterEach(() => {
 
 describe('load', () => {
   it('asks the server once, sharing one in-flight request between callers', async () => {
-    const pending = deferred<User>();
+    const pending = deferred<SessionUser>();
     api.me.mockReturnValueOnce(pending.promise);
     const session = useSessionStore();
 
@@ -122,7 +124,7 @@ describe('signIn and signOut', () => {
     expect(api.logout).toHaveBeenCalledTimes(1);
     expect(session.user).toBeNull();
     expect(session.roles).toEqual([]);
-    expect(session.hasRole('quality')).toBe(false);
+    expect(session.can('lots.release')).toBe(false);
   });
 
   it('counts a sign-out of an already ended session as signed out', async () => {
@@ -144,20 +146,29 @@ describe('signIn and signOut', () => {
   });
 });
 
-describe('roles', () => {
-  it('hasRole is true when the user holds any of the roles asked for', async () => {
-    api.login.mockResolvedValueOnce({ token: 'opaque', user: { ...quality, roles: ['quality', 'purchasing'] } });
+describe('permissions', () => {
+  it('can() answers from the permissions the server sent, any of several actions, false when signed out', async () => {
+    // What the server sends for someone holding quality and purchasing (the one permission map).
+    api.login.mockResolvedValueOnce({ token: 'opaque', user: { ...quality, roles: ['quality', 'purchasing'], permissions: permissionsFor(['quality', 'purchasing']) } });
     const session = useSessionStore();
-    expect(session.hasRole('quality')).toBe(false);
-    expect(session.hasRole()).toBe(false);
+    expect(session.can('lots.release')).toBe(false);
 
     await session.signIn('quality@tacklog.test', 'tacklog-demo');
-    expect(session.hasRole('quality')).toBe(true);
-    expect(session.hasRole('purchasing')).toBe(true);
-    expect(session.hasRole('admin')).toBe(false);
-    expect(session.hasRole('admin', 'receiving')).toBe(false);
-    expect(session.hasRole('admin', 'purchasing')).toBe(true);
-    expect(session.hasRole()).toBe(true);
+    expect(session.can('lots.release')).toBe(true);
+    expect(session.can('suppliers.edit')).toBe(true);
+    expect(session.can('lots.receive')).toBe(false);
+    expect(session.can('users.manage')).toBe(false);
+    expect(session.can('users.manage', 'lots.receive')).toBe(false);
+    expect(session.can('users.manage', 'suppliers.edit')).toBe(true);
+    expect(session.can()).toBe(false);
+  });
+
+  it('trusts the server\'s list, not the roles: an action the server did not send is refused', async () => {
+    api.me.mockResolvedValueOnce({ ...quality, roles: ['admin'], permissions: ['lots.readHistory'] });
+    const session = useSessionStore();
+    await session.load();
+    expect(session.can('lots.readHistory')).toBe(true);
+    expect(session.can('users.manage')).toBe(false);
   });
 
   it('exposes the user read-only', async () => {
@@ -165,7 +176,7 @@ describe('roles', () => {
     const session = useSessionStore();
     await session.signIn('quality@tacklog.test', 'tacklog-demo');
     const warn = vi.spyOn(console, 'warn').mockImplementation(() => undefined);
-    (session as unknown as { user: User | null }).user = null;
+    (session as unknown as { user: SessionUser | null }).user = null;
     warn.mockRestore();
     expect(session.user).toEqual(quality);
   });

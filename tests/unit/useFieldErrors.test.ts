@@ -89,8 +89,9 @@ describe('useFieldErrors with the shared schemas', () => {
 
   it('shows a refusal without fields (409, network) as the form\'s message', () => {
     const form = useFieldErrors(['supplierLot']);
-    form.fromApiError(new ApiError(409, 'GTIN_MISMATCH', 'The scanned GTIN belongs to another material.'));
-    expect(form.formError.value).toBe('The scanned GTIN belongs to another material.');
+    form.fromApiError(new ApiError(409, 'DUPLICATE_LOT', 'Lot L-9 of this material was received on 2026-03-01.'));
+    // The catalogue's plain title, then the server's message; never the code.
+    expect(form.formError.value).toBe('Supplier lot already received. Lot L-9 of this material was received on 2026-03-01.');
     expect(form.fromApiError(new Error('boom'))).toBe(false);
   });
 

@@ -32,7 +32,8 @@ describe('useTrace', () => {
     expect(missing.error.value).toBe('No driver has the serial "X".');
     const down = useTrace(() => 'X', () => Promise.reject(new ApiError(0, 'NETWORK', 'The server could not be reached.')), () => 'missing');
     await settle();
-    expect(down.error.value).toBe('The trace could not be read: The server could not be reached.');
+    // The refusal's plain title, then the message (src/api/http.ts errorText).
+    expect(down.error.value).toBe('The trace could not be read: Server not reachable. The server could not be reached.');
     expect(down.loading.value).toBe(false);
   });
 });

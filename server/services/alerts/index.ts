@@ -3,7 +3,8 @@ import { db } from '../../db/client';
 import { alerts } from '../../db/schema';
 import { conflict, notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { hasRole, requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
+import { can } from '../../../shared/permissions';
 import { recordAudit } from '../audit';
 import type { Alert, AlertListQuery } from '../../../shared/schemas/alerts';
 
@@ -24,7 +25,7 @@ export async function listAlerts(actor: Actor, query: AlertListQuery): Promise<{
   if (query.state === 'live') filters.push(ne(alerts.state, 'resolved'));
   else if (query.state) filters.push(eq(alerts.state, query.state));
   if (query.kind) filters.push(eq(alerts.kind, query.kind));
-  if (!hasRole(actor, 'admin')) filters.push(arrayOverlaps(alerts.audience, actor.roles));
+  if (!can(actor.roles, 'alerts.readAll')) filters.push(arrayOverlaps(alerts.audience, actor.roles));
   const where = filters.length ? and(...filters) : undefined;
   const [rows, [{ n }]] = await Promise.all([
     db.select().from(alerts).where(where).orderBy(desc(alerts.raisedAt), alerts.id).limit(query.limit).offset(query.offset),
@@ -37,7 +38,7 @@ async function changeState(actor: Actor, id: string, to: 'acknowledged' | 'resol
   return db.transaction(async (tx) => {
     const [row] = await tx.select().from(alerts).where(eq(alerts.id, id)).for('update');
     if (!row) throw notFound('That alert');
-    if (!hasRole(actor, 'admin') && !row.audience.some((r) => actor.roles.includes(r))) throw notFound('That alert');
+    if (!can(actor.roles, 'alerts.readAll') && !row.audience.some((r) => actor.roles.includes(r))) throw notFound('That alert');
     if (row.state === 'resolved') throw conflict('ALERT_RESOLVED', 'This alert is already resolved.');
     if (to === 'acknowledged' && row.state === 'acknowledged') throw conflict('ALERT_ACKNOWLEDGED', 'This alert is already acknowledged.');
     const now = new Date();
@@ -55,11 +56,11 @@ async function changeState(actor: Actor, id: string, to: 'acknowledged' | 'resol
 }
 
 export function acknowledgeAlert(actor: Actor, id: string): Promise<Alert> {
-  requireRole(actor, 'admin', 'quality', 'purchasing', 'receiving', 'assembler');
+  requirePermission(actor, 'alerts.acknowledge');
   return changeState(actor, id, 'acknowledged');
 }
 
 export function resolveAlert(actor: Actor, id: string, resolution: string): Promise<Alert> {
-  requireRole(actor, 'admin', 'quality', 'purchasing');
+  requirePermission(actor, 'alerts.resolve');
   return changeState(actor, id, 'resolved', resolution);
 }

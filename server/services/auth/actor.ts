@@ -1,5 +1,6 @@
 import type { Role } from '../../../shared/constants';
-import { can, type Action } from '../../../shared/permissions';
+import { can, rolesFor, type Action } from '../../../shared/permissions';
+import { roleWords } from '../../../shared/words';
 import { forbidden } from '../../errors';
 
 /** The signed-in person a request acts for. */
@@ -10,18 +11,16 @@ export interface Actor {
   roles: Role[];
 }
 
-export function hasRole(actor: Actor, ...roles: Role[]): boolean {
-  return roles.some((r) => actor.roles.includes(r));
+/** The refusal for someone whose roles do not allow `action`, naming the roles that would. */
+export function forbiddenFor(action: Action) {
+  const roles = rolesFor(action);
+  return forbidden(`Your role does not allow this; it needs ${roles.length === 1 ? 'the role' : 'one of the roles'} ${roleWords(roles)}.`);
 }
 
-/** First line of every service operation that needs a role. */
-export function requireRole(actor: Actor, ...roles: Role[]): void {
-  if (!hasRole(actor, ...roles)) {
-    throw forbidden(`This needs one of the roles: ${roles.join(', ')}.`);
-  }
-}
-
-/** First line of every service operation that needs a permission from the one map. */
+/**
+ * First line of every service operation that needs a permission: the action comes from the
+ * one permission map (`shared/permissions.ts`), never a list of roles written here.
+ */
 export function requirePermission(actor: Actor, action: Action): void {
-  if (!can(actor.roles, action)) throw forbidden();
+  if (!can(actor.roles, action)) throw forbiddenFor(action);
 }

@@ -4,7 +4,7 @@ import { db } from '../../db/client';
 import { buildBatches, driverModels, drivers, recipeSteps } from '../../db/schema';
 import { conflict } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { findModelRow } from '../models';
 import type { BatchCreated, BatchInput } from '../../../shared/schemas/batches';
@@ -18,7 +18,7 @@ export function serialFor(batchCode: string, unit: number): string {
 
 /** Opens a build batch of one model and numbers its drivers. */
 export async function createBatch(actor: Actor, input: BatchInput, now: Date = new Date()): Promise<BatchCreated> {
-  requireRole(actor, 'assembler', 'quality');
+  requirePermission(actor, 'batches.create');
   return db.transaction(async (tx) => {
     const model = await findModelRow(tx, input.modelId);
     if (!model.active) {

@@ -4,7 +4,7 @@ import { materials } from '../../db/schema';
 import { badRequest, conflict } from '../../errors';
 import { zodIssues } from '../../middleware/errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import {
   materialInputSchema, type Material, type MaterialPatch, type MaterialValues,
@@ -58,7 +58,7 @@ async function checkUnique(tx: Tx, v: MaterialValues, exceptId: string | null): 
 }
 
 export async function createMaterial(actor: Actor, input: MaterialValues): Promise<Material> {
-  requireRole(actor, 'admin');
+  requirePermission(actor, 'materials.edit');
   return db.transaction(async (tx) => {
     await checkUnique(tx, input, null);
     await checkPartner(tx, null, input.kind, input.partnerMaterialId ?? null, true);
@@ -77,7 +77,7 @@ function editableFields(m: Material): Record<string, unknown> {
 }
 
 export async function updateMaterial(actor: Actor, id: string, patch: MaterialPatch & { active?: boolean }): Promise<Material> {
-  requireRole(actor, 'admin');
+  requirePermission(actor, 'materials.edit');
   return db.transaction(async (tx) => {
     const row = await findMaterial(tx, id, true);
     const before = toMaterial(row);
@@ -108,7 +108,7 @@ export async function updateMaterial(actor: Actor, id: string, patch: MaterialPa
 
 /** Retired materials stay in the records but cannot receive new lots. */
 export async function retireMaterial(actor: Actor, id: string): Promise<Material> {
-  requireRole(actor, 'admin');
+  requirePermission(actor, 'materials.edit');
   return db.transaction(async (tx) => {
     const row: MaterialRow = await findMaterial(tx, id, true);
     if (!row.active) return toMaterial(row);

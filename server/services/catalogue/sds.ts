@@ -2,7 +2,7 @@ import { eq } from 'drizzle-orm';
 import { db } from '../../db/client';
 import { materials } from '../../db/schema';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { checkUpload, insertAttachment, withStoredFile, type UploadedFile } from '../attachments';
 import { toAttachment } from '../lots/present';
@@ -12,7 +12,7 @@ import type { Material } from '../../../shared/schemas/materials';
 
 /** Stores a material's safety data sheet; the previous one stays in the records. */
 export async function attachSds(actor: Actor, materialId: string, file: UploadedFile | undefined): Promise<{ attachment: Attachment; material: Material }> {
-  requireRole(actor, 'admin');
+  requirePermission(actor, 'materials.edit');
   const type = checkUpload(file);
   await findMaterial(db, materialId); // 404 before anything is written
   const upload = file as UploadedFile;

@@ -3,7 +3,7 @@ import { db, type DbOrTx, type Tx } from '../../db/client';
 import { suppliers } from '../../db/schema';
 import { conflict, notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import type { Supplier, SupplierPatch, SupplierValues } from '../../../shared/schemas/suppliers';
 
@@ -66,7 +66,7 @@ async function deriveCode(tx: Tx, name: string): Promise<string> {
 }
 
 export async function createSupplier(actor: Actor, input: SupplierValues): Promise<Supplier> {
-  requireRole(actor, 'admin', 'purchasing');
+  requirePermission(actor, 'suppliers.edit');
   return db.transaction(async (tx) => {
     await checkUnique(tx, input.name, input.code, null);
     const code = input.code ?? (await deriveCode(tx, input.name));
@@ -86,7 +86,7 @@ export async function createSupplier(actor: Actor, input: SupplierValues): Promi
 }
 
 export async function updateSupplier(actor: Actor, id: string, patch: SupplierPatch & { active?: boolean }): Promise<Supplier> {
-  requireRole(actor, 'admin', 'purchasing');
+  requirePermission(actor, 'suppliers.edit');
   return db.transaction(async (tx) => {
     const row = await findSupplier(tx, id, true);
     const changes = Object.fromEntries(Object.entries(patch).filter(([, v]) => v !== undefined)) as Partial<SupplierRow>;
@@ -101,7 +101,7 @@ export async function updateSupplier(actor: Actor, id: string, patch: SupplierPa
 
 /** Retired suppliers stay in the records but new lots cannot be received from them. */
 export async function retireSupplier(actor: Actor, id: string): Promise<Supplier> {
-  requireRole(actor, 'admin', 'purchasing');
+  requirePermission(actor, 'suppliers.edit');
   return db.transaction(async (tx) => {
     const row = await findSupplier(tx, id, true);
     if (!row.active) return toSupplier(row);

@@ -2,7 +2,7 @@ import { and, arrayOverlaps, eq, ne, sql } from 'drizzle-orm';
 import { db, type Tx } from '../../db/client';
 import { alerts, outgoingEmails, users } from '../../db/schema';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import type { ComplianceRunResult } from '../../../shared/schemas/alerts';
 import { ALL_CHECKS, type Finding } from './findings';
@@ -84,6 +84,6 @@ export async function sweep(now = new Date()): Promise<ComplianceRunResult> {
 
 /** POST /api/compliance/run: a person asks for a sweep now. */
 export function runComplianceNow(actor: Actor): Promise<ComplianceRunResult> {
-  requireRole(actor, 'admin', 'quality');
+  requirePermission(actor, 'compliance.run');
   return sweep();
 }

@@ -1,6 +1,7 @@
 import { conflict } from '../../errors';
+import type { RefusalCode } from '../../../shared/refusals';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { isExpired } from '../../../shared/expiry';
 import type { ContainerResult } from '../../../shared/schemas/containers';
 import { containerExpiryOf, type LotRow, type MaterialRow } from '../lots/present';
@@ -21,7 +22,7 @@ function when(d: string): string {
 /** Only a released lot may be opened (LOT_ON_HOLD, LOT_QUARANTINED, LOT_REJECTED, LOT_USED_UP otherwise). */
 function checkReleased(lot: LotRow, material: MaterialRow): void {
   const name = `${material.name} lot ${lot.supplierLot}`;
-  const refusals: Record<string, [string, string]> = {
+  const refusals: Record<string, [RefusalCode, string]> = {
     on_hold: ['LOT_ON_HOLD', `${name} is on hold awaiting incoming inspection; ask quality to release it before opening a container.`],
     quarantined: ['LOT_QUARANTINED', `${name} is quarantined by quality; do not open it.`],
     rejected: ['LOT_REJECTED', `${name} was rejected by quality; do not open it.`],
@@ -33,7 +34,7 @@ function checkReleased(lot: LotRow, material: MaterialRow): void {
 
 /** Opens a sealed container: its after-opening life starts now. */
 export async function openContainer(actor: Actor, id: string): Promise<ContainerResult> {
-  requireRole(actor, 'receiving', 'assembler', 'quality');
+  requirePermission(actor, 'containers.handle');
   return applyContainerAction(actor, id, 'open', (ctx, now) => {
     const { container: c, lot, material } = ctx;
     checkInUse(ctx);
@@ -55,7 +56,7 @@ export async function openContainer(actor: Actor, id: string): Promise<Container
 }
 
 export async function moveContainer(actor: Actor, id: string, location: string): Promise<ContainerResult> {
-  requireRole(actor, 'receiving', 'assembler', 'quality');
+  requirePermission(actor, 'containers.handle');
   return applyContainerAction(actor, id, 'move', (ctx) => {
     checkInUse(ctx);
     return { set: { location } };
@@ -64,7 +65,7 @@ export async function moveContainer(actor: Actor, id: string, location: string):
 
 /** Records a container as used to the end. */
 export async function emptyContainer(actor: Actor, id: string): Promise<ContainerResult> {
-  requireRole(actor, 'receiving', 'assembler', 'quality');
+  requirePermission(actor, 'containers.empty');
   return applyContainerAction(actor, id, 'empty', (ctx, now) => {
     checkInUse(ctx);
     return { set: { status: 'empty', remaining: '0', ...closeOutOfStorage(ctx.container, now) } };
@@ -73,7 +74,7 @@ export async function emptyContainer(actor: Actor, id: string): Promise<Containe
 
 /** Takes a container out of use for a reason (damaged, expired, contaminated …); what was left stays recorded. */
 export async function scrapContainer(actor: Actor, id: string, reason: string): Promise<ContainerResult> {
-  requireRole(actor, 'quality', 'receiving');
+  requirePermission(actor, 'containers.scrap');
   return applyContainerAction(actor, id, 'scrap', (ctx, now) => {
     checkInUse(ctx);
     return { set: { status: 'scrapped', ...closeOutOfStorage(ctx.container, now) }, reason };

@@ -1,12 +1,12 @@
 import { conflict } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import type { ContainerResult } from '../../../shared/schemas/containers';
 import { applyContainerAction, checkInUse, closeOutOfStorage } from './apply';
 
 /** Frozen material: records the end of the thaw; its thawed life starts now. */
 export async function thawContainer(actor: Actor, id: string): Promise<ContainerResult> {
-  requireRole(actor, 'receiving', 'assembler', 'quality');
+  requirePermission(actor, 'containers.handle');
   return applyContainerAction(actor, id, 'thaw', (ctx, now) => {
     const { container: c, material } = ctx;
     if (material.storageClass !== 'frozen') {
@@ -26,7 +26,7 @@ function checkRefrigerated(ctx: Parameters<typeof checkInUse>[0]): void {
 
 /** Refrigerated material: the container leaves cold storage; the time out counts against its allowance. */
 export async function takeOutOfStorage(actor: Actor, id: string): Promise<ContainerResult> {
-  requireRole(actor, 'receiving', 'assembler', 'quality');
+  requirePermission(actor, 'containers.handle');
   return applyContainerAction(actor, id, 'out_of_storage', (ctx, now) => {
     checkRefrigerated(ctx);
     checkInUse(ctx);
@@ -40,7 +40,7 @@ export async function takeOutOfStorage(actor: Actor, id: string): Promise<Contai
 
 /** Refrigerated material: back in cold storage; the minutes out (rounded up) are added to its total. */
 export async function returnToStorage(actor: Actor, id: string): Promise<ContainerResult> {
-  requireRole(actor, 'receiving', 'assembler', 'quality');
+  requirePermission(actor, 'containers.handle');
   return applyContainerAction(actor, id, 'return_to_storage', (ctx, now) => {
     checkRefrigerated(ctx);
     checkInUse(ctx);

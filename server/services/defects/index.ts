@@ -2,7 +2,7 @@ import { asc, eq } from 'drizzle-orm';
 import { db } from '../../db/client';
 import { defectCodes } from '../../db/schema';
 import { conflict, notFound } from '../../errors';
-import { requireRole, type Actor } from '../auth/actor';
+import { requirePermission, type Actor } from '../auth/actor';
 import { recordAudit } from '../audit';
 import type { DefectCode, DefectCodeCreate, DefectCodeListQuery, DefectCodeUpdate } from '../../../shared/schemas/defects';
 
@@ -20,7 +20,7 @@ export async function listDefectCodes(query: DefectCodeListQuery): Promise<{ ite
 }
 
 export async function createDefectCode(actor: Actor, input: DefectCodeCreate): Promise<DefectCode> {
-  requireRole(actor, 'quality', 'admin');
+  requirePermission(actor, 'defects.edit');
   return db.transaction(async (tx) => {
     const inserted = await tx.insert(defectCodes).values(input).onConflictDoNothing().returning();
     const row = inserted[0];
@@ -31,7 +31,7 @@ export async function createDefectCode(actor: Actor, input: DefectCodeCreate): P
 }
 
 export async function updateDefectCode(actor: Actor, code: string, input: DefectCodeUpdate): Promise<DefectCode> {
-  requireRole(actor, 'quality', 'admin');
+  requirePermission(actor, 'defects.edit');
   return db.transaction(async (tx) => {
     const [before] = await tx.select().from(defectCodes).where(eq(defectCodes.code, code)).for('update');
     if (!before) throw notFound(`Defect code ${code}`);

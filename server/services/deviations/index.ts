@@ -3,7 +3,7 @@ import { db } from '../../db/client';
 import { deviations, users } from '../../db/schema';
 import { AppError } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { findBatch } from '../batches/read';
 import { loadSteps } from '../models';
@@ -31,7 +31,7 @@ function toDeviation(r: Row, signedByName: string): Deviation {
  * step of a batch start before the previous step's cure is complete. Used by the next start.
  */
 export async function recordDeviation(actor: Actor, input: DeviationInput, now: Date = new Date()): Promise<{ deviation: Deviation }> {
-  requireRole(actor, 'quality');
+  requirePermission(actor, 'deviations.record');
   return db.transaction(async (tx) => {
     const { row: batch } = await findBatch(tx, input.batchId);
     const steps = (await loadSteps(tx, [batch.modelId])).get(batch.modelId) ?? [];

@@ -2,7 +2,7 @@ import { eq } from 'drizzle-orm';
 import { db } from '../../db/client';
 import { drivers } from '../../db/schema';
 import { conflict, notFound } from '../../errors';
-import { requireRole, type Actor } from '../auth/actor';
+import { requirePermission, type Actor } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { finishStep, startStep } from '../steps';
 import type { DriverStatus } from '../../../shared/constants';
@@ -27,7 +27,7 @@ async function reworkableDriver(serial: string) {
 
 /** POST /api/drivers/:serial/rework/start — a single-unit run of one recipe step (steps module, kind 'rework'). */
 export async function startRework(actor: Actor, serial: string, input: ReworkInput): Promise<ReworkResult> {
-  requireRole(actor, 'assembler');
+  requirePermission(actor, 'drivers.rework');
   const driver = await reworkableDriver(serial);
   const { stepRun } = await startStep(actor, { batchId: driver.batchId, stepId: input.stepId, stationId: input.stationId, serial });
   return { driver: toDriver(driver), stepRun };
@@ -38,7 +38,7 @@ export async function startRework(actor: Actor, serial: string, input: ReworkInp
  * steps module's) and marks the driver reworked; it goes back to final test.
  */
 export async function finishRework(actor: Actor, serial: string, input: ReworkInput): Promise<ReworkResult> {
-  requireRole(actor, 'assembler');
+  requirePermission(actor, 'drivers.rework');
   const current = await reworkableDriver(serial);
   // The finish (a savepoint inside this transaction) and the status change commit together.
   return db.transaction(async (tx) => {

@@ -2,14 +2,14 @@ import { and, eq, isNull } from 'drizzle-orm';
 import { db } from '../../db/client';
 import { drivers, stepRuns } from '../../db/schema';
 import { conflict, notFound } from '../../errors';
-import { requireRole, type Actor } from '../auth/actor';
+import { requirePermission, type Actor } from '../auth/actor';
 import { recordAudit } from '../audit';
 import type { DriverResult, ScrapInput } from '../../../shared/schemas/drivers';
 import { toDriver } from './lookup';
 
 /** POST /api/drivers/:serial/scrap (quality): the unit is taken out for good, with the reason. */
 export async function scrapDriver(actor: Actor, serial: string, input: ScrapInput): Promise<DriverResult> {
-  requireRole(actor, 'quality');
+  requirePermission(actor, 'drivers.scrap');
   return db.transaction(async (tx) => {
     const [driver] = await tx.select().from(drivers).where(eq(drivers.serial, serial)).for('update');
     if (!driver) throw notFound(`Driver ${serial}`);

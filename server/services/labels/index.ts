@@ -3,7 +3,7 @@ import { db } from '../../db/client';
 import { containers, lots, materials, suppliers } from '../../db/schema';
 import { AppError, fieldError, notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import type { LabelLayout, LabelRenderQuery } from '../../../shared/schemas/labels';
 import { PLANT_ZONE, containerExpiryOf } from '../lots/present';
 import { findLayout, labelLayouts } from './templates';
@@ -50,7 +50,7 @@ async function labelData(where: { lotId?: string; containerIds?: string[] }): Pr
 
 /** GET /api/labels/render: print-ready HTML for a lot's containers or for chosen containers. */
 export async function renderLabels(actor: Actor, query: LabelRenderQuery): Promise<string> {
-  requireRole(actor, 'receiving', 'quality', 'admin');
+  requirePermission(actor, 'labels.print');
   const layout = findLayout(query.layout);
   if (!layout) throw fieldError('query.layout', `is not a known layout; use one of: ${labelLayouts().map((l) => l.id).join(', ')}`);
   const perPage = layout.grid.cols * layout.grid.rows;

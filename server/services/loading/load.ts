@@ -3,7 +3,7 @@ import { db, type Tx } from '../../db/client';
 import { containers, drivers, materials, stationLoads, stepRunMaterials, stepRuns } from '../../db/schema';
 import { AppError, conflict } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { findStation } from '../stations';
 import { findBatch } from '../batches/read';
@@ -78,7 +78,7 @@ async function checkMaterialForStep(tx: Tx, step: RecipeStep, scanned: MaterialR
  * a sealed container (its after-opening life starts now) and records the load.
  */
 export async function loadAtStation(actor: Actor, stationId: string, input: LoadInput, now: Date = new Date()): Promise<LoadResult> {
-  requireRole(actor, 'assembler');
+  requirePermission(actor, 'stations.load');
   return db.transaction(async (tx) => {
     const station = await findStation(tx, stationId);
     if (!station.active) {

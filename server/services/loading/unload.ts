@@ -3,7 +3,7 @@ import { db } from '../../db/client';
 import { containers, mixes, stationLoads } from '../../db/schema';
 import { AppError } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { auditUnloads } from './unload-audit';
 import { findStation } from '../stations';
 import type { UnloadInput, UnloadResult } from '../../../shared/schemas/station-loads';
@@ -11,7 +11,7 @@ import { scannedContainerCode } from './context';
 
 /** POST /api/stations/:id/unload — takes a container or mix off the station (the load record stays). */
 export async function unloadAtStation(actor: Actor, stationId: string, input: UnloadInput, now: Date = new Date()): Promise<UnloadResult> {
-  requireRole(actor, 'assembler');
+  requirePermission(actor, 'stations.load');
   return db.transaction(async (tx) => {
     const station = await findStation(tx, stationId);
     let target;

@@ -3,7 +3,7 @@ import { db } from '../../db/client';
 import { lots, materials } from '../../db/schema';
 import { conflict, fieldError, notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { LOT_TRANSITIONS, type Lot } from '../../../shared/schemas/lots';
 import { toLot } from './present';
@@ -18,7 +18,7 @@ export async function changeLotStatus(
   id: string,
   input: { status: 'released' | 'quarantined' | 'rejected'; reason: string | null },
 ): Promise<{ lot: Lot }> {
-  requireRole(actor, 'quality');
+  requirePermission(actor, 'lots.release');
   return db.transaction(async (tx) => {
     const [lot] = await tx.select().from(lots).where(eq(lots.id, id)).for('update');
     if (!lot) throw notFound('The lot');

@@ -4,7 +4,7 @@ import { db, type Tx } from '../../db/client';
 import { containers, mixes } from '../../db/schema';
 import { conflict } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { findStation } from '../stations';
 import { checkContainerUsable, containerByCode, containersByIds, type ContainerContext } from '../loading';
@@ -65,7 +65,7 @@ async function drawPart(tx: Tx, actor: Actor, c: ContainerContext, qty: number, 
  * the area's temperature (the latest recent reading, else the reference temperature).
  */
 export async function createMix(actor: Actor, stationId: string, input: MixInput, now: Date = new Date()): Promise<MixResult> {
-  requireRole(actor, 'assembler');
+  requirePermission(actor, 'mixes.create');
   return db.transaction(async (tx) => {
     const station = await findStation(tx, stationId);
     if (!station.active) throw conflict('STATION_RETIRED', `Station ${station.code} is retired; mix at an active station.`);

@@ -3,7 +3,7 @@ import { db, type Tx } from '../../db/client';
 import { buildBatches, driverModels, materials, recipeStepMaterials, recipeSteps, stations } from '../../db/schema';
 import { conflict, fieldError } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requirePermission, requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { revisionLabel, type DriverModel, type DriverModelInput, type DriverModelPatch, type RecipeStepInput } from '../../../shared/schemas/models';
 import { findModelRow, getModel, loadSteps } from './read';
@@ -47,7 +47,9 @@ async function insertSteps(tx: Tx, modelId: string, steps: RecipeStepInput[]): P
 }
 
 export async function createModel(actor: Actor, input: DriverModelInput): Promise<DriverModel> {
-  requireRole(actor, 'admin');
+  requirePermission(actor, 'models.edit');
+  // A new model comes with its recipe.
+  requirePermission(actor, 'recipes.edit');
   return db.transaction(async (tx) => {
     await checkRecipe(tx, input.steps);
     // A code names one model across its revisions: any revision of it makes the code taken.
@@ -72,7 +74,8 @@ export async function createModel(actor: Actor, input: DriverModelInput): Promis
 }
 
 export async function updateModel(actor: Actor, id: string, patch: DriverModelPatch): Promise<DriverModel> {
-  requireRole(actor, 'admin');
+  requirePermission(actor, 'models.edit');
+  if (patch.steps) requirePermission(actor, 'recipes.edit');
   return db.transaction(async (tx) => {
     await findModelRow(tx, id, true);
     const before = await getModel(id, tx);

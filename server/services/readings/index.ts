@@ -2,7 +2,7 @@ import { and, desc, eq, gte, lte } from 'drizzle-orm';
 import { db } from '../../db/client';
 import { readings } from '../../db/schema';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import type { Reading, ReadingInput, ReadingQuery } from '../../../shared/schemas/readings';
 
@@ -21,7 +21,7 @@ function toReading(r: typeof readings.$inferSelect): Reading {
 
 /** POST /api/readings: one or many shop-condition readings. */
 export async function recordReadings(actor: Actor, items: ReadingInput[]): Promise<Reading[]> {
-  requireRole(actor, 'assembler', 'quality', 'admin');
+  requirePermission(actor, 'readings.record');
   return db.transaction(async (tx) => {
     const rows = await tx
       .insert(readings)

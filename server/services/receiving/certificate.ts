@@ -3,7 +3,7 @@ import { db } from '../../db/client';
 import { lots, materials } from '../../db/schema';
 import { notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { checkUpload, insertAttachment, withStoredFile, type UploadedFile } from '../attachments';
 import { toAttachment, toLot } from '../lots/present';
@@ -20,7 +20,7 @@ export async function attachCertificate(
   file: UploadedFile | undefined,
   fields: CertificateFields,
 ): Promise<{ attachment: Attachment; lot: Lot }> {
-  requireRole(actor, 'receiving', 'quality');
+  requirePermission(actor, 'lots.attachCertificate');
   const type = checkUpload(file);
   const [exists] = await db.select({ id: lots.id }).from(lots).where(eq(lots.id, lotId));
   if (!exists) throw notFound('The lot'); // before anything is written

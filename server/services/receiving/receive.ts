@@ -3,7 +3,7 @@ import { db, type Tx } from '../../db/client';
 import { containers, lots, materials, suppliers } from '../../db/schema';
 import { conflict, fieldError } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { toContainer, toLot, type MaterialRow } from '../lots/present';
 import type { DuplicateLotDetails, ReceiveLotResult, ReceiveLotValues } from '../../../shared/schemas/lots';
@@ -46,7 +46,7 @@ async function findDuplicates(tx: Tx, materialId: string, supplierLot: string): 
  * second time is refused (409 DUPLICATE_LOT) unless the clerk confirms it.
  */
 export async function receiveLot(actor: Actor, input: ReceiveLotValues): Promise<ReceiveLotResult> {
-  requireRole(actor, 'receiving', 'admin');
+  requirePermission(actor, 'lots.receive');
   return db.transaction(async (tx) => {
     // One receipt per material at a time, so two clerks cannot both pass the duplicate check.
     await tx.execute(sql`SELECT pg_advisory_xact_lock(hashtext(${`lot-receipt:${input.materialId}`}))`);

@@ -3,7 +3,7 @@ import { db, type DbOrTx } from '../../db/client';
 import { stationLoads, stations } from '../../db/schema';
 import { conflict, notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { auditUnloads } from '../loading/unload-audit';
 import type { Station, StationInput, StationListQuery, StationPatch } from '../../../shared/schemas/stations';
@@ -51,7 +51,7 @@ function duplicateCode(code: string) {
 }
 
 export async function createStation(actor: Actor, input: StationInput): Promise<Station> {
-  requireRole(actor, 'admin');
+  requirePermission(actor, 'stations.edit');
   return db.transaction(async (tx) => {
     const [row] = await tx.insert(stations).values(input).onConflictDoNothing({ target: stations.code }).returning();
     if (!row) throw duplicateCode(input.code);
@@ -62,7 +62,7 @@ export async function createStation(actor: Actor, input: StationInput): Promise<
 }
 
 export async function updateStation(actor: Actor, id: string, patch: StationPatch): Promise<Station> {
-  requireRole(actor, 'admin');
+  requirePermission(actor, 'stations.edit');
   return db.transaction(async (tx) => {
     const before = await findStation(tx, id, true);
     if (patch.code && patch.code !== before.code) {
@@ -79,7 +79,7 @@ export async function updateStation(actor: Actor, id: string, patch: StationPatc
 
 /** Retire a station: it refuses loads from now on and everything loaded there is unloaded. */
 export async function retireStation(actor: Actor, id: string): Promise<Station> {
-  requireRole(actor, 'admin');
+  requirePermission(actor, 'stations.edit');
   return db.transaction(async (tx) => {
     const before = await findStation(tx, id, true);
     if (!before.active) return toStation(before);

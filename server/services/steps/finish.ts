@@ -3,7 +3,7 @@ import { db, type DbOrTx } from '../../db/client';
 import { stationLoads, stepRunMaterials, stepRuns } from '../../db/schema';
 import { conflict } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import type { StepRun } from '../../../shared/schemas/steps';
 import { profilesForRuns, cureOfRun } from '../cure/compute';
@@ -22,7 +22,7 @@ export async function finishStep(
   now: Date = new Date(),
   runner: DbOrTx = db,
 ): Promise<{ stepRun: StepRun }> {
-  requireRole(actor, 'assembler');
+  requirePermission(actor, 'steps.run');
   return runner.transaction(async (tx) => {
     const ctx = await stepContext(tx, input);
     const run = await openRun(tx, ctx);

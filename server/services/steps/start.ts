@@ -3,7 +3,7 @@ import { db, type Tx } from '../../db/client';
 import { buildBatches, deviations, stationLoads, stepRunMaterials, stepRuns } from '../../db/schema';
 import { conflict } from '../../errors';
 import type { Actor } from '../auth/actor';
-import { requireRole } from '../auth/actor';
+import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import type { StepRun } from '../../../shared/schemas/steps';
 import { checkContainerUsable, checkMixUsable, containersByIds, mixesByIds } from '../loading';
@@ -94,7 +94,7 @@ async function loadedNow(tx: Tx, ctx: StepContext, now: Date) {
  * Exported for the rework endpoints.
  */
 export async function startStep(actor: Actor, input: StepActionRequest, now: Date = new Date()): Promise<{ stepRun: StepRun }> {
-  requireRole(actor, 'assembler');
+  requirePermission(actor, 'steps.run');
   return db.transaction(async (tx) => {
     const ctx = await stepContext(tx, input);
     checkOrder(ctx);

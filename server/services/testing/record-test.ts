@@ -2,7 +2,7 @@ import { and, eq, isNull, sql } from 'drizzle-orm';
 import { db, type Tx } from '../../db/client';
 import { defectCodes, drivers, stepRuns, testResults } from '../../db/schema';
 import { conflict, fieldError, notFound } from '../../errors';
-import { requireRole, type Actor } from '../auth/actor';
+import { requirePermission, type Actor } from '../auth/actor';
 import { recordAudit } from '../audit';
 import type { TestCreated, TestInput } from '../../../shared/schemas/tests';
 import { toTestRecord } from './records';
@@ -58,7 +58,7 @@ async function lastStepCureCompleteAt(tx: Tx, batchId: string, driverId: string,
 
 /** POST /api/tests: record one final test; pass → passed, fail → failed (with a defect code). */
 export async function recordTest(actor: Actor, input: TestInput): Promise<TestCreated> {
-  requireRole(actor, 'assembler', 'quality');
+  requirePermission(actor, 'tests.record');
   return db.transaction(async (tx) => {
     const [driver] = await tx.select().from(drivers).where(eq(drivers.serial, input.serial)).for('update');
     if (!driver) throw notFound(`Driver ${input.serial}`);

@@ -1,5 +1,7 @@
 import type { Role } from '@shared/constants';
+import { can } from '@shared/permissions';
 import { NAV_ITEMS, type NavItem } from '@/navigation';
+import { actionsOf } from '@/router/meta';
 
 /** What each role does in Tacklog, shown on the home page. */
 export const ROLE_INTROS: Record<Role, { summary: string; icon: string }> = {
@@ -35,7 +37,10 @@ export const ROLE_INTROS: Record<Role, { summary: string; icon: string }> = {
   },
 };
 
-/** The areas a role works in (its own items plus those open to everyone), home excluded. */
+/**
+ * The areas a role works in (its own items plus those open to everyone), home excluded: the
+ * permission map says which actions the role has, for describing the role on the home page.
+ */
 export function areasForRole(role: Role): NavItem[] {
-  return NAV_ITEMS.filter((item) => item.to !== 'home' && (!item.roles || item.roles.includes(role)));
+  return NAV_ITEMS.filter((item) => item.to !== 'home' && (!item.permission || actionsOf(item.permission).some((a) => can([role], a))));
 }

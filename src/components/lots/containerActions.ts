@@ -1,4 +1,5 @@
-import type { LotStatus, Role, StorageClass } from '@shared/constants';
+import type { LotStatus, StorageClass } from '@shared/constants';
+import type { Action } from '@shared/permissions';
 import type { Container } from '@shared/schemas/containers';
 import type { ContainerAction } from '@/api/containers';
 
@@ -10,32 +11,29 @@ export interface ContainerMenuItem {
   icon: string;
 }
 
-const HANDLERS: readonly Role[] = ['receiving', 'assembler', 'quality'];
-
 /**
  * The actions a person may take on a container now, by its state, the material's storage
- * class and the person's roles. The client only hides; the server checks again and says why
+ * class and what the person may do (`can`, e.g. the session's). The client only hides; the server checks again and says why
  * it refuses.
  */
 export function containerMenu(
   c: Pick<Container, 'status' | 'thawedAt' | 'outOfStorageSince'>,
   storageClass: StorageClass,
-  roles: readonly Role[],
+  can: (action: Action) => boolean,
   lotStatus: LotStatus = 'released',
 ): ContainerMenuItem[] {
-  const has = (allowed: readonly Role[]) => allowed.some((r) => roles.includes(r));
   const live = c.status === 'sealed' || c.status === 'open';
   const items: ContainerMenuItem[] = [];
-  if (has(HANDLERS) && live) {
+  if (can('containers.handle') && live) {
     if (storageClass === 'frozen' && !c.thawedAt && c.status === 'sealed') items.push({ action: 'thaw', label: 'Record the end of the thaw', icon: 'ac_unit' });
     // Only a released lot may be opened (on hold, quarantined and rejected lots are blocked).
     if (lotStatus === 'released' && c.status === 'sealed' && (storageClass !== 'frozen' || c.thawedAt)) items.push({ action: 'open', label: 'Open', icon: 'lock_open' });
     if (storageClass === 'refrigerated' && !c.outOfStorageSince) items.push({ action: 'out-of-storage', label: 'Take out of cold storage', icon: 'logout' });
     if (storageClass === 'refrigerated' && c.outOfStorageSince) items.push({ action: 'return-to-storage', label: 'Back into cold storage', icon: 'login' });
     items.push({ action: 'location', label: 'Move to another location', icon: 'place' });
-    items.push({ action: 'empty', label: 'Mark empty', icon: 'check_box_outline_blank' });
   }
-  if (has(['quality', 'receiving']) && live) items.push({ action: 'scrap', label: 'Scrap…', icon: 'delete' });
-  if (has(['receiving', 'quality', 'admin'])) items.push({ action: 'reprint', label: 'Reprint its label', icon: 'print' });
+  if (can('containers.empty') && live) items.push({ action: 'empty', label: 'Mark empty', icon: 'check_box_outline_blank' });
+  if (can('containers.scrap') && live) items.push({ action: 'scrap', label: 'Scrap…', icon: 'delete' });
+  if (can('labels.print')) items.push({ action: 'reprint', label: 'Reprint its label', icon: 'print' });
   return items;
 }

@@ -1,6 +1,6 @@
 import type { RouteRecordRaw } from 'vue-router';
 
-/** Lots and their containers (anyone signed in may look; actions check roles). */
+/** Lots and their containers (anyone signed in may look; each action checks its permission). */
 export const lotsRoutes: RouteRecordRaw[] = [
   {
     path: 'lots',

@@ -6,13 +6,13 @@ export const productionRoutes: RouteRecordRaw[] = [
     path: 'station',
     name: 'station.work',
     component: () => import('@/pages/station/StationPage.vue'),
-    meta: { title: 'Station', roles: ['assembler'] },
+    meta: { title: 'Station', permission: 'steps.run' },
   },
   {
     path: 'batches',
     name: 'batches.list',
     component: () => import('@/pages/batches/BatchesPage.vue'),
-    meta: { title: 'Batches', roles: ['assembler', 'quality'] },
+    meta: { title: 'Batches', permission: 'batches.create' },
   },
   {
     path: 'batches/:id',
@@ -24,18 +24,18 @@ export const productionRoutes: RouteRecordRaw[] = [
     path: 'cure',
     name: 'cure.board',
     component: () => import('@/pages/cure/CureBoardPage.vue'),
-    meta: { title: 'Cure board', roles: ['assembler', 'quality'] },
+    meta: { title: 'Cure board', permission: ['steps.run', 'deviations.record'] },
   },
   {
     path: 'final-test',
     name: 'tests.final',
     component: () => import('@/pages/testing/FinalTestPage.vue'),
-    meta: { title: 'Final test', roles: ['assembler', 'quality'] },
+    meta: { title: 'Final test', permission: 'tests.record' },
   },
   {
     path: 'readings',
     name: 'readings.list',
     component: () => import('@/pages/readings/ReadingsPage.vue'),
-    meta: { title: 'Shop conditions', roles: ['assembler', 'quality', 'admin'] },
+    meta: { title: 'Shop conditions', permission: 'readings.record' },
   },
 ];

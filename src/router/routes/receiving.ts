@@ -6,13 +6,13 @@ export const receivingRoutes: RouteRecordRaw[] = [
     path: 'receiving',
     name: 'receiving.new',
     component: () => import('@/pages/receiving/ReceivePage.vue'),
-    meta: { roles: ['receiving', 'admin'], title: 'Receive a lot' },
+    meta: { permission: 'lots.receive', title: 'Receive a lot' },
   },
   {
     path: 'labels',
     name: 'labels.print',
     component: () => import('@/pages/labels/LabelsPage.vue'),
-    meta: { roles: ['receiving', 'quality', 'admin'], title: 'Labels' },
+    meta: { permission: 'labels.print', title: 'Labels' },
   },
   {
     path: 'scan',
