@@ -24,7 +24,8 @@ function alert(over: Partial<Alert> = {}): Alert {
   return {
     id: `00000000-0000-4000-8000-${String(seq).padStart(12, '0')}`, kind: 'expiring_soon', severity: 'info', state: 'open',
     subjectType: 'lot', subjectId: '00000000-0000-4000-8000-00000000010a', message: 'Lot X expires soon.', audience: ['quality'],
-    data: null, raisedAt: T, acknowledgedAt: null, acknowledgedBy: null, resolvedAt: null, resolvedBy: null, resolution: null, ...over,
+    detail: null, data: null, raisedAt: T, acknowledgedAt: null, acknowledgedBy: null, acknowledgedByName: null, resolvedAt: null,
+    resolvedBy: null, resolvedByName: null, resolution: null, ...over,
   };
 }
 
