@@ -126,3 +126,20 @@ export function plantGreeting(zone: string, now: InstantLike = Date.now()): stri
   return 'Hello'; // the night shift
 }
 
+
+/** An instant as a `datetime-local` field value in the plant's zone: "2026-12-02T07:25". */
+export function toPlantInput(value: InstantLike, zone: string): string {
+  return toDateTime(value, zone).toFormat("yyyy-MM-dd'T'HH:mm");
+}
+
+/**
+ * A `datetime-local` field value ("2026-12-02T07:25") read as plant time, as an ISO instant in
+ * UTC; null when it is not a date and time. A wall-clock time skipped by a daylight-saving change
+ * moves forward by the gap; one that occurs twice is the earlier (luxon's rule).
+ */
+export function fromPlantInput(value: string, zone: string): string | null {
+  if (!/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d{1,3})?)?$/.test(value)) return null;
+  const dt = DateTime.fromISO(value, { zone });
+  if (!dt.isValid) return null;
+  return dt.toUTC().toISO();
+}
