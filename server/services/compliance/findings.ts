@@ -11,6 +11,7 @@ import type { AlertSeverity, Role } from '../../../shared/constants';
 import { lotStats } from '../trace/lot-stats';
 import { containerExpiryOf, PLANT_ZONE } from '../lots/present';
 import { lotExpirySql } from '../lots/expiry-sql';
+import { cureOfRun, profilesForRuns } from '../cure/compute';
 import { causeWords } from '../loading/usability';
 import { plantDateTime } from '../../plant-time';
 import { formatDate } from '../../../shared/plant-time';
@@ -73,9 +74,9 @@ export async function shortCures(tx: DbOrTx, now: Date): Promise<Finding[]> {
   const rows = await tx
     .select({
       id: stepRuns.id, batch: buildBatches.code, step: recipeSteps.name, startedAt: stepRuns.startedAt, deviationId: stepRuns.deviationId,
-      // When the previous step's adhesive was due to be fully cured (the run it had to wait for).
-      cureCompleteAt: sql<string | null>`(
-        SELECT p.cure_complete_at FROM step_runs p JOIN recipe_steps ps ON ps.id = p.step_id
+      // The run it had to wait for: the latest finished run of the step before, for the batch or the unit.
+      prevRunId: sql<string | null>`(
+        SELECT p.id FROM step_runs p JOIN recipe_steps ps ON ps.id = p.step_id
         WHERE p.batch_id = ${stepRuns.batchId} AND ps.model_id = ${recipeSteps.modelId} AND ps.seq < ${recipeSteps.seq}
           AND p.finished_at IS NOT NULL AND p.finished_at <= ${stepRuns.startedAt}
           AND (p.driver_id IS NULL OR p.driver_id = ${stepRuns.driverId})
@@ -85,15 +86,35 @@ export async function shortCures(tx: DbOrTx, now: Date): Promise<Finding[]> {
     .innerJoin(buildBatches, eq(buildBatches.id, stepRuns.batchId))
     .innerJoin(recipeSteps, eq(recipeSteps.id, stepRuns.stepId))
     .where(and(eq(stepRuns.shortCure, true), gte(stepRuns.startedAt, since)));
-  return rows.map((r) => {
-    const cureAt = r.cureCompleteAt ? new Date(r.cureCompleteAt) : null;
-    const cure = cureAt ? `, before the previous step's adhesive was fully cured (full cure at ${when(cureAt)})` : ', before the previous step\'s adhesive was fully cured';
-    return {
+  const prevIds = rows.flatMap((r) => (r.prevRunId ? [r.prevRunId] : []));
+  const prevRuns = prevIds.length
+    ? await tx
+        .select({ id: stepRuns.id, finishedAt: stepRuns.finishedAt, cureCompleteAt: stepRuns.cureCompleteAt, area: stations.area })
+        .from(stepRuns)
+        .innerJoin(stations, eq(stations.id, stepRuns.stationId))
+        .where(inArray(stepRuns.id, prevIds))
+    : [];
+  const prevById = new Map(prevRuns.map((p) => [p.id, p]));
+  const profiles = await profilesForRuns(tx, prevIds);
+  const out: Finding[] = [];
+  for (const r of rows) {
+    // When the full cure was due as the gate saw it at the start (readings up to then), as the
+    // station and the cure board showed it; else the time computed at the previous finish.
+    const prev = r.prevRunId ? prevById.get(r.prevRunId) : undefined;
+    const seen = prev?.finishedAt
+      ? await cureOfRun(tx, { finishedAt: prev.finishedAt, area: prev.area }, profiles.get(prev.id) ?? [], r.startedAt)
+      : null;
+    const cureAt = seen ? new Date(seen.cureCompleteAt) : (prev?.cureCompleteAt ?? null);
+    const cure = cureAt
+      ? `, before the previous step's adhesive was fully cured (full cure at ${when(cureAt)})`
+      : ", before the previous step's adhesive was fully cured";
+    out.push({
       kind: 'short_cure', severity: r.deviationId ? 'warning' : 'critical', subjectType: 'step_run', subjectId: r.id, audience: ['quality'],
       message: `Batch ${r.batch}: step "${r.step}" started at ${when(r.startedAt)}${cure}, ${r.deviationId ? 'under a recorded deviation' : 'without a deviation'}. Review the drivers of this batch.`,
       data: { batchCode: r.batch, step: r.step, deviationId: r.deviationId, startedAt: r.startedAt.toISOString(), cureCompleteAt: cureAt?.toISOString() ?? null },
-    };
-  });
+    });
+  }
+  return out;
 }
 
 /** Containers still in stock (or loaded) past their effective expiry. */
