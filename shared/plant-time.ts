@@ -82,7 +82,8 @@ export function formatTime(value: InstantLike, zone: string, now: InstantLike = 
 
 /**
  * A length of time, rounded down so a countdown never promises more than is left:
- * "40 s", "45 min", "3 h 20 min", "27 h", "2 d 3 h". Negative values read as positive.
+ * "40 s", "45 min", "3 h 20 min", "27 h", "2 d 3 h", and whole days from a week on ("364 d").
+ * Negative values read as positive.
  */
 export function formatDuration(milliseconds: number): string {
   if (typeof milliseconds !== 'number' || !Number.isFinite(milliseconds)) {
@@ -99,7 +100,7 @@ export function formatDuration(milliseconds: number): string {
   }
   const d = Math.floor(totalHours / 24);
   const h = totalHours % 24;
-  return h === 0 ? `${d} d` : `${d} d ${h} h`;
+  return h === 0 || d >= 7 ? `${d} d` : `${d} d ${h} h`;
 }
 
 /**

@@ -115,6 +115,8 @@ describe('plant time: durations and countdowns', () => {
     expect(formatDuration(27 * H + 10 * MIN)).toBe('27 h 10 min');
     expect(formatDuration(48 * H)).toBe('2 d');
     expect(formatDuration(51 * H + 59 * MIN)).toBe('2 d 3 h');
+    expect(formatDuration(6 * 24 * H + 23 * H)).toBe('6 d 23 h');
+    expect(formatDuration(364 * 24 * H + 23 * H)).toBe('364 d');
     expect(formatDuration(-(3 * H + 20 * MIN))).toBe('3 h 20 min');
     expect(() => formatDuration(Number.NaN)).toThrow(RangeError);
   });
