@@ -1,6 +1,7 @@
 import crypto from 'node:crypto';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { isKnownZone } from '../shared/plant-time';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -10,6 +11,20 @@ function intFromEnv(name: string, fallback: number): number {
   const n = Number(raw);
   if (!Number.isInteger(n) || n <= 0) throw new Error(`${name} must be a positive whole number, got "${raw}"`);
   return n;
+}
+
+/** The plant's IANA time zone; refuses to start on a name the formatters would not understand. */
+function zoneFromEnv(name: string, fallback: string): string {
+  const raw = process.env[name];
+  if (raw === undefined || raw.trim() === '') return fallback;
+  const zone = raw.trim();
+  if (!isKnownZone(zone)) throw new Error(`${name} must be an IANA time zone such as "Europe/Berlin" or "UTC", got "${raw}"`);
+  return zone;
+}
+
+function textFromEnv(name: string, fallback: string): string {
+  const raw = process.env[name]?.trim();
+  return raw ? raw : fallback;
 }
 
 export const config = {
@@ -35,6 +50,11 @@ export const config = {
   /** Compliance watch schedule (node-cron syntax); 'off' disables it. */
   watchSchedule: process.env.TACKLOG_WATCH_CRON ?? '*/5 * * * *',
   secureCookies: process.env.TACKLOG_SECURE_COOKIES === '1',
-  /** The plant's time zone: a supplier's expiry date is usable through that whole day there. */
-  plantZone: process.env.TACKLOG_PLANT_ZONE || 'UTC',
+  /**
+   * The plant's time zone (IANA name): every time shown to people (pages, messages, labels,
+   * CSV) is in this zone, and a supplier's expiry date is usable through that whole day there.
+   */
+  plantZone: zoneFromEnv('TACKLOG_PLANT_ZONE', 'UTC'),
+  /** The plant's name as pages and printouts show it. */
+  plantName: textFromEnv('TACKLOG_PLANT_NAME', 'Tacklog'),
 } as const;

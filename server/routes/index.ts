@@ -1,6 +1,7 @@
 import { Router } from 'express';
 import { authRouter } from './auth';
 import { healthRouter } from './health';
+import { configRouter } from './config';
 import { usersRouter } from './users';
 import { traceRouter } from './trace';
 import { defectsRouter } from './defects';
@@ -29,6 +30,7 @@ import { qualityRouter } from './quality';
 export const apiRouter = Router();
 
 apiRouter.use('/health', healthRouter);
+apiRouter.use('/config', configRouter);
 apiRouter.use('/auth', authRouter);
 apiRouter.use('/users', usersRouter);
 // Genealogy traces (/drivers/:serial/trace, /lots/:id/trace…) before the /lots and /drivers routers.

@@ -10,14 +10,21 @@ export const alertSchema = z.object({
   state: z.enum(ALERT_STATES),
   subjectType: z.string(),
   subjectId: z.string(),
+  /** One sentence a person reads in one go. */
   message: z.string(),
+  /** The figures behind the message (tests, limits), for a detail line; null when there are none. */
+  detail: z.string().nullable(),
   audience: z.array(z.enum(ROLES)),
   data: z.record(z.string(), z.unknown()).nullable(),
   raisedAt: instantSchema,
   acknowledgedAt: instantSchema.nullable(),
   acknowledgedBy: z.string().nullable(),
+  /** The name of the person who acknowledged it. */
+  acknowledgedByName: z.string().nullable(),
   resolvedAt: instantSchema.nullable(),
+  /** Null with a resolvedAt: cleared by the compliance watch when the condition no longer held. */
   resolvedBy: z.string().nullable(),
+  resolvedByName: z.string().nullable(),
   resolution: z.string().nullable(),
 });
 export type Alert = z.infer<typeof alertSchema>;

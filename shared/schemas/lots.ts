@@ -200,6 +200,12 @@ export const historyEntrySchema = z.object({
   before: z.unknown(),
   after: z.unknown(),
   reason: z.string().nullable(),
+  /**
+   * What the ids in `before` / `after` are called, so people read names, not ids: a
+   * certificate by its file name, a station, batch, mix or container by its code, a supplier or
+   * material by its name. Ids that no longer resolve are left out.
+   */
+  names: z.record(z.string(), z.string()).default({}),
 });
 export type HistoryEntry = z.infer<typeof historyEntrySchema>;
 /** GET /api/lots/:id/history (`lots.readHistory`: quality, admin). */

@@ -1,8 +1,11 @@
-import { computed, getCurrentScope, onScopeDispose, ref, toValue, type MaybeRefOrGetter } from 'vue';
+import { computed, toValue, type MaybeRefOrGetter } from 'vue';
+import { formatDuration } from '@shared/plant-time';
+import { useNow } from './useNow';
 
 /**
  * Time left to an instant (an expiry, a cure completion), as text people read at a glance:
- * "expires in 3 d", "expires in 5 h", "expired 2 h ago". The amount is rounded down, so the
+ * "expires in 3 d 8 h", "expires in 5 h 20 min", "expired 2 h 40 min ago" (durations from the
+ * shared formatDuration, the one duration format). The amount is rounded down, so the
  * screen never promises more time than is left. Status is text plus a tone (colour), never
  * colour alone.
  */
@@ -16,19 +19,15 @@ export type CountdownTone = 'none' | 'expired' | 'soon' | 'ok';
 export interface Countdown {
   /** Milliseconds until the instant (negative once past); null when there is none. */
   msLeft: number | null;
-  /** "3 d", "5 h", "12 min", "under a minute"; '' when there is no instant. */
+  /** "3 d 8 h", "5 h 20 min", "12 min", "under a minute"; '' when there is no instant. */
   amount: string;
   past: boolean;
   tone: CountdownTone;
 }
 
-/** A positive span, rounded down: days from 2 d up, hours from 1 h up, then minutes. */
+/** A span rounded down with the shared duration format; under a minute it says so (screens tick every 10 s). */
 export function formatSpan(ms: number): string {
-  const abs = Math.abs(ms);
-  if (abs >= 2 * DAY_MS) return `${Math.floor(abs / DAY_MS)} d`;
-  if (abs >= HOUR_MS) return `${Math.floor(abs / HOUR_MS)} h`;
-  if (abs >= MINUTE_MS) return `${Math.floor(abs / MINUTE_MS)} min`;
-  return 'under a minute';
+  return Math.abs(ms) >= MINUTE_MS ? formatDuration(ms) : 'under a minute';
 }
 
 /**
@@ -52,39 +51,12 @@ export function expiryText(c: Countdown, words = { future: 'expires in', past: '
   return `${words.future} ${c.amount}`;
 }
 
-// One clock for every countdown on the page, ticking while anyone listens.
-const now = ref(Date.now());
-let listeners = 0;
-let timer: ReturnType<typeof setInterval> | undefined;
-const TICK_MS = 15_000;
-
-function listen(): () => void {
-  listeners += 1;
-  if (listeners === 1) {
-    now.value = Date.now();
-    timer = setInterval(() => {
-      now.value = Date.now();
-    }, TICK_MS);
-  }
-  let stopped = false;
-  return () => {
-    if (stopped) return;
-    stopped = true;
-    listeners -= 1;
-    if (listeners === 0 && timer !== undefined) {
-      clearInterval(timer);
-      timer = undefined;
-    }
-  };
-}
-
 /**
- * A live countdown to `at` (ISO instant, or null for "no limit"). Ticks every 15 s while the
- * component (or effect scope) that called it is alive.
+ * A live countdown to `at` (ISO instant, or null for "no limit"), on the one client clock
+ * (useNow), while the component (or effect scope) that called it is alive.
  */
 export function useCountdown(at: MaybeRefOrGetter<string | null | undefined>, soonMs: MaybeRefOrGetter<number> = 7 * DAY_MS) {
-  const stop = listen();
-  if (getCurrentScope()) onScopeDispose(stop);
+  const { now, stop } = useNow();
   const countdown = computed(() => describeCountdown(toValue(at), now.value, toValue(soonMs)));
   const text = computed(() => expiryText(countdown.value));
   return { countdown, text, now: computed(() => now.value), stop };

@@ -1,6 +1,7 @@
 import { watch } from 'vue';
 import { createRouter, createWebHistory, type RouteLocationNormalized, type RouteRecordRaw, type Router } from 'vue-router';
 import { useSessionStore } from '@/stores/session';
+import { usePlantStore } from '@/stores/plant';
 import { safeRedirect } from './redirect';
 import { homeRoutes, notFoundRoute, publicRoutes } from './routes/core';
 import { productionRoutes } from './routes/production';
@@ -40,6 +41,10 @@ export const routes: RouteRecordRaw[] = [
 /** Where the guard sends a navigation, or true to let it through. */
 export async function guard(to: RouteLocationNormalized) {
   const session = useSessionStore();
+  // Every time on screen is plant time: learn the plant's zone once, before the first page.
+  await usePlantStore()
+    .ensureLoaded()
+    .catch((err: unknown) => console.error('[router] could not load the plant settings:', err));
   let user: Awaited<ReturnType<typeof session.load>> = null;
   try {
     user = await session.load();

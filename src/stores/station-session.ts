@@ -9,6 +9,9 @@ import * as stationsApi from '@/api/stations';
 import * as batchesApi from '@/api/batches';
 import { ApiError } from '@/api/http';
 import { useOfflineQueue, type QueuedAction, type QueueOutcome } from '@/composables/useOfflineQueue';
+import { alignWithServer } from '@/composables/useNow';
+import { usePlantStore } from './plant';
+import { formatTime } from '@shared/plant-time';
 import { feedback, queuedFeedback, refusalFeedback, type StationFeedback } from './station-feedback';
 import { cureGateBefore, interpretScan, stepAtStation } from './station-scan';
 import { readStored, writeStored } from './station-storage';
@@ -18,7 +21,6 @@ export type { StationFeedback };
 
 
 const KEYS = { station: 'tacklog.station.current', stations: 'tacklog.station.stations', traveler: 'tacklog.station.traveler', queue: 'tacklog.station.queue' };
-const timeOf = (iso: string) => new Date(iso).toLocaleTimeString([], { hour: '2-digit', minute: '2-digit' });
 
 /**
  * One assembler's session at one station: the station (remembered on this device), the build
@@ -26,6 +28,9 @@ const timeOf = (iso: string) => new Date(iso).toLocaleTimeString([], { hour: '2-
  * No notifications or sounds here: the page shows `feedback`.
  */
 export const useStationSessionStore = defineStore('station-session', () => {
+  const plant = usePlantStore();
+  /** Feedback names times in plant time: "07:25" today, "Thu 07:25" another day. */
+  const timeOf = (iso: string) => formatTime(iso, plant.zone, Date.now() + clockOffsetMs.value);
   const stations = ref<Station[]>(readStored<Station[]>(KEYS.stations) ?? []);
   const station = ref<Station | null>(readStored<Station>(KEYS.station));
   const traveler = ref<BatchDetail | null>(readStored<BatchDetail>(KEYS.traveler));
@@ -143,7 +148,7 @@ export const useStationSessionStore = defineStore('station-session', () => {
       if (st) {
         const loaded = await stationsApi.listLoaded(st.id, batch?.id);
         loads.value = loaded.items;
-        clockOffsetMs.value = Date.parse(loaded.now) - Date.now();
+        clockOffsetMs.value = alignWithServer(loaded.now);
       }
     } catch (err) {
       if (!(err instanceof ApiError && err.status === 0)) throw err;

@@ -57,6 +57,11 @@ describe('alerts page', () => {
     await filterKind('Quarantine advised');
     await cards('quarantine_advised').first().waitFor();
     expect(await cards('quarantine_advised').first().locator('[data-test="alert-kind"]').innerText()).toBe('Quarantine advised');
+    // The demo's suspect resin lot (EPA2611-7741) reads in one go; its figures are in the detail line.
+    const suspect = cards('quarantine_advised').filter({ hasText: 'EPA2611-7741' }).first();
+    expect(await suspect.locator('[data-test="alert-message"]').innerText()).toMatch(/fails \d+\.\d % of drivers .* against a plant rate of \d+\.\d %; this /);
+    expect(await suspect.locator('[data-test="alert-message"]').innerText()).not.toMatch(/q = |p-chart/);
+    expect(await suspect.locator('[data-test="alert-detail"]').innerText()).toMatch(/binomial test: p = .*q = .*p-chart upper limit/);
     // A lot's alert links to the lot page.
     await cards('quarantine_advised').first().locator('[data-test="alert-subject-link"]').click();
     await page.waitForURL(/\/lots\/[0-9a-f-]{36}$/);
@@ -73,6 +78,11 @@ describe('alerts page', () => {
     await acknowledged.locator('[data-test="alert-acknowledge"]').click();
     await expect.poll(() => acknowledged.getAttribute('data-state')).toBe('acknowledged');
     expect(await acknowledged.locator('[data-test="alert-state"]').innerText()).toContain('Acknowledged');
+    // Who did it and when, in plant time.
+    const name = ((await (await page.request.get('/api/auth/me')).json()) as { user: { name: string } }).user.name;
+    const me = name.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+    expect(await acknowledged.locator('[data-test="alert-acknowledged"]').innerText())
+      .toMatch(new RegExp(`^Acknowledged by ${me}, \\d{4}-\\d{2}-\\d{2} \\d{2}:\\d{2}$`));
 
     // Resolve another: a too-short reason is refused at the field, a real one is recorded.
     const toResolve = page
@@ -99,6 +109,7 @@ describe('alerts page', () => {
     await resolved.waitFor();
     expect(await resolved.getAttribute('data-state')).toBe('resolved');
     expect(await resolved.locator('[data-test="alert-resolution"]').innerText()).toContain(reason);
+    expect(await resolved.locator('[data-test="alert-resolved-by"]').innerText()).toMatch(new RegExp(`^Resolved by ${me}, \\d{4}-\\d{2}-\\d{2} \\d{2}:\\d{2}:`));
     await shot('alerts-resolved');
   });
 

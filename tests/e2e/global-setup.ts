@@ -102,6 +102,9 @@ export default async function setup(project: TestProject) {
       TACKLOG_SERVE_CLIENT: '1',
       // Every browser test signs in; the production limit would throttle the suite.
       TACKLOG_LOGIN_RATE_LIMIT: '1000',
+      // A plant zone other than this machine's (UTC) and the browsers', so a page that formats a
+      // time in the browser's zone shows a wrong hour and fails (tests/e2e/plant-time.test.ts).
+      TACKLOG_PLANT_ZONE: 'Europe/Berlin',
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   });

@@ -113,6 +113,12 @@ describe('receiving a lot', () => {
     await page.locator('[data-test="lot-detail-page"] [data-test="lot-containers"]').waitFor();
     expect(await page.locator('[data-test="lot-title"]').innerText()).toContain(supplierLot);
     await expect.poll(() => page.locator('[data-test="history-entry"]').count()).toBeGreaterThan(0);
+    // History reads in words: labelled fields, statuses as words, plant date and time; no field names or codes.
+    const history = await page.locator('[data-test="lot-history"]').innerText();
+    expect(history).toMatch(/Received/);
+    expect(history).toMatch(/Status:\s*On hold/);
+    expect(history).toMatch(/\d{4}-\d{2}-\d{2} \d{2}:\d{2}/);
+    expect(history).not.toMatch(/statusReason|openedAt|sha256|certificateId|supplierLot|on_hold|UTC|AM|PM/);
     await shot('e-lot');
 
     // The same supplier lot again is a possible mistake: the server refuses it (409 DUPLICATE_LOT)

@@ -35,13 +35,22 @@ export async function closeBrowser(): Promise<void> {
   await browser.close();
 }
 
+export interface PageOptions {
+  /** The browser's own time zone (IANA), e.g. to show that pages use the plant's zone, not this one. */
+  timezoneId?: string;
+  viewport?: { width: number; height: number };
+}
+
 /**
  * A page in a fresh context (own cookies) whose relative URLs resolve against `baseUrl`,
- * sized like a plant desktop screen.
+ * sized like a plant desktop screen unless told otherwise.
  */
-export async function newPage(baseUrl: string, browser?: Browser): Promise<Page> {
+export async function newPage(baseUrl: string, browser?: Browser, options: PageOptions = {}): Promise<Page> {
   const b = browser ?? (await sharedBrowser());
-  const context = await b.newContext({ baseURL: baseUrl, viewport: { width: 1366, height: 860 }, locale: 'en-GB' });
+  const context = await b.newContext({
+    baseURL: baseUrl, viewport: options.viewport ?? { width: 1366, height: 860 }, locale: 'en-GB',
+    ...(options.timezoneId ? { timezoneId: options.timezoneId } : {}),
+  });
   return context.newPage();
 }
 

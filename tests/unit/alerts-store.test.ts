@@ -14,7 +14,7 @@ vi.mock('@/api/alerts', () => ({
 
 const alertsApi = await import('@/api/alerts');
 const { useAlertsStore, COUNT_PAGE_SIZE } = await import('@/stores/alerts');
-const { alertSubject, kindWords, severityLook, stateLook, whenText } = await import('@/components/alerts/alertLook');
+const { alertSubject, handledText, kindWords, severityLook, stateLook, whenText } = await import('@/components/alerts/alertLook');
 
 const T = '2026-03-01T08:00:00.000Z';
 let seq = 0;
@@ -24,7 +24,8 @@ function alert(over: Partial<Alert> = {}): Alert {
   return {
     id: `00000000-0000-4000-8000-${String(seq).padStart(12, '0')}`, kind: 'expiring_soon', severity: 'info', state: 'open',
     subjectType: 'lot', subjectId: '00000000-0000-4000-8000-00000000010a', message: 'Lot X expires soon.', audience: ['quality'],
-    data: null, raisedAt: T, acknowledgedAt: null, acknowledgedBy: null, resolvedAt: null, resolvedBy: null, resolution: null, ...over,
+    detail: null, data: null, raisedAt: T, acknowledgedAt: null, acknowledgedBy: null, acknowledgedByName: null, resolvedAt: null,
+    resolvedBy: null, resolvedByName: null, resolution: null, ...over,
   };
 }
 
@@ -191,11 +192,22 @@ describe('how alerts read', () => {
     expect(alertSubject({ subjectType: 'mix', subjectId: 'x', data: { mixCode: 'MX-3', station: 'Glue 2' } })).toEqual({ label: 'Mix MX-3 at Glue 2', links: [] });
   });
 
-  it('says when an alert was raised relative to now, as Intl.RelativeTimeFormat words it', () => {
+  it('says when an alert was raised relative to now and in full in plant time', () => {
     const now = new Date('2026-03-01T11:00:00.000Z');
-    // ECMA-402 Intl.RelativeTimeFormat (numeric: 'always') is the outside reference for the wording.
-    const rtf = new Intl.RelativeTimeFormat(new Intl.DateTimeFormat().resolvedOptions().locale, { numeric: 'always' });
-    expect(whenText('2026-03-01T08:00:00.000Z', now).relative).toBe(rtf.format(-3, 'hours'));
-    expect(whenText('2026-02-27T11:00:00.000Z', now).relative).toBe(rtf.format(-2, 'days'));
+    expect(whenText('2026-03-01T08:00:00.000Z', 'Europe/Berlin', now)).toEqual({ relative: '3 h ago', absolute: '2026-03-01 09:00' });
+    expect(whenText('2026-02-27T11:00:00.000Z', 'UTC', now).relative).toBe('2 d ago');
+  });
+
+  it('says who acknowledged and resolved an alert, and when, in plant time', () => {
+    const a = alert({
+      state: 'resolved', acknowledgedAt: '2026-03-01T08:05:00.000Z', acknowledgedBy: 'u1', acknowledgedByName: 'Dana Quill',
+      resolvedAt: '2026-03-01T09:40:00.000Z', resolvedBy: 'u2', resolvedByName: 'Rik Tamsen',
+    });
+    expect(handledText(a, 'Europe/Berlin')).toEqual({
+      acknowledged: 'Acknowledged by Dana Quill, 2026-03-01 09:05',
+      resolved: 'Resolved by Rik Tamsen, 2026-03-01 10:40',
+    });
+    const cleared = alert({ state: 'resolved', resolvedAt: '2026-03-01T09:40:00.000Z', resolvedBy: null });
+    expect(handledText(cleared, 'UTC')).toEqual({ acknowledged: null, resolved: 'Resolved by the compliance watch, 2026-03-01 09:40' });
   });
 });

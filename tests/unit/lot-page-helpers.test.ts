@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { can } from '../../shared/permissions';
 import type { Role } from '../../shared/constants';
 import { containerMenu } from '../../src/components/lots/containerActions';
-import { fieldChanges, valueText } from '../../src/components/lots/historyText';
+import { actionText, fieldChanges, fieldLabel, valueText } from '../../src/components/lots/historyText';
 
 const sealed = { status: 'sealed' as const, thawedAt: null, outOfStorageSince: null };
 type MenuArgs = Parameters<typeof containerMenu>;
@@ -43,17 +43,44 @@ describe('container actions offered', () => {
 describe('history lines', () => {
   it('shows old → new for the fields that changed, so earlier values stay visible (21 CFR 11.10(e))', () => {
     expect(fieldChanges({ status: 'on_hold', statusReason: null }, { status: 'quarantined', statusReason: 'Supplier notice' })).toEqual([
-      { field: 'status', from: 'on hold', to: 'quarantined' },
-      { field: 'statusReason', from: '—', to: 'Supplier notice' },
+      { field: 'status', label: 'Status', from: 'On hold', to: 'Quarantined' },
+      { field: 'statusReason', label: 'Reason', from: '—', to: 'Supplier notice' },
     ]);
+  });
+
+  it('labels fields, names ids, shows times in plant time and leaves checksums out', () => {
+    const certId = '0b5e5c1e-2f55-4d7a-9a41-4b8f3f1f0c11';
+    const changes = fieldChanges(
+      { certificateId: null, certificateExpiresOn: null },
+      { certificateId: certId, certificateExpiresOn: '2027-01-31', filename: 'coa.pdf', sha256: 'ab'.repeat(32) },
+      { zone: 'Europe/Berlin', names: { [certId]: 'coa.pdf' } },
+    );
+    expect(changes).toEqual([
+      { field: 'certificateId', label: 'Certificate', from: '—', to: 'coa.pdf' },
+      { field: 'certificateExpiresOn', label: 'Certificate valid until', from: '—', to: '2027-01-31' },
+    ]);
+    // 06:30Z on 2026-03-02 is 07:30 CET (IANA tz database; Intl.DateTimeFormat agrees, see plant-time.test.ts).
+    expect(fieldChanges({ status: 'sealed', openedAt: null }, { status: 'open', openedAt: '2026-03-02T06:30:00.000Z' }, { zone: 'Europe/Berlin' }))
+      .toEqual([
+        { field: 'status', label: 'Status', from: 'Sealed', to: 'Open' },
+        { field: 'openedAt', label: 'Opened', from: '—', to: '2026-03-02 07:30' },
+      ]);
+    expect(fieldChanges({ outOfStorageMinutes: 0 }, { outOfStorageMinutes: 200 })).toEqual([
+      { field: 'outOfStorageMinutes', label: 'Time out of cold storage', from: '0 s', to: '3 h 20 min' },
+    ]);
+    expect(actionText('container.consume')).toBe('Material used');
+    expect(actionText('container.out_of_storage')).toBe('Taken out of cold storage');
+    expect(actionText('container.something_new')).toBe('Something new');
+    expect(fieldLabel('someNewField')).toBe('Some new field');
+    expect(valueText('0b5e5c1e-2f55-4d7a-9a41-4b8f3f1f0c12', { zone: 'UTC', names: {} })).toBe('a record no longer on file');
   });
 
   it('lists a few facts of a new record instead of every column', () => {
     const changes = fieldChanges(null, { status: 'on_hold', supplierLot: 'E2E-1', containers: [{}, {}, {}], receivedBy: 'x' });
     expect(changes).toEqual([
-      { field: 'status', from: null, to: 'on hold' },
-      { field: 'supplierLot', from: null, to: 'E2E-1' },
-      { field: 'containers', from: null, to: '3' },
+      { field: 'status', label: 'Status', from: null, to: 'On hold' },
+      { field: 'supplierLot', label: 'Supplier lot', from: null, to: 'E2E-1' },
+      { field: 'containers', label: 'Containers', from: null, to: '3' },
     ]);
     expect(valueText(null)).toBe('—');
   });

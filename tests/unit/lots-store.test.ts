@@ -142,7 +142,7 @@ describe('lots store: one lot', () => {
   it('refreshes a lot\'s detail and history together', async () => {
     vi.mocked(lotsApi.getLot).mockResolvedValue(detail);
     vi.mocked(lotsApi.lotHistory).mockResolvedValueOnce([
-      { id: 1, at: T, actorId: null, actorName: 'Receiving clerk', action: 'lot.received', entityType: 'lot', entityId: LOT_ID, containerCode: null, before: null, after: { status: 'on_hold' }, reason: null },
+      { id: 1, at: T, actorId: null, actorName: 'Receiving clerk', action: 'lot.received', entityType: 'lot', entityId: LOT_ID, containerCode: null, before: null, after: { status: 'on_hold' }, reason: null, names: {} },
     ]);
     const store = useLotsStore();
     await store.refreshLot(LOT_ID, true);

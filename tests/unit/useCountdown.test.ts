@@ -15,16 +15,17 @@ describe('describeCountdown', () => {
     const at = '2026-03-07T20:30:00Z';
     const days = luxonWhole('2026-03-04T12:00:00Z', at, 'days');
     expect(days).toBe(3); // 3 d 8 h 30 min, checked by luxon's Duration
+    const hours = luxonWhole('2026-03-04T12:00:00Z', at, 'hours') % 24;
     const c = describeCountdown(at, NOW);
-    expect(c.amount).toBe(`${days} d`);
+    expect(c.amount).toBe(`${days} d ${hours} h`);
     expect(c.tone).toBe('soon'); // within the default 7 days
-    expect(expiryText(c)).toBe('expires in 3 d');
+    expect(expiryText(c)).toBe('expires in 3 d 8 h');
   });
 
   it('says hours below two days and minutes below an hour', () => {
     const in30h = new Date(NOW + 30 * HOUR_MS + 59 * 60_000).toISOString();
-    expect(describeCountdown(in30h, NOW).amount).toBe(`${luxonWhole(new Date(NOW).toISOString(), in30h, 'hours')} h`);
-    expect(describeCountdown(in30h, NOW).amount).toBe('30 h');
+    expect(describeCountdown(in30h, NOW).amount).toBe(`${luxonWhole(new Date(NOW).toISOString(), in30h, 'hours')} h 59 min`);
+    expect(describeCountdown(in30h, NOW).amount).toBe('30 h 59 min');
     const in45min = new Date(NOW + 45 * 60_000 + 30_000).toISOString();
     expect(expiryText(describeCountdown(in45min, NOW))).toBe('expires in 45 min');
     expect(formatSpan(20_000)).toBe('under a minute');
@@ -35,9 +36,10 @@ describe('describeCountdown', () => {
     const c = describeCountdown(past, NOW);
     expect(c.past).toBe(true);
     expect(c.tone).toBe('expired');
-    // Rounded down: 2 h 40 min ago reads "2 h ago" (luxon: 2.67 h).
+    // 2 h 40 min ago (luxon: 2 whole hours, 160 whole minutes).
     expect(luxonWhole(past, new Date(NOW).toISOString(), 'hours')).toBe(2);
-    expect(expiryText(c)).toBe('expired 2 h ago');
+    expect(luxonWhole(past, new Date(NOW).toISOString(), 'minutes')).toBe(160);
+    expect(expiryText(c)).toBe('expired 2 h 40 min ago');
 
     expect(describeCountdown(new Date(NOW + 3 * DAY_MS).toISOString(), NOW, 7 * DAY_MS).tone).toBe('soon');
     expect(describeCountdown(new Date(NOW + 8 * DAY_MS).toISOString(), NOW, 7 * DAY_MS).tone).toBe('ok');

@@ -218,7 +218,8 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
   );
 
   await tx.insert(s.settings).values([
-    { key: 'plant', value: { name: 'Halvard Bay Driver Works', zone: 'UTC' }, updatedBy: admin },
+    // The plant's name as pages show it (its time zone is TACKLOG_PLANT_ZONE, a server setting).
+    { key: 'plant', value: { name: 'Halvard Bay Driver Works' }, updatedBy: admin },
     // The plant's long-run final-test failure rate: lots are judged against it.
     { key: 'baselineFailureRate', value: 0.015, updatedBy: admin },
     { key: 'expiringSoonDays', value: 14, updatedBy: admin },

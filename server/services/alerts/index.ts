@@ -1,6 +1,6 @@
-import { and, arrayOverlaps, count, desc, eq, ne } from 'drizzle-orm';
-import { db } from '../../db/client';
-import { alerts } from '../../db/schema';
+import { and, arrayOverlaps, count, desc, eq, inArray, ne } from 'drizzle-orm';
+import { db, type DbOrTx } from '../../db/client';
+import { alerts, users } from '../../db/schema';
 import { conflict, notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
 import { requirePermission } from '../auth/actor';
@@ -10,12 +10,24 @@ import type { Alert, AlertListQuery } from '../../../shared/schemas/alerts';
 
 type AlertRow = typeof alerts.$inferSelect;
 
-export function toAlert(r: AlertRow): Alert {
+/** Names of the people who acknowledged or resolved these alerts, by user id. */
+async function namesOf(tx: DbOrTx, rows: AlertRow[]): Promise<Map<string, string>> {
+  const ids = [...new Set(rows.flatMap((r) => [r.acknowledgedBy, r.resolvedBy]).filter((id): id is string => !!id))];
+  if (!ids.length) return new Map();
+  const found = await tx.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, ids));
+  return new Map(found.map((u) => [u.id, u.name]));
+}
+
+export function toAlert(r: AlertRow, names: ReadonlyMap<string, string> = new Map()): Alert {
+  const detail = r.data && typeof r.data.detail === 'string' ? r.data.detail : null;
   return {
     id: r.id, kind: r.kind, severity: r.severity, state: r.state, subjectType: r.subjectType, subjectId: r.subjectId,
-    message: r.message, audience: r.audience, data: r.data ?? null, raisedAt: r.raisedAt.toISOString(),
+    message: r.message, detail, audience: r.audience, data: r.data ?? null, raisedAt: r.raisedAt.toISOString(),
     acknowledgedAt: r.acknowledgedAt?.toISOString() ?? null, acknowledgedBy: r.acknowledgedBy,
-    resolvedAt: r.resolvedAt?.toISOString() ?? null, resolvedBy: r.resolvedBy, resolution: r.resolution,
+    acknowledgedByName: r.acknowledgedBy ? (names.get(r.acknowledgedBy) ?? null) : null,
+    resolvedAt: r.resolvedAt?.toISOString() ?? null, resolvedBy: r.resolvedBy,
+    resolvedByName: r.resolvedBy ? (names.get(r.resolvedBy) ?? null) : null,
+    resolution: r.resolution,
   };
 }
 
@@ -31,7 +43,8 @@ export async function listAlerts(actor: Actor, query: AlertListQuery): Promise<{
     db.select().from(alerts).where(where).orderBy(desc(alerts.raisedAt), alerts.id).limit(query.limit).offset(query.offset),
     db.select({ n: count() }).from(alerts).where(where),
   ]);
-  return { items: rows.map(toAlert), total: n };
+  const names = await namesOf(db, rows);
+  return { items: rows.map((r) => toAlert(r, names)), total: n };
 }
 
 async function changeState(actor: Actor, id: string, to: 'acknowledged' | 'resolved', resolution?: string): Promise<Alert> {
@@ -51,7 +64,7 @@ async function changeState(actor: Actor, id: string, to: 'acknowledged' | 'resol
       actorId: actor.id, action: `alert.${to === 'acknowledged' ? 'acknowledge' : 'resolve'}`, entityType: 'alert', entityId: id,
       before: { state: row.state }, after: { state: to }, reason: resolution ?? null,
     });
-    return toAlert(updated);
+    return toAlert(updated, await namesOf(tx, [updated]));
   });
 }
 

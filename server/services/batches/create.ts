@@ -10,6 +10,7 @@ import { findModelRow } from '../models';
 import type { BatchCreated, BatchInput } from '../../../shared/schemas/batches';
 import { revisionLabel } from '../../../shared/schemas/models';
 import { toBatch } from './read';
+import { config } from '../../config';
 
 /** <batch code>-<unit, 4 digits>: readable on a label and unique because the batch code is. */
 export function serialFor(batchCode: string, unit: number): string {
@@ -35,8 +36,8 @@ export async function createBatch(actor: Actor, input: BatchInput, now: Date = n
     const [{ n: steps }] = await tx.select({ n: count() }).from(recipeSteps).where(eq(recipeSteps.modelId, model.id));
     if (steps === 0) throw conflict('MODEL_HAS_NO_STEPS', `The model ${model.code} has no recipe steps yet; an administrator must add them first.`);
 
-    // <model code>-<yyMMdd>-<seq of the day>; one writer per model and day at a time.
-    const prefix = `${model.code}-${DateTime.fromJSDate(now).toFormat('yyMMdd')}-`;
+    // <model code>-<yyMMdd of the plant day>-<seq of the day>; one writer per model and day at a time.
+    const prefix = `${model.code}-${DateTime.fromJSDate(now).setZone(config.plantZone).toFormat('yyMMdd')}-`;
     await tx.execute(sql`SELECT pg_advisory_xact_lock(hashtext(${`batch-code:${prefix}`}))`);
     const [{ n: today }] = await tx
       .select({ n: count() })

@@ -13,20 +13,41 @@ import type { AlertSeverity, Role } from '../../../shared/constants';
 import { lotStats } from '../trace/lot-stats';
 import { containerExpiryOf, PLANT_ZONE } from '../lots/present';
 import { lotExpirySql } from '../lots/expiry-sql';
+import { cureOfRun, profilesForRuns } from '../cure/compute';
 import { causeWords } from '../loading/usability';
+import { plantDateTime } from '../../plant-time';
+import { formatDate } from '../../../shared/plant-time';
+import { pChartLimits } from '../../../shared/stats';
+import { lotFailureDetail, lotFailureSentence } from '../../../shared/alert-words';
 
 export interface Finding {
   kind: string;
   severity: AlertSeverity;
   subjectType: 'mix' | 'step_run' | 'container' | 'lot' | 'material' | 'audit_entry';
   subjectId: string;
+  /** One sentence a person reads in one go. */
   message: string;
+  /** The figures behind it, for a detail line (kept in the alert's data as `detail`). */
+  detail?: string;
   audience: Role[];
   data?: Record<string, unknown>;
 }
 
-function when(d: Date, zone = PLANT_ZONE): string {
-  return DateTime.fromJSDate(d).setZone(zone).toFormat('yyyy-MM-dd HH:mm');
+/** Alert texts are read later, so they carry the plant date and time: 2026-12-02 07:25. */
+function when(d: Date): string {
+  return plantDateTime(d);
+}
+
+/**
+ * An expiry instant in words: a limit at plant midnight (a date printed on a label, usable
+ * through that day) reads "at the end of 2026-12-15"; any other instant "at 2026-12-16 07:25".
+ */
+function expiryWords(at: Date): string {
+  const local = DateTime.fromJSDate(at).setZone(PLANT_ZONE);
+  if (local.hour === 0 && local.minute === 0 && local.second === 0) {
+    return `at the end of ${formatDate(local.minus({ days: 1 }).toJSDate(), PLANT_ZONE)}`;
+  }
+  return `at ${when(at)}`;
 }
 
 
@@ -40,7 +61,7 @@ export async function potLifeExceeded(tx: DbOrTx, now: Date): Promise<Finding[]>
     .where(and(isNull(stationLoads.unloadedAt), eq(mixes.status, 'active'), lte(mixes.potLifeEndsAt, now)));
   return rows.map((r) => ({
     kind: 'pot_life_exceeded', severity: 'critical', subjectType: 'mix', subjectId: r.id, audience: ['assembler', 'quality'],
-    message: `Mix ${r.code} at ${r.station} passed its pot life at ${when(r.endsAt)} and is still loaded: unload and discard it.`,
+    message: `Mix ${r.code} at station ${r.station} passed its pot life at ${when(r.endsAt)} and is still loaded: unload it and dispose of it as its safety data sheet says.`,
     data: { mixCode: r.code, station: r.station, potLifeEndsAt: r.endsAt.toISOString() },
   }));
 }
@@ -50,16 +71,49 @@ export async function shortCures(tx: DbOrTx, now: Date): Promise<Finding[]> {
   const lookbackDays = await readSetting('shortCureLookbackDays', tx);
   const since = new Date(now.getTime() - lookbackDays * 86_400_000);
   const rows = await tx
-    .select({ id: stepRuns.id, batch: buildBatches.code, step: recipeSteps.name, startedAt: stepRuns.startedAt, deviationId: stepRuns.deviationId })
+    .select({
+      id: stepRuns.id, batch: buildBatches.code, step: recipeSteps.name, startedAt: stepRuns.startedAt, deviationId: stepRuns.deviationId,
+      // The run it had to wait for: the latest finished run of the step before, for the batch or the unit.
+      prevRunId: sql<string | null>`(
+        SELECT p.id FROM step_runs p JOIN recipe_steps ps ON ps.id = p.step_id
+        WHERE p.batch_id = ${stepRuns.batchId} AND ps.model_id = ${recipeSteps.modelId} AND ps.seq < ${recipeSteps.seq}
+          AND p.finished_at IS NOT NULL AND p.finished_at <= ${stepRuns.startedAt}
+          AND (p.driver_id IS NULL OR p.driver_id = ${stepRuns.driverId})
+        ORDER BY ps.seq DESC, (p.driver_id IS NULL), p.finished_at DESC LIMIT 1)`,
+    })
     .from(stepRuns)
     .innerJoin(buildBatches, eq(buildBatches.id, stepRuns.batchId))
     .innerJoin(recipeSteps, eq(recipeSteps.id, stepRuns.stepId))
     .where(and(eq(stepRuns.shortCure, true), gte(stepRuns.startedAt, since)));
-  return rows.map((r) => ({
-    kind: 'short_cure', severity: r.deviationId ? 'warning' : 'critical', subjectType: 'step_run', subjectId: r.id, audience: ['quality'],
-    message: `Batch ${r.batch}: "${r.step}" started at ${when(r.startedAt)} before the previous cure was complete${r.deviationId ? ' (under a recorded deviation)' : ' without a deviation'}. Review the drivers of this batch.`,
-    data: { batchCode: r.batch, step: r.step, deviationId: r.deviationId },
-  }));
+  const prevIds = rows.flatMap((r) => (r.prevRunId ? [r.prevRunId] : []));
+  const prevRuns = prevIds.length
+    ? await tx
+        .select({ id: stepRuns.id, finishedAt: stepRuns.finishedAt, cureCompleteAt: stepRuns.cureCompleteAt, area: stations.area })
+        .from(stepRuns)
+        .innerJoin(stations, eq(stations.id, stepRuns.stationId))
+        .where(inArray(stepRuns.id, prevIds))
+    : [];
+  const prevById = new Map(prevRuns.map((p) => [p.id, p]));
+  const profiles = await profilesForRuns(tx, prevIds);
+  const out: Finding[] = [];
+  for (const r of rows) {
+    // When the full cure was due as the gate saw it at the start (readings up to then), as the
+    // station and the cure board showed it; else the time computed at the previous finish.
+    const prev = r.prevRunId ? prevById.get(r.prevRunId) : undefined;
+    const seen = prev?.finishedAt
+      ? await cureOfRun(tx, { finishedAt: prev.finishedAt, area: prev.area }, profiles.get(prev.id) ?? [], r.startedAt)
+      : null;
+    const cureAt = seen ? new Date(seen.cureCompleteAt) : (prev?.cureCompleteAt ?? null);
+    const cure = cureAt
+      ? `, before the previous step's adhesive was fully cured (full cure at ${when(cureAt)})`
+      : ", before the previous step's adhesive was fully cured";
+    out.push({
+      kind: 'short_cure', severity: r.deviationId ? 'warning' : 'critical', subjectType: 'step_run', subjectId: r.id, audience: ['quality'],
+      message: `Batch ${r.batch}: step "${r.step}" started at ${when(r.startedAt)}${cure}, ${r.deviationId ? 'under a recorded deviation' : 'without a deviation'}. Review the drivers of this batch.`,
+      data: { batchCode: r.batch, step: r.step, deviationId: r.deviationId, startedAt: r.startedAt.toISOString(), cureCompleteAt: cureAt?.toISOString() ?? null },
+    });
+  }
+  return out;
 }
 
 /** Containers still in stock (or loaded) past their effective expiry. */
@@ -83,7 +137,7 @@ export async function expiredInStock(tx: DbOrTx, now: Date): Promise<Finding[]> 
     out.push({
       kind: 'expired_in_stock', severity: isLoaded ? 'critical' : 'warning', subjectType: 'container', subjectId: c.id,
       audience: isLoaded ? ['quality', 'receiving', 'assembler'] : ['quality', 'receiving'],
-      message: `Container ${c.code} (${m.name}, lot ${l.supplierLot}) passed ${exp.cause ? causeWords(exp.cause) : 'its expiry'} at ${when(new Date(exp.at))} and is ${isLoaded ? 'loaded at a station' : 'still in stock'}: take it out of use.`,
+      message: `Container ${c.code} (${m.name}, lot ${l.supplierLot}) passed ${exp.cause ? causeWords(exp.cause) : 'its expiry'} ${expiryWords(new Date(exp.at))} and is ${isLoaded ? 'loaded at a station' : 'still in stock'}: take it out of use.`,
       data: { containerCode: c.code, lotId: l.id, materialId: m.id, cause: exp.cause, expiredAt: exp.at, loaded: isLoaded },
     });
   }
@@ -110,7 +164,7 @@ export async function expiringSoon(tx: DbOrTx, now: Date): Promise<Finding[]> {
     const at = new Date(r.expiresAt as unknown as string);
     return {
       kind: 'expiring_soon', severity: 'info', subjectType: 'lot', subjectId: r.id, audience: ['purchasing', 'quality'],
-      message: `Lot ${r.supplierLot} of ${r.material} expires at ${when(at)}, within ${days} days: use it first or plan its disposal.`,
+      message: `Lot ${r.supplierLot} of ${r.material} is usable until ${expiryWords(at).replace(/^at /, '')}, within the next ${days} days: use it first or plan its disposal.`,
       data: { expiresAt: at.toISOString(), windowDays: days },
     };
   });
@@ -127,11 +181,18 @@ export async function quarantineAdvised(tx: DbOrTx, now: Date): Promise<Finding[
   const out = new Map<string, Finding>();
   for (const f of stats.items) {
     if (!f.flagged || (f.status !== 'released' && f.status !== 'on_hold')) continue;
-    const rate = ((100 * f.failures) / f.tested).toFixed(1);
+    const figures = {
+      tested: f.tested, failures: f.failures, baseline: stats.baseline, pValue: f.pValue, qValue: f.qValue,
+      ucl: pChartLimits(stats.baseline, f.tested).ucl, aboveUcl: f.aboveUcl,
+    };
     out.set(f.lotId, {
       kind: 'quarantine_advised', severity: 'warning', subjectType: 'lot', subjectId: f.lotId, audience: ['quality'],
-      message: `Lot ${f.supplierLot} of ${f.materialName}: ${f.failures} of ${f.tested} drivers built with it failed final test (${rate} % against a ${(stats.baseline * 100).toFixed(1)} % baseline; q = ${f.qValue.toPrecision(2)}${f.aboveUcl ? ', above the p-chart limit' : ''}). Consider quarantining it and tracing its drivers.`,
-      data: { inspected: f.tested, defectives: f.failures, pValue: f.pValue, qValue: f.qValue, aboveUcl: f.aboveUcl, baseline: stats.baseline, reason: 'failure_rate' },
+      message: `Lot ${f.supplierLot} of ${f.materialName} ${lotFailureSentence(figures)}. Consider quarantining it and tracing its drivers.`,
+      detail: lotFailureDetail(figures),
+      data: {
+        inspected: f.tested, defectives: f.failures, pValue: f.pValue, qValue: f.qValue, ucl: figures.ucl, aboveUcl: f.aboveUcl,
+        baseline: stats.baseline, reason: 'failure_rate',
+      },
     });
   }
   const today = DateTime.fromJSDate(now).setZone(PLANT_ZONE).toISODate() as string;
@@ -142,12 +203,12 @@ export async function quarantineAdvised(tx: DbOrTx, now: Date): Promise<Finding[
     .where(and(inArray(lots.status, ['released', 'on_hold']), sql`${lots.certificateExpiresOn} < ${today}`));
   for (const c of certs) {
     const prev = out.get(c.id);
-    const text = `the certificate of analysis of lot ${c.supplierLot} (${c.material}) expired on ${c.certExpires}`;
+    const text = `its certificate of analysis expired on ${c.certExpires ? formatDate(c.certExpires, PLANT_ZONE) : 'an unknown date'}`;
     out.set(c.id, prev
       ? { ...prev, message: `${prev.message} Also, ${text}.` }
       : {
           kind: 'quarantine_advised', severity: 'warning', subjectType: 'lot', subjectId: c.id, audience: ['quality'],
-          message: `The certificate of analysis of lot ${c.supplierLot} (${c.material}) expired on ${c.certExpires}: quarantine the lot until a current certificate is on file.`,
+          message: `The certificate of analysis of lot ${c.supplierLot} (${c.material}) ${text.replace(/^its certificate of analysis /, '')}: quarantine the lot until a current certificate is on file.`,
           data: { reason: 'certificate_expired', certificateExpiresOn: c.certExpires },
         });
   }

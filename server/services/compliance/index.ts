@@ -1,3 +1,4 @@
+import { isDeepStrictEqual } from 'node:util';
 import { and, arrayOverlaps, eq, ne, sql } from 'drizzle-orm';
 import { db, type Tx } from '../../db/client';
 import { alerts, outgoingEmails, users } from '../../db/schema';
@@ -6,6 +7,7 @@ import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import type { ComplianceRunResult } from '../../../shared/schemas/alerts';
 import { ALL_CHECKS, type Finding } from './findings';
+import { alertKindWords } from '../../../shared/alert-words';
 
 /** Advisory-lock key of the watch: only one server process sweeps at a time. */
 const WATCH_LOCK = 7226002;
@@ -15,6 +17,10 @@ const SELF_CLEARING = new Set(['pot_life_exceeded', 'expired_in_stock', 'expirin
 
 const keyOf = (f: { kind: string; subjectType: string; subjectId: string }) => `${f.kind}|${f.subjectType}|${f.subjectId}`;
 
+/** What an alert row keeps of a finding: the figures, and the detail line beside them. */
+const dataOf = (f: Finding): Record<string, unknown> | null =>
+  f.data || f.detail ? { ...(f.data ?? {}), ...(f.detail ? { detail: f.detail } : {}) } : null;
+
 /** Queues an e-mail about a new alert to the active users whose roles it concerns. */
 async function queueAlertMail(tx: Tx, alertId: string, f: Finding): Promise<void> {
   const to = (
@@ -23,8 +29,8 @@ async function queueAlertMail(tx: Tx, alertId: string, f: Finding): Promise<void
   if (!to.length) return;
   await tx.insert(outgoingEmails).values({
     to,
-    subject: `[Tacklog] ${f.severity === 'critical' ? 'Critical: ' : ''}${f.kind.replace(/_/g, ' ')}`,
-    body: `${f.message}\n\nOpen Tacklog's alerts page to acknowledge or resolve it.`,
+    subject: `[Tacklog] ${f.severity === 'critical' ? 'Critical: ' : ''}${alertKindWords(f.kind)}`,
+    body: `${f.message}${f.detail ? `\n\n${f.detail}` : ''}\n\nOpen Tacklog's alerts page to acknowledge or resolve it.`,
     alertId,
   });
 }
@@ -52,14 +58,14 @@ export async function sweep(now = new Date()): Promise<ComplianceRunResult> {
       const existing = liveKeys.get(keyOf(f));
       if (existing) {
         // Keep the wording current (counts and times change) without raising it again.
-        if (existing.message !== f.message) {
-          await tx.update(alerts).set({ message: f.message, data: f.data ?? null, severity: f.severity }).where(eq(alerts.id, existing.id));
+        if (existing.message !== f.message || !isDeepStrictEqual(existing.data ?? null, dataOf(f))) {
+          await tx.update(alerts).set({ message: f.message, data: dataOf(f), severity: f.severity }).where(eq(alerts.id, existing.id));
         }
         continue;
       }
       const [row] = await tx
         .insert(alerts)
-        .values({ kind: f.kind, severity: f.severity, subjectType: f.subjectType, subjectId: f.subjectId, message: f.message, audience: f.audience, data: f.data ?? null, raisedAt: now })
+        .values({ kind: f.kind, severity: f.severity, subjectType: f.subjectType, subjectId: f.subjectId, message: f.message, audience: f.audience, data: dataOf(f), raisedAt: now })
         .onConflictDoNothing()
         .returning({ id: alerts.id });
       if (!row) continue;

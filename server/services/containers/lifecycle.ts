@@ -6,6 +6,7 @@ import { isExpired } from '../../../shared/expiry';
 import type { ContainerResult } from '../../../shared/schemas/containers';
 import { containerExpiryOf, type LotRow, type MaterialRow } from '../lots/present';
 import { applyContainerAction, checkInUse, closeOutOfStorage } from './apply';
+import { plantTime } from '../../plant-time';
 
 const CAUSE_WORDS: Record<string, string> = {
   supplier_expiry: "the supplier's expiry date",
@@ -15,8 +16,9 @@ const CAUSE_WORDS: Record<string, string> = {
   out_of_storage: 'its allowed time out of cold storage',
 };
 
+/** A refusal names the moment in plant time ("since 07:25", "since Thu 07:25"). */
 function when(d: string): string {
-  return `${d.slice(0, 16).replace('T', ' ')} UTC`;
+  return d ? plantTime(d) : 'an unknown time';
 }
 
 /** Only a released lot may be opened (LOT_ON_HOLD, LOT_QUARANTINED, LOT_REJECTED, LOT_USED_UP otherwise). */

@@ -3,6 +3,7 @@ import type { Actor } from '../auth/actor';
 import { requirePermission } from '../auth/actor';
 import type { ContainerResult } from '../../../shared/schemas/containers';
 import { applyContainerAction, checkInUse, closeOutOfStorage } from './apply';
+import { plantTime } from '../../plant-time';
 
 /** Frozen material: records the end of the thaw; its thawed life starts now. */
 export async function thawContainer(actor: Actor, id: string): Promise<ContainerResult> {
@@ -13,7 +14,7 @@ export async function thawContainer(actor: Actor, id: string): Promise<Container
       throw conflict('NOT_FROZEN', `${material.name} is not frozen material; there is no thaw to record.`, { containerId: c.id });
     }
     checkInUse(ctx);
-    if (c.thawedAt) throw conflict('ALREADY_THAWED', `Container ${c.code} was already thawed at ${c.thawedAt.toISOString()}; frozen material is not refrozen.`, { containerId: c.id });
+    if (c.thawedAt) throw conflict('ALREADY_THAWED', `Container ${c.code} was already thawed at ${plantTime(c.thawedAt)}; frozen material is not refrozen.`, { containerId: c.id });
     return { set: { thawedAt: now } };
   });
 }
@@ -32,7 +33,7 @@ export async function takeOutOfStorage(actor: Actor, id: string): Promise<Contai
     checkInUse(ctx);
     const c = ctx.container;
     if (c.outOfStorageSince) {
-      throw conflict('ALREADY_OUT_OF_STORAGE', `Container ${c.code} is already out of cold storage (since ${c.outOfStorageSince.toISOString()}).`, { containerId: c.id });
+      throw conflict('ALREADY_OUT_OF_STORAGE', `Container ${c.code} is already out of cold storage (since ${plantTime(c.outOfStorageSince)}).`, { containerId: c.id });
     }
     return { set: { outOfStorageSince: now } };
   });

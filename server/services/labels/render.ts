@@ -6,6 +6,7 @@
 import { DateTime } from 'luxon';
 import { GHS_PICTOGRAMS, type GhsPictogram, type StorageClass } from '../../../shared/constants';
 import type { LabelField, LabelLayout } from '../../../shared/schemas/labels';
+import { formatDate, formatDateTime } from '../../../shared/plant-time';
 import { ghsSvg } from './templates';
 import { qrSvg } from './qr';
 
@@ -51,9 +52,9 @@ export function useByText(expiry: string | null, zone: string): string {
   if (!expiry) return 'No expiry date';
   const at = DateTime.fromISO(expiry, { zone });
   if (at.hour === 0 && at.minute === 0 && at.second === 0 && at.millisecond === 0) {
-    return `Use by ${at.minus({ days: 1 }).toISODate()}`;
+    return `Use by ${formatDate(at.minus({ days: 1 }).toJSDate(), zone)}`;
   }
-  return `Use before ${at.toFormat('yyyy-MM-dd HH:mm')}`;
+  return `Use before ${formatDateTime(expiry, zone)}`;
 }
 
 function fieldText(field: LabelField, d: LabelData, zone: string): string {
@@ -62,7 +63,7 @@ function fieldText(field: LabelField, d: LabelData, zone: string): string {
     case 'materialCode': return d.materialCode;
     case 'supplierLot': return `Lot ${d.supplierLot}`;
     case 'containerOfTotal': return `Container ${d.seq} of ${d.total}`;
-    case 'receivedOn': return `Received ${DateTime.fromISO(d.receivedAt, { zone }).toISODate()}`;
+    case 'receivedOn': return `Received ${formatDate(d.receivedAt, zone)}`;
     case 'effectiveExpiry': return useByText(d.effectiveExpiry, zone);
     case 'storageClass': return STORAGE_WORDS[d.storageClass];
     case 'quantity': return `${d.quantity} ${d.unit}`;

@@ -6,6 +6,7 @@ import type { containers, lots, materials, mixes } from '../../db/schema';
 import { conflict } from '../../errors';
 import { earliestOf, isExpired, lotExpiry, type ExpiryCause, type ExpiryResult } from '../../../shared/expiry';
 import { containerExpiryOf, expiryLotOf, expiryMaterialOf, PLANT_ZONE } from '../lots/present';
+import { plantTime } from '../../plant-time';
 
 export type ContainerRow = typeof containers.$inferSelect;
 export type LotRow = typeof lots.$inferSelect;
@@ -27,8 +28,9 @@ export function causeWords(cause: ExpiryCause): string {
   return CAUSE_WORDS[cause];
 }
 
+/** A refusal names the moment in plant time ("since 07:25", "since Thu 07:25"). */
 function when(iso: string): string {
-  return `${iso.slice(0, 16).replace('T', ' ')} UTC`;
+  return plantTime(iso);
 }
 
 /** Effective expiry of a container (a sealed one being loaded is judged as it is now: unopened). */

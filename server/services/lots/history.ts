@@ -1,10 +1,61 @@
 import { and, asc, eq, inArray, or, sql } from 'drizzle-orm';
 import { db } from '../../db/client';
-import { auditLog, containers, lots, users } from '../../db/schema';
+import { attachments, auditLog, buildBatches, containers, lots, materials, mixes, stations, suppliers, users } from '../../db/schema';
 import { notFound } from '../../errors';
 import { requirePermission, type Actor } from '../auth/actor';
 import { LOT_STATUSES, type LotStatus } from '../../../shared/constants';
 import type { HistoryEntry, StatusChangeEntry } from '../../../shared/schemas/lots';
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/** Which table names an id field's value, and by what (a code, a file name, a name). */
+const NAMED_BY = {
+  certificateId: { table: attachments, id: attachments.id, name: attachments.filename },
+  stationId: { table: stations, id: stations.id, name: stations.code },
+  batchId: { table: buildBatches, id: buildBatches.id, name: buildBatches.code },
+  mixId: { table: mixes, id: mixes.id, name: mixes.code },
+  containerId: { table: containers, id: containers.id, name: containers.code },
+  lotId: { table: lots, id: lots.id, name: lots.supplierLot },
+  supplierId: { table: suppliers, id: suppliers.id, name: suppliers.name },
+  materialId: { table: materials, id: materials.id, name: materials.name },
+} as const;
+
+type NamedField = keyof typeof NAMED_BY;
+
+/** The ids found under the known id fields of the audit values, per field. */
+function idsByField(values: unknown[]): Map<NamedField, Set<string>> {
+  const out = new Map<NamedField, Set<string>>();
+  for (const v of values) {
+    if (!v || typeof v !== 'object' || Array.isArray(v)) continue;
+    for (const [key, value] of Object.entries(v as Record<string, unknown>)) {
+      if (!(key in NAMED_BY) || typeof value !== 'string' || !UUID.test(value)) continue;
+      const set = out.get(key as NamedField) ?? new Set<string>();
+      set.add(value);
+      out.set(key as NamedField, set);
+    }
+  }
+  return out;
+}
+
+/** id → name for every id the history mentions (one query per kind of thing). */
+async function namesOfIds(values: unknown[]): Promise<Map<string, string>> {
+  const names = new Map<string, string>();
+  for (const [field, ids] of idsByField(values)) {
+    const { table, id, name } = NAMED_BY[field];
+    const rows = await db.select({ id, name }).from(table).where(inArray(id, [...ids]));
+    for (const r of rows) names.set(r.id, r.name);
+  }
+  return names;
+}
+
+function namesIn(values: unknown[], names: Map<string, string>): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const ids of idsByField(values).values()) for (const id of ids) {
+    const name = names.get(id);
+    if (name) out[id] = name;
+  }
+  return out;
+}
 
 async function requireLot(id: string): Promise<void> {
   const [lot] = await db.select({ id: lots.id }).from(lots).where(eq(lots.id, id));
@@ -43,12 +94,14 @@ export async function getLotHistory(actor: Actor, id: string): Promise<{ items: 
       ),
     )
     .orderBy(asc(auditLog.at), asc(auditLog.id));
+  const names = await namesOfIds(rows.flatMap((r) => [r.before, r.after]));
   return {
     items: rows.map((r) => ({
       ...r,
       at: r.at.toISOString(),
       actorName: r.actorName ?? null,
       containerCode: r.containerCode ?? null,
+      names: namesIn([r.before, r.after], names),
     })),
   };
 }

@@ -12,6 +12,7 @@ import { temperatureAt } from '../cure/readings';
 import { adjustedMinutes, potLifeEndsAt } from '../../../shared/cure';
 import type { MixInput, MixResult } from '../../../shared/schemas/mixes';
 import { toMix } from './read';
+import { config } from '../../config';
 
 function checkPartners(resin: ContainerContext, hardener: ContainerContext): void {
   const r = resin.material;
@@ -95,8 +96,8 @@ export async function createMix(actor: Actor, stationId: string, input: MixInput
     const endsAt = profile && temp ? potLifeEndsAt(refPotLife, profile, now.toISOString(), temp.tempC) : new Date(now.getTime() + refPotLife * 60_000).toISOString();
     const minutes = profile && temp ? adjustedMinutes(refPotLife, profile, temp.tempC) : refPotLife;
 
-    // MX-<yyMMdd>-<seq of the day>, one writer per day at a time.
-    const prefix = `MX-${DateTime.fromJSDate(now).toFormat('yyMMdd')}-`;
+    // MX-<yyMMdd of the plant day>-<seq of the day>, one writer per day at a time.
+    const prefix = `MX-${DateTime.fromJSDate(now).setZone(config.plantZone).toFormat('yyMMdd')}-`;
     await tx.execute(sql`SELECT pg_advisory_xact_lock(hashtext(${`mix-code:${prefix}`}))`);
     const [{ n }] = await tx.select({ n: count() }).from(mixes).where(like(mixes.code, `${prefix}%`));
     const code = `${prefix}${String(n + 1).padStart(3, '0')}`;

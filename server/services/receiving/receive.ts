@@ -8,6 +8,7 @@ import { recordAudit } from '../audit';
 import { toContainer, toLot, type MaterialRow } from '../lots/present';
 import type { DuplicateLotDetails, ReceiveLotResult, ReceiveLotValues } from '../../../shared/schemas/lots';
 import { newContainerCodes } from './codes';
+import { plantDate } from '../../plant-time';
 
 async function loadMaterial(tx: Tx, id: string): Promise<MaterialRow> {
   const [m] = await tx.select().from(materials).where(eq(materials.id, id));
@@ -59,7 +60,7 @@ export async function receiveLot(actor: Actor, input: ReceiveLotValues): Promise
     }
     const duplicates = await findDuplicates(tx, material.id, input.supplierLot);
     if (duplicates && !input.confirmDuplicate) {
-      const when = duplicates.existingLot.receivedAt.slice(0, 10);
+      const when = plantDate(duplicates.existingLot.receivedAt);
       throw conflict('DUPLICATE_LOT', `Supplier lot ${input.supplierLot} of ${material.code} was already received on ${when}. If this really is another delivery of the same lot, confirm to receive it again.`, duplicates);
     }
     const status = material.requiresInspection ? 'on_hold' : 'released';

@@ -8,10 +8,13 @@ import { recordAudit } from '../audit';
 import type { StepRun } from '../../../shared/schemas/steps';
 import { checkContainerUsable, checkMixUsable, containersByIds, mixesByIds } from '../loading';
 import { describeRun } from './describe';
+import { plantTime } from '../../plant-time';
+import { formatRelative } from '../../../shared/plant-time';
 import { openRun, recomputeCure, runToWaitFor, stepContext, type StepActionRequest, type StepContext } from './context';
 
-function when(iso: string): string {
-  return `${iso.slice(0, 16).replace('T', ' ')} UTC`;
+/** The gate names the moment in plant time, with how long is left: "Thu 07:25, in 27 h 10 min". */
+function when(iso: string, now: Date): string {
+  return `${plantTime(iso, now)}, ${formatRelative(iso, now)}`;
 }
 
 /** Steps run in seq order: every earlier step needs a finished whole-batch run. */
@@ -60,7 +63,7 @@ async function cureGate(tx: Tx, ctx: StepContext, now: Date, actor: Actor): Prom
   if (!deviation) {
     throw conflict(
       'CURE_INCOMPLETE',
-      `The adhesive of step "${prev.name}" is not fully cured until ${when(cure.cureCompleteAt)} (${Math.floor(cure.progress * 100)} % now). Wait, or ask quality to record a deviation to start early.`,
+      `The adhesive of step "${prev.name}" is not fully cured until ${when(cure.cureCompleteAt, now)} (${Math.floor(cure.progress * 100)} % now). Wait, or ask quality to record a deviation to start early.`,
       { cureCompleteAt: cure.cureCompleteAt, handlingAt: cure.handlingAt, stepRunId: prevRun.id, stepId: prev.id },
     );
   }

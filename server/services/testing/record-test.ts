@@ -7,6 +7,7 @@ import { recordAudit } from '../audit';
 import type { TestCreated, TestInput } from '../../../shared/schemas/tests';
 import { toTestRecord } from './records';
 import { cureOfRun, profilesForRuns } from '../cure';
+import { plantTime } from '../../plant-time';
 
 interface MissingStep {
   step_id: string;
@@ -91,7 +92,7 @@ export async function recordTest(actor: Actor, input: TestInput): Promise<TestCr
     const now = new Date();
     const cureAt = await lastStepCureCompleteAt(tx, driver.batchId, driver.id, now);
     if (cureAt && cureAt > now) {
-      throw conflict('CURE_INCOMPLETE', `The last step's adhesive is not fully cured until ${cureAt.toISOString()}; test after that.`, {
+      throw conflict('CURE_INCOMPLETE', `The last step's adhesive is not fully cured until ${plantTime(cureAt)}; test after that.`, {
         cureCompleteAt: cureAt.toISOString(),
       });
     }

@@ -1,6 +1,7 @@
-import { DateTime } from 'luxon';
-import type { AlertKind, AlertSeverity, AlertState } from '@shared/constants';
+import type { AlertSeverity, AlertState } from '@shared/constants';
 import type { Alert } from '@shared/schemas/alerts';
+import { ALERT_KIND_WORDS, alertKindWords } from '@shared/alert-words';
+import { formatDateTime, formatRelative } from '@shared/plant-time';
 
 /**
  * How alerts read on screen: severity and state always as a word with an icon and a colour
@@ -26,15 +27,8 @@ export const STATE_LOOK: Record<AlertState, AlertLook> = {
   resolved: { label: 'Resolved', color: 'positive', icon: 'task_alt', hint: 'Done: what was done is recorded.' },
 };
 
-export const KIND_WORDS: Record<AlertKind, string> = {
-  pot_life_exceeded: 'Pot life passed',
-  short_cure: 'Next step before cure was complete',
-  expired_in_stock: 'Expired material in stock',
-  expiring_soon: 'Lot expiring soon',
-  quarantine_advised: 'Quarantine advised',
-  below_reorder_point: 'Below reorder point',
-  audit_chain_broken: 'Audit trail does not verify',
-};
+/** Kinds in plain words (one list, shared with the server's e-mail subjects). */
+export const KIND_WORDS = ALERT_KIND_WORDS;
 
 export function severityLook(severity: string): AlertLook {
   return SEVERITY_LOOK[severity as AlertSeverity] ?? { label: severity, color: 'grey-7', icon: 'help', hint: '' };
@@ -46,10 +40,7 @@ export function stateLook(state: string): AlertLook {
 
 /** A kind in plain words; an unknown kind reads as its words ("new_kind" → "New kind"). */
 export function kindWords(kind: string): string {
-  const known = (KIND_WORDS as Record<string, string>)[kind];
-  if (known) return known;
-  const words = kind.replace(/_/g, ' ').trim();
-  return words.charAt(0).toUpperCase() + words.slice(1);
+  return alertKindWords(kind);
 }
 
 export interface SubjectRoute {
@@ -106,12 +97,25 @@ export function alertSubject(alert: Pick<Alert, 'subjectType' | 'subjectId' | 'd
   }
 }
 
-/** When something happened, relative to `now` ("3 hours ago") and in full, in the user's locale. */
-export function whenText(iso: string, now: Date = new Date()): { relative: string; absolute: string } {
-  const at = DateTime.fromISO(iso);
+/** When something happened, relative to `now` ("3 h 20 min ago") and in full in plant time ("2026-12-02 07:25"). */
+export function whenText(iso: string, zone: string, now: number | Date = Date.now()): { relative: string; absolute: string } {
+  return { relative: formatRelative(iso, now), absolute: formatDateTime(iso, zone) };
+}
+
+/**
+ * Who took an alert up and when: "Acknowledged by Dana Quill, 2026-12-02 07:25"; a resolution
+ * without a person was the compliance watch clearing it.
+ */
+export function handledText(
+  alert: Pick<Alert, 'acknowledgedAt' | 'acknowledgedByName' | 'resolvedAt' | 'resolvedBy' | 'resolvedByName'>,
+  zone: string,
+): { acknowledged: string | null; resolved: string | null } {
+  const by = (name: string | null) => (name ? ` by ${name}` : '');
   return {
-    relative: at.toRelative({ base: DateTime.fromJSDate(now) }) ?? '',
-    absolute: at.toLocaleString(DateTime.DATETIME_MED),
+    acknowledged: alert.acknowledgedAt ? `Acknowledged${by(alert.acknowledgedByName)}, ${formatDateTime(alert.acknowledgedAt, zone)}` : null,
+    resolved: alert.resolvedAt
+      ? `Resolved${alert.resolvedBy ? by(alert.resolvedByName) : ' by the compliance watch'}, ${formatDateTime(alert.resolvedAt, zone)}`
+      : null,
   };
 }
 

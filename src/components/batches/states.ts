@@ -35,14 +35,3 @@ const LOOKS: Record<StateKind, Record<string, StateLook>> = {
 export function stateLook(kind: StateKind, state: string): StateLook {
   return LOOKS[kind][state] ?? { label: state.replace(/_/g, ' '), color: 'grey-7', icon: 'help' };
 }
-
-/** "14:05" today, "Tue 14:05" within a week, else the date and time. */
-export function shortTime(iso: string | null | undefined, now = Date.now()): string {
-  if (!iso) return '';
-  const d = new Date(iso);
-  const time = d.toLocaleTimeString([], { hour: '2-digit', minute: '2-digit' });
-  const today = new Date(now);
-  if (d.toDateString() === today.toDateString()) return time;
-  if (Math.abs(d.getTime() - now) < 6 * 86_400_000) return `${d.toLocaleDateString([], { weekday: 'short' })} ${time}`;
-  return `${d.toLocaleDateString()} ${time}`;
-}

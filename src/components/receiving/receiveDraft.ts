@@ -1,4 +1,5 @@
 import type { ReceiveLotInput } from '@shared/schemas/lots';
+import { fromPlantInput } from '@shared/plant-time';
 
 /** What the receiving form's fields hold (strings as the inputs give them). */
 export interface ReceiveDraft {
@@ -41,15 +42,17 @@ function numberOrUndefined(v: number | string | null): number | undefined {
   return Number.isNaN(n) ? undefined : n;
 }
 
-/** A datetime-local value ("2026-03-04T07:30", local time) as an ISO instant; '' → undefined. */
-export function localToIso(value: string): string | undefined {
+/**
+ * A datetime-local value ("2026-03-04T07:30", plant time, not the browser's) as an ISO instant;
+ * '' → undefined; anything unreadable is sent as it is so the server names the field.
+ */
+export function localToIso(value: string, zone: string): string | undefined {
   if (!value) return undefined;
-  const d = new Date(value);
-  return Number.isNaN(d.getTime()) ? value : d.toISOString();
+  return fromPlantInput(value, zone) ?? value;
 }
 
 /** The POST /api/lots body for the draft (checked with receiveLotInputSchema before sending). */
-export function draftToReceiveInput(d: ReceiveDraft, confirmDuplicate = false): ReceiveLotInput {
+export function draftToReceiveInput(d: ReceiveDraft, zone: string, confirmDuplicate = false): ReceiveLotInput {
   return {
     materialId: d.materialId ?? undefined,
     supplierId: d.supplierId ?? undefined,
@@ -58,7 +61,7 @@ export function draftToReceiveInput(d: ReceiveDraft, confirmDuplicate = false): 
     quantityPerContainer: numberOrUndefined(d.quantityPerContainer),
     manufacturedOn: d.manufacturedOn || null,
     expiresOn: d.expiresOn || null,
-    receivedAt: localToIso(d.receivedAt) ?? null,
+    receivedAt: localToIso(d.receivedAt, zone) ?? null,
     gtin: d.gtin.trim() || null,
     location: d.location,
     notes: d.notes,
