@@ -2,6 +2,7 @@ import type { Server } from 'node:http';
 import { createApp } from './app';
 import { config } from './config';
 import { closeDb } from './db/client';
+import { isDatabaseUnavailable, noteDatabaseDown } from './db/availability';
 import { scheduleComplianceWatch } from './jobs/compliance';
 import { sweep } from './services/compliance';
 
@@ -15,7 +16,27 @@ export async function startServer(options: { serveClient?: boolean; port?: numbe
   });
 }
 
+/**
+ * A database outage must not end the process: whatever escapes as an unhandled rejection or
+ * exception because PostgreSQL went away is logged (once per outage) and the server keeps
+ * answering 503 until it is back. Anything else leaves the process in an unknown state: it exits,
+ * and `npm start`'s supervisor starts a fresh one.
+ */
+function keepRunningThroughDatabaseOutages(): void {
+  const handle = (kind: string) => (err: unknown) => {
+    if (isDatabaseUnavailable(err)) {
+      noteDatabaseDown(err);
+      return;
+    }
+    console.error(`[server] ${kind}; exiting:`, err);
+    process.exit(1);
+  };
+  process.on('unhandledRejection', handle('unhandled rejection'));
+  process.on('uncaughtException', handle('uncaught exception'));
+}
+
 async function main() {
+  keepRunningThroughDatabaseOutages();
   const server = await startServer({ serveClient: process.env.TACKLOG_SERVE_CLIENT !== '0' });
   const addr = server.address();
   const port = typeof addr === 'object' && addr ? addr.port : config.port;

@@ -2,6 +2,7 @@ import type { ErrorRequestHandler, RequestHandler } from 'express';
 import type { z } from 'zod';
 import type { FieldIssue } from '../../shared/schemas/common';
 import { AppError } from '../errors';
+import { DB_RETRY_AFTER_SECONDS, isDatabaseUnavailable, noteDatabaseDown } from '../db/availability';
 
 /** zod issues as the API's `details`: [{field: 'containers', message: '...'}]. */
 export function zodIssues(error: z.ZodError, prefix = ''): FieldIssue[] {
@@ -23,13 +24,22 @@ interface HttpishError {
   field?: string;
 }
 
-/** The single error handler: AppError → its status; body-parser and upload errors → 4xx; the rest → 500. */
+/** 503 DB_UNAVAILABLE: the request could not reach PostgreSQL (down, restarting, refusing connections). */
+export function databaseUnavailable(): AppError {
+  return new AppError('DB_UNAVAILABLE', 'The database cannot be reached right now; Tacklog retries by itself. Try again in a few seconds.', 503);
+}
+
+/**
+ * The single error handler: AppError → its status; body-parser and upload errors → 4xx; the
+ * database unreachable → 503 DB_UNAVAILABLE with Retry-After; the rest → 500.
+ */
 export const errorHandler: ErrorRequestHandler = (err, req, res, next) => {
   if (res.headersSent) {
     next(err);
     return;
   }
   if (err instanceof AppError) {
+    if (err.status === 503) res.set('Retry-After', String(DB_RETRY_AFTER_SECONDS));
     res.status(err.status).json({ error: { code: err.code, message: err.message, details: err.details } });
     return;
   }
@@ -51,6 +61,13 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, next) => {
   const status = e.status ?? e.statusCode;
   if (typeof status === 'number' && status >= 400 && status < 500) {
     res.status(status).json({ error: { code: 'BAD_REQUEST', message: 'The request could not be read.' } });
+    return;
+  }
+  if (isDatabaseUnavailable(err)) {
+    noteDatabaseDown(err);
+    const e503 = databaseUnavailable();
+    res.set('Retry-After', String(DB_RETRY_AFTER_SECONDS));
+    res.status(503).json({ error: { code: e503.code, message: e503.message } });
     return;
   }
   console.error(`[error] ${req.method} ${req.originalUrl}:`, err);
