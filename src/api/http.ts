@@ -127,6 +127,7 @@ export async function apiFetch<S extends z.ZodTypeAny>(path: string, request: Ap
   const method = request.method ?? 'GET';
   const retry = request.retryWhileDatabaseDown ?? (method === 'GET' || Boolean(request.idempotencyKey));
   let response: Response;
+  let sawDatabaseDown = false;
   for (;;) {
     try {
       response = await fetch(withQuery(path, request.query), {
@@ -140,9 +141,17 @@ export async function apiFetch<S extends z.ZodTypeAny>(path: string, request: Ap
       if (err instanceof DOMException && err.name === 'AbortError') throw err;
       throw new ApiError(0, 'NETWORK', 'The Tacklog server could not be reached. Check the connection and try again.');
     }
+    if (response.status === 409 && sawDatabaseDown && request.idempotencyKey) {
+      // An earlier try of this key was cut off by the outage; the server releases it shortly.
+      const refusal = errorFrom(409, await readJson(response).catch(() => undefined));
+      if (refusal.code !== 'IDEMPOTENCY_IN_PROGRESS') throw refusal;
+      await wait(retryDelayMs(null), request.signal);
+      continue;
+    }
     if (response.status !== 503) break;
     const refusal = errorFrom(503, await readJson(response).catch(() => undefined));
     if (refusal.code !== 'DB_UNAVAILABLE') throw refusal;
+    sawDatabaseDown = true;
     const delay = retryDelayMs(response.headers.get('Retry-After'));
     reportDatabaseDown(delay);
     if (!retry) {

@@ -184,6 +184,29 @@ describe('apiFetch while the database is unreachable (503 DB_UNAVAILABLE)', () =
     expect(calls.map((c) => (c.init.headers as Record<string, string>)['Idempotency-Key'])).toEqual(['key-7', 'key-7']);
   });
 
+  it('after an outage, a keyed write whose first try is still held (409 IDEMPOTENCY_IN_PROGRESS) waits and is sent again', async () => {
+    const answers = [
+      { status: 503, body: down },
+      { status: 409, body: { error: { code: 'IDEMPOTENCY_IN_PROGRESS', message: 'still running' } } },
+      { status: 200, body: { ok: true } },
+    ];
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async (url: string, init: RequestInit) => {
+        calls.push({ url, init });
+        const a = answers.shift()!;
+        return new Response(JSON.stringify(a.body), { status: a.status, headers: { 'Content-Type': 'application/json', 'Retry-After': '1' } });
+      }),
+    );
+    const result = apiFetch('/api/stations/s1/load', { method: 'POST', body: {}, idempotencyKey: 'key-8', schema: okSchema });
+    await vi.advanceTimersByTimeAsync(10_000);
+    await expect(result).resolves.toEqual({ ok: true });
+    expect(calls).toHaveLength(3);
+    // Without an outage first, the same 409 is an error at once.
+    answer(409, { error: { code: 'IDEMPOTENCY_IN_PROGRESS', message: 'still running' } });
+    await expect(apiFetch('/api/stations/s1/load', { method: 'POST', body: {}, idempotencyKey: 'key-9', schema: okSchema })).rejects.toMatchObject({ status: 409 });
+  });
+
   it('a write without a key is not repeated: it fails with DB_UNAVAILABLE and the banner shows', async () => {
     downThenUp(1);
     const err = await apiFetch('/api/suppliers', { method: 'POST', body: { name: 'x' }, schema: okSchema }).catch((e: unknown) => e);
