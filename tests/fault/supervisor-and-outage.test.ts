@@ -7,7 +7,8 @@
  *  - SIGTERM (what Ctrl-C does) stops the server and the cluster for good;
  *  - PostgreSQL stopped and started under load: meanwhile every answer is 503 DB_UNAVAILABLE with
  *    Retry-After (never a 500, never a dropped connection), the server process never exits, and
- *    it answers 2xx again by itself once the database is back.
+ *    it answers 2xx again by itself once the database is back; writes repeated with their
+ *    Idempotency-Key through the outage are applied exactly once.
  * Every wait has a deadline, so a broken build fails instead of hanging.
  */
 import crypto from 'node:crypto';
@@ -77,6 +78,54 @@ function startLoad(baseUrl: string, token: string, modelId: string, area: string
     async stop() {
       running = false;
       await Promise.all(loops);
+    },
+  };
+}
+
+/**
+ * One writer that sends readings with an Idempotency-Key, as a station does, and repeats each
+ * with the same key after 503 DB_UNAVAILABLE or 409 IDEMPOTENCY_IN_PROGRESS until it is answered.
+ */
+function startKeyedWriter(baseUrl: string, token: string, area: string) {
+  const done: { key: string; id: string }[] = [];
+  const problems: string[] = [];
+  let running = true;
+  const loop = (async () => {
+    for (let i = 0; running; i++) {
+      const key = crypto.randomUUID();
+      const body = JSON.stringify({ area, at: new Date(Date.UTC(2026, 1, 1) + i * 1000).toISOString(), tempC: 21 });
+      const deadline = Date.now() + 120_000;
+      for (;;) {
+        const res = await fetch(`${baseUrl}/api/readings`, {
+          method: 'POST',
+          headers: { 'content-type': 'application/json', authorization: `Bearer ${token}`, 'idempotency-key': key },
+          body,
+        });
+        const parsed = (await res.json()) as { id?: string; error?: { code: string } };
+        if (res.status === 201 && parsed.id) {
+          done.push({ key, id: parsed.id });
+          break;
+        }
+        const code = parsed.error?.code;
+        if ((res.status === 503 && code === 'DB_UNAVAILABLE') || (res.status === 409 && code === 'IDEMPOTENCY_IN_PROGRESS')) {
+          if (Date.now() > deadline) {
+            problems.push(`key ${key} still ${res.status} ${code} after 120 s`);
+            break;
+          }
+          await new Promise((r) => setTimeout(r, 1000));
+          continue;
+        }
+        problems.push(`${res.status} ${code ?? ''}`);
+        break;
+      }
+    }
+  })();
+  return {
+    done,
+    problems,
+    async stop() {
+      running = false;
+      await loop;
     },
   };
 }
@@ -196,7 +245,9 @@ describe('PostgreSQL stopped and started under load', () => {
     const modelId = await firstModelId(a.baseUrl, token);
     const server = a.serverPid();
 
-    const load = startLoad(a.baseUrl, token, modelId, `fault-db-${crypto.randomBytes(3).toString('hex')}`);
+    const load = startLoad(a.baseUrl, token, modelId, `fault-db-${crypto.randomBytes(3).toString('hex')}`, 3);
+    const keyedArea = `fault-keyed-${crypto.randomBytes(3).toString('hex')}`;
+    const keyed = startKeyedWriter(a.baseUrl, token, keyedArea);
     await until(() => load.ok() >= 30, '30 answered writes before stopping PostgreSQL');
     pgCtl(dataDir, 'stop');
     const stoppedAt = Date.now();
@@ -209,6 +260,7 @@ describe('PostgreSQL stopped and started under load', () => {
     const startedAt = Date.now();
     await until(() => load.count((o) => o.status >= 200 && o.status < 300 && o.at > startedAt) >= 30, '30 answered writes after PostgreSQL is back');
     await load.stop();
+    await keyed.stop();
 
     // Never an answer other than 2xx or 503 DB_UNAVAILABLE + Retry-After, never a dropped connection.
     const unexpected = load.outcomes.filter((o) => !((o.status >= 200 && o.status < 300) || (o.status === 503 && o.code === 'DB_UNAVAILABLE' && /^\d+$/.test(o.retryAfter ?? ''))));
@@ -223,5 +275,17 @@ describe('PostgreSQL stopped and started under load', () => {
     const ok = load.outcomes.filter((o) => o.status >= 200 && o.status < 300);
     expect(await missingIds(a.databaseUrl, 'readings', ok.filter((o) => o.kind === 'reading').map((o) => o.id!))).toEqual([]);
     expect(await missingIds(a.databaseUrl, 'build_batches', ok.filter((o) => o.kind === 'batch').map((o) => o.id!))).toEqual([]);
+
+    // Keyed writes repeated through the outage: each applied exactly once.
+    expect(keyed.problems).toEqual([]);
+    expect(keyed.done.length).toBeGreaterThan(0);
+    const client = new pg.Client({ connectionString: a.databaseUrl });
+    await client.connect();
+    try {
+      const rows = await client.query<{ id: string }>('SELECT id FROM readings WHERE area = $1', [keyedArea]);
+      expect(rows.rows.map((r) => r.id).sort()).toEqual(keyed.done.map((d) => d.id).sort());
+    } finally {
+      await client.end();
+    }
   });
 });
