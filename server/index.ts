@@ -46,7 +46,7 @@ async function main() {
     // A first sweep at start, so alerts are current before the first scheduled run.
     sweep().then(
       (r) => r.ran && console.log(`[watch] first sweep: raised ${r.raised}, resolved ${r.resolved}`),
-      (err) => console.error('[watch] first sweep failed:', err),
+      (err) => (isDatabaseUnavailable(err) ? noteDatabaseDown(err) : console.error('[watch] first sweep failed:', err)),
     );
   }
   const stop = (signal: string) => {
