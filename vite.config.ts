@@ -48,6 +48,18 @@ export default defineConfig({
       {
         extends: true,
         test: {
+          // kill -9 and PostgreSQL outages against the real `npm start` (tests/helpers/supervised.ts)
+          name: 'fault',
+          include: ['tests/fault/**/*.test.ts'],
+          environment: 'node',
+          fileParallelism: false,
+          testTimeout: 300_000,
+          hookTimeout: 300_000,
+        },
+      },
+      {
+        extends: true,
+        test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
           environment: 'node',

@@ -10,7 +10,10 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
-const COMMANDS = { start: 'start.ts', test: 'test.ts', dev: 'dev.ts', bench: 'bench.ts', 'audit-verify': 'audit-verify.ts' };
+const COMMANDS = {
+  start: 'start.ts', test: 'test.ts', dev: 'dev.ts', bench: 'bench.ts',
+  backup: 'backup.ts', restore: 'restore.ts', 'audit-verify': 'audit-verify.ts',
+};
 
 function fail(message, code = 1) {
   console.error(`[tacklog] ${message}`);

@@ -16,7 +16,7 @@ import os from 'node:os';
 import path from 'node:path';
 import pg from 'pg';
 import { aptInstall } from './lib/apt';
-import { isRoot, log, onExit, root, runCapture, UserFacingError } from './lib/proc';
+import { dataDir as projectDataDir, isRoot, log, onExit, root, runCapture, UserFacingError } from './lib/proc';
 
 const PG_ROOT = '/usr/lib/postgresql';
 const PG_USER = 'postgres';
@@ -428,7 +428,8 @@ export async function dropDatabase(server: PgServer, name: string): Promise<void
 
 /**
  * The PostgreSQL server for a script: DATABASE_URL's server when set, otherwise the project's
- * cluster in .data/pg (start/dev, port TACKLOG_PG_PORT or 54329) or a throwaway one (test).
+ * cluster in .data/pg (TACKLOG_DATA_DIR/pg; start/dev, port TACKLOG_PG_PORT or 54329) or a
+ * throwaway one (test).
  */
 export async function providePostgres(kind: 'persistent' | 'throwaway'): Promise<PgServer> {
   const external = process.env.DATABASE_URL;
@@ -439,7 +440,7 @@ export async function providePostgres(kind: 'persistent' | 'throwaway'): Promise
   if (kind === 'persistent') {
     const port = Number(process.env.TACKLOG_PG_PORT || 54329);
     if (!Number.isInteger(port) || port <= 0 || port > 65535) throw new UserFacingError(`TACKLOG_PG_PORT must be a port number, got "${process.env.TACKLOG_PG_PORT}"`);
-    return startLocalCluster({ dataDir: path.join(root, '.data', 'pg'), port });
+    return startLocalCluster({ dataDir: path.join(projectDataDir(), 'pg'), port });
   }
   const dataDir = path.join(root, '.tmp', `pg-test-${crypto.randomBytes(4).toString('hex')}`);
   return startLocalCluster({ dataDir, port: await freePort(), throwaway: true });

@@ -1,12 +1,14 @@
 /**
  * `npm start`: PostgreSQL (the project's own cluster in .data/pg, or DATABASE_URL), migrations,
- * the demo plant on first start, the client build, then the server on 127.0.0.1:PORT.
- * Ctrl-C stops the server and the cluster this script started.
+ * the demo plant on first start, the client build, then the server on 127.0.0.1:PORT, supervised:
+ * a server that crashes is started again (with back-off) while the cluster keeps running.
+ * Ctrl-C (or SIGTERM) stops the server and the cluster this script started.
  */
-import { spawn } from 'node:child_process';
+import { spawn, type ChildProcess } from 'node:child_process';
 import { ensureDatabase, providePostgres } from './pg';
 import { buildClientIfStale, clientSourcesPresent, jwtSecret, prepareDatabase, printWelcome } from './lib/app';
-import { CHILD_STDIO, isShuttingDown, log, onShutdown, root, runMain, stopChild, UserFacingError, waitForExit } from './lib/proc';
+import { CHILD_STDIO, log, root, runMain, UserFacingError } from './lib/proc';
+import { supervise } from './lib/supervise';
 
 runMain(async () => {
   const port = Number(process.env.PORT || 3000);
@@ -15,39 +17,37 @@ runMain(async () => {
   if (!process.env.DATABASE_URL) await ensureDatabase(server, 'tacklog');
   await prepareDatabase(databaseUrl, { seed: true });
 
-  const serveClient = clientSourcesPresent();
+  // TACKLOG_SERVE_CLIENT=0 serves the API only (no client build).
+  const serveClient = process.env.TACKLOG_SERVE_CLIENT !== '0' && clientSourcesPresent();
   if (serveClient) await buildClientIfStale();
-  else log('index.html is missing: there is no client to build; serving the API only');
+  else log(clientSourcesPresent() ? 'TACKLOG_SERVE_CLIENT=0: serving the API only' : 'index.html is missing: there is no client to build; serving the API only');
 
-  // `node --import tsx` rather than the tsx CLI: one process, which gets our SIGTERM itself.
-  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
-    cwd: root,
-    stdio: CHILD_STDIO,
-    detached: true,
-    env: {
-      ...process.env,
-      DATABASE_URL: databaseUrl,
-      PORT: String(port),
-      TACKLOG_JWT_SECRET: jwtSecret(),
-      TACKLOG_SERVE_CLIENT: serveClient ? '1' : '0',
-    },
+  const env = {
+    ...process.env,
+    DATABASE_URL: databaseUrl,
+    PORT: String(port),
+    TACKLOG_JWT_SECRET: jwtSecret(),
+    TACKLOG_SERVE_CLIENT: serveClient ? '1' : '0',
+  };
+  return supervise({
+    // `node --import tsx` rather than the tsx CLI: one process, which gets our SIGTERM itself.
+    start: () => spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], { cwd: root, stdio: CHILD_STDIO, detached: true, env }),
+    ready: (child) => waitForListening(port, child),
+    onFirstReady: () => printWelcome(`http://127.0.0.1:${port}`),
   });
-  onShutdown(() => stopChild(child));
-  await waitForListening(port, child);
-  await printWelcome(`http://127.0.0.1:${port}`);
-  const code = await waitForExit(child);
-  if (code !== 0 && !isShuttingDown()) log(`the server stopped (exit ${code})`);
-  return code;
 });
 
-/** Resolves once the server answers /api/health; rejects if it exits first. */
-async function waitForListening(port: number, child: ReturnType<typeof spawn>): Promise<void> {
+/**
+ * Resolves once the server answers /api/health at all (a 503 while the database is away still
+ * means it is listening); rejects if it exits first or does not answer within a minute.
+ */
+async function waitForListening(port: number, child: ChildProcess): Promise<void> {
   const deadline = Date.now() + 60_000;
   while (Date.now() < deadline) {
     if (child.exitCode !== null || child.signalCode !== null) throw new UserFacingError(`the server exited during start-up (${child.exitCode ?? child.signalCode})`);
     try {
       const res = await fetch(`http://127.0.0.1:${port}/api/health`);
-      if (res.ok) return;
+      if (res.ok || res.status === 503) return;
     } catch {
       // not listening yet
     }

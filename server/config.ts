@@ -35,7 +35,7 @@ export const config = {
   jwtSecret: process.env.TACKLOG_JWT_SECRET || crypto.randomBytes(32).toString('hex'),
   sessionHours: intFromEnv('TACKLOG_SESSION_HOURS', 12),
   /** Where uploaded documents are stored. */
-  uploadDir: process.env.TACKLOG_UPLOAD_DIR ?? path.join(root, '.data', 'uploads'),
+  uploadDir: process.env.TACKLOG_UPLOAD_DIR ?? path.join(process.env.TACKLOG_DATA_DIR ? path.resolve(root, process.env.TACKLOG_DATA_DIR) : path.join(root, '.data'), 'uploads'),
   maxUploadBytes: intFromEnv('TACKLOG_MAX_UPLOAD_BYTES', 10 * 1024 * 1024),
   /** Built client (vite build output) served by Express. */
   clientDir: path.join(root, 'dist'),

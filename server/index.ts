@@ -2,6 +2,7 @@ import type { Server } from 'node:http';
 import { createApp } from './app';
 import { config } from './config';
 import { closeDb } from './db/client';
+import { isDatabaseUnavailable, noteDatabaseDown } from './db/availability';
 import { scheduleComplianceWatch } from './jobs/compliance';
 import { sweep } from './services/compliance';
 
@@ -15,7 +16,27 @@ export async function startServer(options: { serveClient?: boolean; port?: numbe
   });
 }
 
+/**
+ * A database outage must not end the process: whatever escapes as an unhandled rejection or
+ * exception because PostgreSQL went away is logged (once per outage) and the server keeps
+ * answering 503 until it is back. Anything else leaves the process in an unknown state: it exits,
+ * and `npm start`'s supervisor starts a fresh one.
+ */
+function keepRunningThroughDatabaseOutages(): void {
+  const handle = (kind: string) => (err: unknown) => {
+    if (isDatabaseUnavailable(err)) {
+      noteDatabaseDown(err);
+      return;
+    }
+    console.error(`[server] ${kind}; exiting:`, err);
+    process.exit(1);
+  };
+  process.on('unhandledRejection', handle('unhandled rejection'));
+  process.on('uncaughtException', handle('uncaught exception'));
+}
+
 async function main() {
+  keepRunningThroughDatabaseOutages();
   const server = await startServer({ serveClient: process.env.TACKLOG_SERVE_CLIENT !== '0' });
   const addr = server.address();
   const port = typeof addr === 'object' && addr ? addr.port : config.port;
@@ -25,7 +46,7 @@ async function main() {
     // A first sweep at start, so alerts are current before the first scheduled run.
     sweep().then(
       (r) => r.ran && console.log(`[watch] first sweep: raised ${r.raised}, resolved ${r.resolved}`),
-      (err) => console.error('[watch] first sweep failed:', err),
+      (err) => (isDatabaseUnavailable(err) ? noteDatabaseDown(err) : console.error('[watch] first sweep failed:', err)),
     );
   }
   const stop = (signal: string) => {

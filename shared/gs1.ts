@@ -3,9 +3,9 @@
  *
  * Reads the three forms a scanner or a person may hand us:
  *  - human-readable element strings with the AIs in parentheses: `(01)09521234543213(17)261231(10)ABC123`
- *  - raw element strings as a scanner sends them: variable-length fields that are not last end with
- *    the ASCII group separator (GS, 0x1D); an optional symbology identifier (`]C1`, `]d2`, `]Q3` …)
- *    and a leading FNC1/GS are ignored
+ *  - raw element strings as a scanner sends them, in any order of AIs: variable-length fields that
+ *    are not last end with the ASCII group separator (GS, 0x1D); an optional symbology identifier
+ *    (`]C1`, `]d2`, `]Q3`, `]e0` …) and a leading FNC1/GS are ignored
  *  - GS1 Digital Link URIs: `https://{domain}/{optional/prefix}/01/{gtin}/10/{lot}/21/{serial}?17={yymmdd}`
  *
  * Sources: GS1 General Specifications (AI formats, predefined-length table, check digit, §7.12
@@ -322,30 +322,90 @@ function parseDigitalLink(s: string, now: Date): Gs1Element[] {
   return elements;
 }
 
+/** Symbology identifier (ISO/IEC 15424): `]` + symbology letter + modifier, e.g. `]C1`, `]d2`, `]Q3`, `]e0`. */
+const SYMBOLOGY_ID = /^\][A-Za-z][0-9A-Za-z]/;
+/**
+ * Symbology identifiers whose data is a GS1 element string (GS1 General Specifications, table of
+ * symbology identifiers): GS1-128 `]C1`, GS1 DataBar and composite `]e0`, GS1 DataMatrix `]d2`,
+ * GS1 QR Code `]Q3`, GS1 DotCode `]J1`.
+ */
+export const GS1_SYMBOLOGY_IDS: ReadonlySet<string> = new Set([']C1', ']e0', ']d2', ']Q3', ']J1']);
+
+/** Removes a leading symbology identifier; says which one it was (or null). */
+export function splitSymbologyId(input: string): { id: string | null; data: string } {
+  const id = SYMBOLOGY_ID.exec(input)?.[0] ?? null;
+  return id ? { id, data: input.slice(id.length) } : { id: null, data: input };
+}
+
 /**
  * Parse any of the three GS1 syntaxes into its elements and the fields Tacklog uses.
- * Throws Gs1Error naming the field for anything wrong.
+ * GS1 fixes no order for element strings in a barcode (only that variable-length ones that are
+ * not last end with FNC1/GS), so any sequence of valid AIs is read: `(17)…(01)…(10)…` as well as
+ * the raw `17…01…10…`. A symbology identifier (`]C1`, `]d2`, `]Q3`, `]e0` …) may lead, before an
+ * element string or a Digital Link. Throws Gs1Error naming the field for anything wrong.
  */
 export function parseGs1(input: string, now: Date = new Date()): Gs1Result {
   let s = (input ?? '').replace(/^[\r\n\t ]+|[\r\n\t ]+$/g, '');
   if (s === '') throw new Gs1Error('input', 'nothing to read: the scan is empty');
+  s = splitSymbologyId(s).data;
   if (/^https?:\/\//i.test(s)) return buildResult(parseDigitalLink(s, now), now);
-  if (/^\][A-Za-z][0-9A-Za-z]/.test(s)) s = s.slice(3); // symbology identifier (ISO/IEC 15424)
   if (s.startsWith('(')) return buildResult(parseBracketed(s, now), now);
   while (s.startsWith(GS)) s = s.slice(1); // leading FNC1
   if (s === '') throw new Gs1Error('input', 'nothing to read: the scan is empty');
   return buildResult(parseRaw(s, now), now);
 }
 
-/** Cheap check whether a scanned text is meant as GS1 data (it may still be invalid). */
+/**
+ * The AIs of a raw element string, cut by length only (values not checked), or null when it does
+ * not split into known AIs with non-empty values. Used to tell GS1 data from other codes.
+ */
+function rawAiSequence(s: string): string[] | null {
+  const ais: string[] = [];
+  let at = 0;
+  while (at < s.length) {
+    if (s[at] === GS) { at++; continue; }
+    let ai: string;
+    try {
+      ai = findAi(s, at);
+    } catch {
+      return null;
+    }
+    at += ai.length;
+    const predefined = PREDEFINED_LENGTH[ai.slice(0, 2)];
+    let value: string;
+    if (predefined !== undefined) {
+      value = s.slice(at, at + predefined - ai.length);
+      if (value.length !== predefined - ai.length || !/^\d+$/.test(value)) return null;
+      at += value.length;
+    } else {
+      const end = s.indexOf(GS, at);
+      value = end === -1 ? s.slice(at) : s.slice(at, end);
+      at = end === -1 ? s.length : end + 1;
+    }
+    if (value === '') return null;
+    ais.push(ai);
+  }
+  return ais;
+}
+
+/**
+ * Cheap check whether a scanned text is meant as GS1 data (it may still be invalid, and then
+ * parseGs1 says which field is wrong). Without brackets, a GS or a GS1 symbology identifier, a
+ * digit string counts when it starts with a GTIN or SSCC, or when it splits into two or more
+ * known AIs in any order (e.g. `17…` + `01…` + `10…`).
+ */
 export function looksLikeGs1(input: string): boolean {
-  const s = (input ?? '').trim();
+  const trimmed = (input ?? '').trim();
+  if (trimmed === '') return false;
+  const { id, data: s } = splitSymbologyId(trimmed);
+  if (id && GS1_SYMBOLOGY_IDS.has(id)) return true;
   if (s === '') return false;
-  if (/^https?:\/\//i.test(s)) return /\/01\/\d{8,14}(?:[/?#]|$)/.test(s);
+  if (/^https?:\/\//i.test(s)) return /\/(01\/\d{8,14}|00\/\d{18})(?:[/?#]|$)/.test(s);
   if (/^\(\d{2,4}\)/.test(s)) return true;
-  if (s.startsWith(']')) return true;
   if (s.includes(GS)) return true;
-  return /^01\d{14,}/.test(s);
+  if (/^(01\d{14}|00\d{18})/.test(s)) return true;
+  const ais = rawAiSequence(s);
+  return ais !== null && ais.length >= 2;
 }
 
 function encodeDl(value: string): string {

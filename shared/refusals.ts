@@ -21,7 +21,7 @@ export const REFUSALS = {
   IDEMPOTENCY_IN_PROGRESS: { status: 409, title: 'Already being processed' },
   IDEMPOTENCY_KEY_REUSED: { status: 422, title: 'Request key already used for another request' },
   INTERNAL: { status: 500, title: 'Something went wrong' },
-  DB_DOWN: { status: 503, title: 'Database not reachable' },
+  DB_UNAVAILABLE: { status: 503, title: 'Database unreachable, retrying' },
 
   // Catalogue
   DUPLICATE: { status: 409, title: 'Already exists' },

@@ -5,7 +5,7 @@
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
-import { log, newestMtime, root, run } from './proc';
+import { dataDir, log, newestMtime, root, run } from './proc';
 
 /**
  * Applies the migrations to `url` and, with `seed`, loads the demo plant into it (only when it
@@ -31,7 +31,7 @@ export async function prepareDatabase(url: string, options: { seed: boolean }): 
 /** The session-signing secret: TACKLOG_JWT_SECRET, else one kept in .data/jwt-secret (made once, mode 0600). */
 export function jwtSecret(): string {
   if (process.env.TACKLOG_JWT_SECRET) return process.env.TACKLOG_JWT_SECRET;
-  const file = path.join(root, '.data', 'jwt-secret');
+  const file = path.join(dataDir(), 'jwt-secret');
   try {
     const existing = fs.readFileSync(file, 'utf8').trim();
     if (existing.length >= 32) return existing;
@@ -42,7 +42,7 @@ export function jwtSecret(): string {
   const secret = crypto.randomBytes(48).toString('hex');
   fs.writeFileSync(file, `${secret}\n`, { mode: 0o600 });
   fs.chmodSync(file, 0o600);
-  log('made a new session secret in .data/jwt-secret');
+  log(`made a new session secret in ${path.relative(root, file) || file}`);
   return secret;
 }
 

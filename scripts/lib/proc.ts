@@ -10,6 +10,15 @@ import { fileURLToPath } from 'node:url';
 
 export const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 
+/**
+ * The folder `npm start` keeps its data in: the cluster (pg/), the session secret, uploads and
+ * backups. TACKLOG_DATA_DIR moves it (tests use a throwaway one); default `.data` in the checkout.
+ */
+export function dataDir(): string {
+  const dir = process.env.TACKLOG_DATA_DIR;
+  return dir ? path.resolve(root, dir) : path.join(root, '.data');
+}
+
 export function log(message: string): void {
   console.log(`[tacklog] ${message}`);
 }

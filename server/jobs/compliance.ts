@@ -1,5 +1,6 @@
 import cron from 'node-cron';
 import { sweep } from '../services/compliance';
+import { isDatabaseUnavailable, noteDatabaseDown } from '../db/availability';
 
 /**
  * Schedules the compliance watch (node-cron). Every server process schedules it; the sweep's
@@ -16,7 +17,9 @@ export function scheduleComplianceWatch(schedule: string): () => void {
         console.log(`[watch] raised ${result.raised}, resolved ${result.resolved}`);
       }
     } catch (err) {
-      console.error('[watch] sweep failed:', err);
+      // The database away is logged once per outage (db/availability.ts); the next run tries again.
+      if (isDatabaseUnavailable(err)) noteDatabaseDown(err);
+      else console.error('[watch] sweep failed:', err);
     }
   });
   return () => void task.stop();

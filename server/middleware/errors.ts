@@ -3,6 +3,7 @@ import type { z } from 'zod';
 import type { FieldIssue } from '../../shared/schemas/common';
 import { AppError } from '../errors';
 import { REFUSALS, type RefusalCode } from '../../shared/refusals';
+import { DB_RETRY_AFTER_SECONDS, isDatabaseUnavailable, noteDatabaseDown } from '../db/availability';
 
 /** zod issues as the API's `details`: [{field: 'containers', message: '...'}]. */
 export function zodIssues(error: z.ZodError, prefix = ''): FieldIssue[] {
@@ -26,10 +27,19 @@ interface HttpishError {
 
 /** Sends the API's error shape with a code of the catalogue (and its status unless given). */
 export function sendError(res: Response, code: RefusalCode, message: string, details?: unknown, status: number = REFUSALS[code].status): void {
+  if (status === 503) res.set('Retry-After', String(DB_RETRY_AFTER_SECONDS));
   res.status(status).json({ error: { code, message, details } });
 }
 
-/** The single error handler: AppError → its status; body-parser and upload errors → 4xx; the rest → 500. */
+/** 503 DB_UNAVAILABLE: the request could not reach PostgreSQL (down, restarting, refusing connections). */
+export function databaseUnavailable(): AppError {
+  return new AppError('DB_UNAVAILABLE', 'The database cannot be reached right now; Tacklog retries by itself. Try again in a few seconds.', 503);
+}
+
+/**
+ * The single error handler: AppError → its status; body-parser and upload errors → 4xx; the
+ * database unreachable → 503 DB_UNAVAILABLE with Retry-After; the rest → 500.
+ */
 export const errorHandler: ErrorRequestHandler = (err, req, res, next) => {
   if (res.headersSent) {
     next(err);
@@ -55,6 +65,13 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, next) => {
   const status = e.status ?? e.statusCode;
   if (typeof status === 'number' && status >= 400 && status < 500) {
     sendError(res, 'BAD_REQUEST', 'The request could not be read.', undefined, status);
+    return;
+  }
+  if (isDatabaseUnavailable(err)) {
+    noteDatabaseDown(err);
+    const e503 = databaseUnavailable();
+    res.set('Retry-After', String(DB_RETRY_AFTER_SECONDS));
+    res.status(503).json({ error: { code: e503.code, message: e503.message } });
     return;
   }
   console.error(`[error] ${req.method} ${req.originalUrl}:`, err);

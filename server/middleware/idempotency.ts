@@ -11,6 +11,7 @@
  */
 import type { RequestHandler, Response } from 'express';
 import { AppError } from '../errors';
+import { isDatabaseUnavailable } from '../db/availability';
 import { claimKey, pruneKeys, releaseKey, storeResponse } from '../services/idempotency';
 
 const METHODS = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
@@ -35,6 +36,22 @@ function invalidKey(): AppError {
   ]);
 }
 
+/**
+ * The database went away during a request (503): its key could not be released then. Release it
+ * once the database is back, so the client's retry with the same key runs instead of waiting for
+ * the key to go stale. Tries every 5 s for up to 5 minutes (then the stale-key takeover applies).
+ */
+function releaseWhenBack(actorId: string, key: string, attempt = 1): void {
+  setTimeout(() => {
+    releaseKey(actorId, key).then(
+      () => undefined,
+      () => {
+        if (attempt < 60) releaseWhenBack(actorId, key, attempt + 1);
+      },
+    );
+  }, 5000).unref();
+}
+
 /** Holds back the end of the response until its status and body are stored (or the key released). */
 function captureResponse(res: Response, actorId: string, key: string): void {
   let body: unknown = null;
@@ -52,7 +69,8 @@ function captureResponse(res: Response, actorId: string, key: string): void {
     save.then(
       () => end(...args),
       (err: unknown) => {
-        console.error('[idempotency] could not store the response:', err);
+        if (res.statusCode >= 500 && isDatabaseUnavailable(err)) releaseWhenBack(actorId, key);
+        else console.error('[idempotency] could not store the response:', err);
         end(...args);
       },
     );

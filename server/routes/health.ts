@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { endpoint } from '../http';
-import { AppError } from '../errors';
+import { databaseUnavailable } from '../middleware/errors';
 import { checkDatabase } from '../services/health';
 
 export const healthRouter = Router();
@@ -8,8 +8,8 @@ export const healthRouter = Router();
 healthRouter.get(
   '/',
   endpoint({ access: 'public' }, async () => {
-    const up = await checkDatabase();
-    if (!up) throw new AppError('DB_DOWN', 'The database is not answering.');
+    // 503 DB_UNAVAILABLE with Retry-After (the error handler adds the header).
+    if (!(await checkDatabase())) throw databaseUnavailable();
     return { ok: true, db: 'up' };
   }),
 );

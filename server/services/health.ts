@@ -1,12 +1,15 @@
 import { sql } from 'drizzle-orm';
 import { db } from '../db/client';
+import { isDatabaseUnavailable, noteDatabaseDown } from '../db/availability';
 
+/** Whether PostgreSQL answers a query now (an unreachable database is logged once per outage). */
 export async function checkDatabase(): Promise<boolean> {
   try {
     await db.execute(sql`SELECT 1`);
     return true;
   } catch (err) {
-    console.error('[health] database check failed:', (err as Error).message);
+    if (isDatabaseUnavailable(err)) noteDatabaseDown(err);
+    else console.error('[health] database check failed:', (err as Error).message);
     return false;
   }
 }

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { errorBodySchema, fieldIssueSchema, type FieldIssue } from '@shared/schemas/common';
 import { isRefusalCode, refusalText, refusalTitle, type RefusalCode } from '@shared/refusals';
+import { reportDatabaseDown, reportDatabaseUp, retryDelayMs } from './connection';
 
 /**
  * A failed API call, built from the API's error shape {error: {code, message, details}}.
@@ -53,6 +54,13 @@ export interface ApiRequest<S extends z.ZodTypeAny> {
   /** Repeating a request with the same key returns the first response and changes nothing. */
   idempotencyKey?: string;
   signal?: AbortSignal;
+  /**
+   * While the server answers 503 DB_UNAVAILABLE, wait as long as its Retry-After says and send
+   * again, until it answers otherwise (or `signal` aborts). Default: for reads, and for writes
+   * that carry an Idempotency-Key (a repeat cannot apply them twice). A write without a key is
+   * not repeated: it fails with that 503 for the page to show.
+   */
+  retryWhileDatabaseDown?: boolean;
 }
 
 type UnauthorizedListener = () => void;
@@ -109,9 +117,27 @@ export function errorText(err: unknown): string {
   return err instanceof Error ? err.message : String(err);
 }
 
+/** Resolves after `ms`, or rejects with the AbortError when `signal` aborts first. */
+function wait(ms: number, signal?: AbortSignal): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const aborted = () => {
+      clearTimeout(timer);
+      reject(signal?.reason instanceof DOMException ? signal.reason : new DOMException('The request was aborted.', 'AbortError'));
+    };
+    const timer = setTimeout(() => {
+      signal?.removeEventListener('abort', aborted);
+      resolve();
+    }, ms);
+    if (signal?.aborted) aborted();
+    else signal?.addEventListener('abort', aborted, { once: true });
+  });
+}
+
 /**
  * Calls the Tacklog API: sends JSON with the session cookie, parses the answer with `schema`,
- * and throws an ApiError for any non-2xx answer (after telling 401 listeners).
+ * and throws an ApiError for any non-2xx answer (after telling 401 listeners). While the database
+ * is unreachable (503 DB_UNAVAILABLE) it reports that for the banner and, for reads and keyed
+ * writes, waits and sends again by itself (see `retryWhileDatabaseDown`).
  */
 export async function apiFetch<S extends z.ZodTypeAny>(path: string, request: ApiRequest<S>): Promise<z.infer<S>> {
   const headers: Record<string, string> = { Accept: 'application/json' };
@@ -124,19 +150,42 @@ export async function apiFetch<S extends z.ZodTypeAny>(path: string, request: Ap
   }
   if (request.idempotencyKey) headers['Idempotency-Key'] = request.idempotencyKey;
 
+  const method = request.method ?? 'GET';
+  const retry = request.retryWhileDatabaseDown ?? (method === 'GET' || Boolean(request.idempotencyKey));
   let response: Response;
-  try {
-    response = await fetch(withQuery(path, request.query), {
-      method: request.method ?? 'GET',
-      headers,
-      body,
-      credentials: 'same-origin',
-      signal: request.signal,
-    });
-  } catch (err) {
-    if (err instanceof DOMException && err.name === 'AbortError') throw err;
-    throw new ApiError(0, 'NETWORK', 'The Tacklog server could not be reached: check the connection and try again.');
+  let sawDatabaseDown = false;
+  for (;;) {
+    try {
+      response = await fetch(withQuery(path, request.query), {
+        method,
+        headers,
+        body,
+        credentials: 'same-origin',
+        signal: request.signal,
+      });
+    } catch (err) {
+      if (err instanceof DOMException && err.name === 'AbortError') throw err;
+      throw new ApiError(0, 'NETWORK', 'The Tacklog server could not be reached. Check the connection and try again.');
+    }
+    if (response.status === 409 && sawDatabaseDown && request.idempotencyKey) {
+      // An earlier try of this key was cut off by the outage; the server releases it shortly.
+      const refusal = errorFrom(409, await readJson(response).catch(() => undefined));
+      if (refusal.code !== 'IDEMPOTENCY_IN_PROGRESS') throw refusal;
+      await wait(retryDelayMs(null), request.signal);
+      continue;
+    }
+    if (response.status !== 503) break;
+    const refusal = errorFrom(503, await readJson(response).catch(() => undefined));
+    if (refusal.code !== 'DB_UNAVAILABLE') throw refusal;
+    sawDatabaseDown = true;
+    const delay = retryDelayMs(response.headers.get('Retry-After'));
+    reportDatabaseDown(delay);
+    if (!retry) {
+      throw new ApiError(503, 'DB_UNAVAILABLE', 'The database could not be reached, so this may not have been saved. Tacklog is reconnecting by itself; try again in a moment.');
+    }
+    await wait(delay, request.signal);
   }
+  if (response.ok) reportDatabaseUp();
 
   const payload = await readJson(response);
   if (!response.ok) {

@@ -103,6 +103,19 @@ describe('scanning a supplier GS1 code', () => {
     }
   });
 
+  it('reads a raw element string whose first element is not the GTIN (GS1 fixes no order)', async () => {
+    // GS1 General Specifications: element strings may come in any order; 17 and 01 are
+    // predefined-length, so no GS is needed after them. 280200 = last day of February 2028.
+    const gtin = randomGtin();
+    const material = await newMaterial(as(admin), { gtin });
+    const GS = '\u001d';
+    for (const form of [`17280200${'01'}${gtin}10LOT-17`, `10LOT-17${GS}17280200${'01'}${gtin}`, `]C117280200${'01'}${gtin}10LOT-17`]) {
+      const res = await resolve(form);
+      expect(res.status, JSON.stringify(form)).toBe(200);
+      expect(res.body).toMatchObject({ type: 'gs1', gtin, lot: 'LOT-17', expiresOn: '2028-02-29', materialId: material.id });
+    }
+  });
+
   it('names the material whose GTIN matches', async () => {
     const gtin = randomGtin();
     const material = await newMaterial(as(admin), { gtin });

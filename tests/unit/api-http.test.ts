@@ -1,6 +1,7 @@
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { z } from 'zod';
 import { ApiError, apiFetch, errorText, onUnauthorized } from '@/api/http';
+import { connection, reportDatabaseUp, retryDelayMs } from '@/api/connection';
 
 type Call = { url: string; init: RequestInit };
 let calls: Call[] = [];
@@ -147,5 +148,113 @@ describe('apiFetch errors', () => {
       }),
     );
     await expect(apiFetch('/api/health', { schema: okSchema })).rejects.toMatchObject({ status: 0, code: 'NETWORK' });
+  });
+});
+
+describe('apiFetch while the database is unreachable (503 DB_UNAVAILABLE)', () => {
+  const down = { error: { code: 'DB_UNAVAILABLE', message: 'The database cannot be reached right now.' } };
+
+  /** Answers 503 DB_UNAVAILABLE (Retry-After: 2) `times` times, then 200 {ok: true}. */
+  function downThenUp(times: number) {
+    let left = times;
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async (url: string, init: RequestInit) => {
+        calls.push({ url, init });
+        if (left-- > 0) return new Response(JSON.stringify(down), { status: 503, headers: { 'Content-Type': 'application/json', 'Retry-After': '2' } });
+        return new Response(JSON.stringify({ ok: true }), { status: 200, headers: { 'Content-Type': 'application/json' } });
+      }),
+    );
+  }
+
+  beforeEach(() => {
+    vi.useFakeTimers();
+    reportDatabaseUp();
+  });
+  afterEach(() => {
+    vi.useRealTimers();
+    reportDatabaseUp();
+  });
+
+  it('a read waits Retry-After, sends again by itself, and reports the outage and its end', async () => {
+    downThenUp(2);
+    const result = apiFetch('/api/lots', { schema: okSchema });
+    await vi.advanceTimersByTimeAsync(0);
+    expect(calls).toHaveLength(1);
+    expect(connection.databaseDown).toBe(true);
+    expect(connection.retryAfterMs).toBe(2000);
+    await vi.advanceTimersByTimeAsync(1999);
+    expect(calls).toHaveLength(1); // waits the whole Retry-After
+    await vi.advanceTimersByTimeAsync(1);
+    expect(calls).toHaveLength(2);
+    await vi.advanceTimersByTimeAsync(2000);
+    await expect(result).resolves.toEqual({ ok: true });
+    expect(calls).toHaveLength(3);
+    expect(connection.databaseDown).toBe(false);
+  });
+
+  it('a write with an Idempotency-Key is sent again with the same key', async () => {
+    downThenUp(1);
+    const result = apiFetch('/api/stations/s1/load', { method: 'POST', body: { a: 1 }, idempotencyKey: 'key-7', schema: okSchema });
+    await vi.advanceTimersByTimeAsync(2000);
+    await expect(result).resolves.toEqual({ ok: true });
+    expect(calls.map((c) => (c.init.headers as Record<string, string>)['Idempotency-Key'])).toEqual(['key-7', 'key-7']);
+  });
+
+  it('after an outage, a keyed write whose first try is still held (409 IDEMPOTENCY_IN_PROGRESS) waits and is sent again', async () => {
+    const answers = [
+      { status: 503, body: down },
+      { status: 409, body: { error: { code: 'IDEMPOTENCY_IN_PROGRESS', message: 'still running' } } },
+      { status: 200, body: { ok: true } },
+    ];
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async (url: string, init: RequestInit) => {
+        calls.push({ url, init });
+        const a = answers.shift()!;
+        return new Response(JSON.stringify(a.body), { status: a.status, headers: { 'Content-Type': 'application/json', 'Retry-After': '1' } });
+      }),
+    );
+    const result = apiFetch('/api/stations/s1/load', { method: 'POST', body: {}, idempotencyKey: 'key-8', schema: okSchema });
+    await vi.advanceTimersByTimeAsync(10_000);
+    await expect(result).resolves.toEqual({ ok: true });
+    expect(calls).toHaveLength(3);
+    // Without an outage first, the same 409 is an error at once.
+    answer(409, { error: { code: 'IDEMPOTENCY_IN_PROGRESS', message: 'still running' } });
+    await expect(apiFetch('/api/stations/s1/load', { method: 'POST', body: {}, idempotencyKey: 'key-9', schema: okSchema })).rejects.toMatchObject({ status: 409 });
+  });
+
+  it('a write without a key is not repeated: it fails with DB_UNAVAILABLE and the banner shows', async () => {
+    downThenUp(1);
+    const err = await apiFetch('/api/suppliers', { method: 'POST', body: { name: 'x' }, schema: okSchema }).catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(ApiError);
+    expect(err).toMatchObject({ status: 503, code: 'DB_UNAVAILABLE' });
+    expect((err as ApiError).message).toMatch(/may not have been saved/);
+    expect(calls).toHaveLength(1);
+    expect(connection.databaseDown).toBe(true);
+  });
+
+  it('another 503 is an error at once, and an abort ends the wait', async () => {
+    answer(503, { error: { code: 'MAINTENANCE', message: 'Down for maintenance.' } });
+    await expect(apiFetch('/api/lots', { schema: okSchema })).rejects.toMatchObject({ status: 503, code: 'MAINTENANCE' });
+    expect(connection.databaseDown).toBe(false);
+
+    downThenUp(5);
+    const controller = new AbortController();
+    const result = apiFetch('/api/lots', { schema: okSchema, signal: controller.signal });
+    const settled = expect(result).rejects.toMatchObject({ name: 'AbortError' });
+    await vi.advanceTimersByTimeAsync(500);
+    controller.abort();
+    await settled;
+  });
+
+  it('reads Retry-After as seconds or an HTTP date (RFC 9110 §10.2.3), within 1–30 s', () => {
+    const now = Date.parse('2026-12-02T10:00:00Z');
+    expect(retryDelayMs('5', now)).toBe(5000);
+    expect(retryDelayMs('Wed, 02 Dec 2026 10:00:12 GMT', now)).toBe(12_000);
+    expect(retryDelayMs('0', now)).toBe(1000);
+    expect(retryDelayMs('3600', now)).toBe(30_000);
+    expect(retryDelayMs(null, now)).toBe(5000);
+    expect(retryDelayMs('soon', now)).toBe(5000);
   });
 });

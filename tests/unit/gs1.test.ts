@@ -157,6 +157,60 @@ describe('parseGs1: raw scanner data', () => {
   });
 });
 
+describe('parseGs1: element strings in any order', () => {
+  // GS1 General Specifications §5.10 / §7.8: element strings may be concatenated in any order;
+  // only the predefined-length AIs (table "Element strings with predefined length using GS1
+  // Application Identifiers") need no FNC1 after them, every other field that is not last ends
+  // with FNC1 (sent by scanners as GS, ASCII 29). The GTIN need not come first.
+  const expected = { gtin: '09521234543213', lot: 'ABC123', expiresOn: '2028-02-29' };
+
+  it('reads a raw string that starts with the expiry date (17) and then the GTIN', () => {
+    // 280200: day 00 = last day of February 2028, a leap year (GS1 General Specifications).
+    const raw = '17280200' + '0109521234543213' + '10ABC123';
+    expect(parseGs1(raw, NOW)).toMatchObject(expected);
+    expect(parseGs1(raw, NOW).elements.map((e) => e.ai)).toEqual(['17', '01', '10']);
+    expect(looksLikeGs1(raw)).toBe(true);
+  });
+
+  it('reads every order of the same elements, raw with GS, bracketed, and behind each symbology identifier', () => {
+    const parts = ['0109521234543213', '17280200', `10ABC123`, '11250101'];
+    const orders = [[0, 1, 2, 3], [1, 0, 3, 2], [3, 2, 1, 0], [2, 3, 0, 1], [1, 3, 2, 0]];
+    for (const order of orders) {
+      // A variable-length field (10) that is not last is followed by GS.
+      const raw = order.map((i, k) => (i === 2 && k < order.length - 1 ? `${parts[i]}${GS}` : parts[i])).join('');
+      const bracketed = order.map((i) => `(${parts[i].slice(0, 2)})${parts[i].slice(2)}`).join('');
+      for (const prefix of ['', ']C1', ']d2', ']Q3', ']e0', ']J1', GS, `]C1${GS}`]) {
+        const r = parseGs1(prefix + raw, NOW);
+        expect(r, JSON.stringify(prefix + raw)).toMatchObject({ ...expected, producedOn: '2025-01-01' });
+        expect(r.elements.map((e) => e.ai)).toEqual(order.map((i) => parts[i].slice(0, 2)));
+        expect(looksLikeGs1(prefix + raw)).toBe(true);
+      }
+      expect(parseGs1(bracketed, NOW)).toMatchObject({ ...expected, producedOn: '2025-01-01' });
+    }
+  });
+
+  it('accepts a redundant GS after a predefined-length field and reads serial, count and weight in any order', () => {
+    const r = parseGs1(`21SN-4${GS}17280200${GS}3103001250` + `0109521234543213` + `3012`, NOW);
+    expect(r).toMatchObject({ gtin: '09521234543213', serial: 'SN-4', expiresOn: '2028-02-29', count: 12 });
+    expect(r.elements.map((e) => e.ai)).toEqual(['21', '17', '3103', '01', '30']);
+  });
+
+  it('still checks each element wherever it stands', () => {
+    expect(gs1Error(() => parseGs1('17280200' + '0109521234543214' + '10ABC', NOW)).field).toBe('gtin');
+    expect(gs1Error(() => parseGs1('17281300' + '0109521234543213', NOW)).field).toBe('expiresOn');
+    // 17 is predefined-length: a short date runs into the next AI and is refused, not misread.
+    expect(gs1Error(() => parseGs1(`172802${GS}0109521234543213`, NOW)).field).toBe('expiresOn');
+  });
+
+  it('reads a Digital Link behind a symbology identifier and with its attributes in any query order', () => {
+    // GS1 Digital Link URI syntax 1.2: data attributes go in the query string, in any order.
+    const r = parseGs1(']Q1https://id.gs1.org/01/09521234543213/10/ABC123?11=250101&17=280200', NOW);
+    expect(r).toMatchObject({ ...expected, producedOn: '2025-01-01' });
+    expect(parseGs1('https://id.gs1.org/01/09521234543213/10/ABC123?17=280200&11=250101', NOW)).toMatchObject(expected);
+    expect(looksLikeGs1(']Q1https://id.gs1.org/01/09521234543213')).toBe(true);
+  });
+});
+
 describe('GS1 Digital Link', () => {
   const EXAMPLE = 'https://id.gs1.org/01/09521234543213/10/ABC123?17=261231';
 
@@ -208,6 +262,11 @@ describe('looksLikeGs1', () => {
     expect(looksLikeGs1('https://x.example.test/c/7f3a')).toBe(false);
     expect(looksLikeGs1('TL-C-000123')).toBe(false);
     expect(looksLikeGs1('010952')).toBe(false);
+    // Not GS1: one short numeric element, a serial-like number, a non-GS1 symbology with our own code.
+    expect(looksLikeGs1('17280200')).toBe(false);
+    expect(looksLikeGs1('123456789')).toBe(false);
+    expect(looksLikeGs1(']Q1TL-C-000123')).toBe(false);
+    expect(looksLikeGs1(']C1')).toBe(true); // a GS1 symbology: parseGs1 then says it is empty
     expect(looksLikeGs1('')).toBe(false);
   });
 });

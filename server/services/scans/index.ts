@@ -1,11 +1,10 @@
 import { AppError, fieldError } from '../../errors';
 import type { Actor } from '../auth/actor';
 import type { ScanResult } from '../../../shared/schemas/scans';
+import { GS1_SYMBOLOGY_IDS, splitSymbologyId } from '../../../shared/gs1';
 import { resolvers } from './resolvers';
 import type { ScanContext } from './types';
 
-/** Symbology identifiers (ISO/IEC 15424) whose data is GS1 element strings. */
-const GS1_SYMBOLOGIES = new Set([']C1', ']e0', ']d2', ']Q3', ']J1']);
 
 const STX = 0x02;
 const ETX = 0x03;
@@ -30,14 +29,8 @@ export function cleanScan(raw: string): { code: string; gs1Symbology: boolean } 
   let end = chars.length;
   while (start < end && isFraming(chars[start])) start++;
   while (end > start && isFraming(chars[end - 1])) end--;
-  let code = chars.slice(start, end).join('');
-  let gs1Symbology = false;
-  const id = /^\][A-Za-z][0-9A-Za-z]/.exec(code)?.[0];
-  if (id) {
-    gs1Symbology = GS1_SYMBOLOGIES.has(id);
-    code = code.slice(3);
-  }
-  return { code, gs1Symbology };
+  const { id, data: code } = splitSymbologyId(chars.slice(start, end).join(''));
+  return { code, gs1Symbology: id !== null && GS1_SYMBOLOGY_IDS.has(id) };
 }
 
 /** POST /api/scans/resolve: what a scanned code is. */
