@@ -7,6 +7,8 @@ export interface Actor {
   email: string;
   name: string;
   roles: Role[];
+  /** The session the request came with (absent for actors made by jobs). */
+  sessionId?: string;
 }
 
 export function hasRole(actor: Actor, ...roles: Role[]): boolean {
