@@ -26,7 +26,12 @@ export function acceptUpload(access: Access): RequestHandler {
       next(err);
       return;
     }
+    req.uploadRead = true;
     upload(req, res, (err: unknown) => {
+      if (!err && req.file?.originalname.includes('\u0000')) {
+        next(fieldError(UPLOAD_FIELD, 'has a file name with a NUL character'));
+        return;
+      }
       if (err instanceof multer.MulterError) {
         if (err.code === 'LIMIT_FILE_SIZE') {
           const mb = (config.maxUploadBytes / 1024 / 1024).toFixed(1);
@@ -40,7 +45,14 @@ export function acceptUpload(access: Access): RequestHandler {
         next(new AppError('BAD_UPLOAD', `The upload was refused: ${err.message}.`, 400, [{ field: err.field ?? UPLOAD_FIELD, message: err.message }]));
         return;
       }
-      next(err);
+      if (err) {
+        // The multipart parser's own errors (no boundary, a broken part header, a body cut short)
+        // are a malformed request, not a server fault.
+        const message = err instanceof Error ? err.message : String(err);
+        next(new AppError('BAD_UPLOAD', `The upload could not be read (${message}); send it again as multipart/form-data.`, 400, [{ field: UPLOAD_FIELD, message: 'could not be read' }]));
+        return;
+      }
+      next();
     });
   };
 }
@@ -57,7 +69,7 @@ attachmentsRouter.get(
   endpoint({ access: 'signed-in', params: attachmentParamsSchema, query: attachmentDownloadQuerySchema }, async ({ actor, params, query, res }) => {
     const { attachment, bytes } = await readAttachment(actor, params.id);
     res.setHeader('Content-Type', attachment.mimeType);
-    res.setHeader('Content-Disposition', contentDisposition(attachment.filename, query.disposition === 'inline'));
+    res.setHeader('Content-Disposition', contentDisposition(attachment.filename, query.disposition === 'inline', attachment.mimeType));
     res.setHeader('Cache-Control', 'private, no-store');
     res.setHeader('X-Content-Type-Options', 'nosniff');
     res.status(200).send(bytes);
