@@ -209,7 +209,7 @@ describe('quantities finer or larger than the database keeps', () => {
 });
 
 describe('malformed multipart', () => {
-  async function raw(path: string, contentType: string, body: Buffer | string) {
+  async function raw(path: string, contentType: string, body: Blob) {
     const res = await fetch(`${app.baseUrl}${path}`, { method: 'POST', headers: { authorization: `Bearer ${admin.token}`, 'content-type': contentType }, body });
     return { status: res.status, body: (await res.json()) as { error: { code: string } } };
   }
@@ -228,7 +228,7 @@ describe('malformed multipart', () => {
       ['NUL in the file name', `multipart/form-data; boundary=${b}`, `--${b}\r\nContent-Disposition: form-data; name="file"; filename="a\u0000b.pdf"\r\nContent-Type: application/pdf\r\n\r\n${pdf}\r\n--${b}--\r\n`],
     ];
     for (const [what, type, body] of cases) {
-      const res = await raw(path, type, Buffer.from(body, 'latin1'));
+      const res = await raw(path, type, new Blob([new Uint8Array(Buffer.from(body, 'latin1'))]));
       expect(res.status, what).toBe(400);
     }
     expect(await count()).toBe(before);
