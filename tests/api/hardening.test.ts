@@ -94,6 +94,31 @@ describe('cross-site requests and form posts (CSRF)', () => {
   });
 });
 
+describe('the Vite dev server\'s proxy', () => {
+  it('passes: it forwards the page\'s Host (127.0.0.1:5173) with its Origin, so the two still match', async () => {
+    const http = await import('node:http');
+    const m = await createMaterial();
+    const lot = await createLot({ materialId: m.id, containers: 1, containerStatus: 'open', openedAt: new Date() });
+    const { port } = new URL(app.baseUrl);
+    const status = await new Promise<number>((resolve, reject) => {
+      const req = http.request({
+        host: '127.0.0.1', port: Number(port), method: 'POST', path: `/api/containers/${lot.containers[0].id}/location`,
+        // What vite's proxy (changeOrigin off, as in vite.config.ts) sends on for the browser.
+        headers: {
+          host: '127.0.0.1:5173', origin: 'http://127.0.0.1:5173', 'sec-fetch-site': 'same-origin',
+          cookie: cookieOf(clerk.token), 'content-type': 'application/json',
+        },
+      }, (res) => {
+        res.resume();
+        resolve(res.statusCode ?? 0);
+      });
+      req.on('error', reject);
+      req.end(JSON.stringify({ location: 'Rack 4' }));
+    });
+    expect(status).toBe(200);
+  });
+});
+
 describe('sessions end', () => {
   it('logout ends the token at once, for the bearer header and the cookie alike', async () => {
     const user = await ensureUser(['quality'], { email: `logout-${sfx()}@tacklog.test` });
