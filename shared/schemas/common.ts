@@ -82,7 +82,7 @@ export function findNulField(value: unknown, path: string[] = [], depth = 0): st
   if (typeof value === 'string') return value.includes('\u0000') ? path.join('.') : null;
   if (depth > 32 || value === null || typeof value !== 'object') return null;
   for (const [key, inner] of Object.entries(value as Record<string, unknown>)) {
-    if (key.includes('\u0000')) return [...path, key.replace(/\u0000/g, '\\0')].join('.');
+    if (key.includes('\u0000')) return [...path, key.split('\u0000').join('\\0')].join('.');
     const found = findNulField(inner, [...path, key], depth + 1);
     if (found !== null) return found;
   }

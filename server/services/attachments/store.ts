@@ -64,6 +64,7 @@ export function checkUpload(file: UploadedFile | undefined): UploadType {
  * U+202A–U+202E, U+2066–U+2069), which can make "evil\u202Efdp.exe" read as "evilexe.pdf".
  * Zero-width characters and the BOM go too, so no invisible difference hides in a name.
  */
+// eslint-disable-next-line no-control-regex -- matching control characters is the point
 const UNSAFE_NAME_CHARS = /[\u0000-\u001f\u007f-\u009f\u061c\u200b-\u200f\u202a-\u202e\u2060-\u2069\ufeff"]/g;
 
 /** Extensions that name each accepted type; the first is the one given to a file without one. */

@@ -1,5 +1,5 @@
 import bcrypt from 'bcryptjs';
-import { and, eq, gt, isNull, ne, sql } from 'drizzle-orm';
+import { and, eq, gt, isNull, lt, ne, sql } from 'drizzle-orm';
 import { db } from '../../db/client';
 import { sessions, users } from '../../db/schema';
 import { config } from '../../config';
@@ -20,8 +20,21 @@ function toUser(row: Pick<typeof users.$inferSelect, 'id' | 'email' | 'name' | '
   return { id: row.id, email: row.email, name: row.name, roles: row.roles };
 }
 
+let lastPrune = 0;
+
+/** Drops session rows past their expiry (their tokens have expired too), at most once an hour per process. */
+function pruneExpiredSessions(): void {
+  if (Date.now() - lastPrune < 3600 * 1000) return;
+  lastPrune = Date.now();
+  db.delete(sessions).where(lt(sessions.expiresAt, sql`now()`)).then(
+    () => undefined,
+    (err: unknown) => console.error('[sessions] pruning expired sessions failed:', err),
+  );
+}
+
 /** A new session row for the user and its signed token (valid for TACKLOG_SESSION_HOURS). */
 export async function createSession(userId: string): Promise<{ token: string; sessionId: string }> {
+  pruneExpiredSessions();
   const expiresAt = new Date(Date.now() + config.sessionHours * 3600 * 1000);
   const [row] = await db.insert(sessions).values({ userId, expiresAt }).returning({ id: sessions.id });
   return { token: signSessionToken(userId, row.id), sessionId: row.id };
