@@ -6,6 +6,7 @@ import cookieParser from 'cookie-parser';
 import { config } from './config';
 import { attachActor } from './middleware/auth';
 import { idempotency } from './middleware/idempotency';
+import { jsonBodiesOnly, sameOriginOnly } from './middleware/csrf';
 import { errorHandler, notFoundApi } from './middleware/errors';
 import { apiRouter } from './routes';
 
@@ -18,7 +19,8 @@ export interface AppOptions {
 export function createApp(options: AppOptions = {}): Express {
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  // X-Forwarded-For is believed only from a proxy the operator named (TACKLOG_TRUST_PROXY).
+  app.set('trust proxy', config.trustProxy);
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -38,7 +40,7 @@ export function createApp(options: AppOptions = {}): Express {
     }),
   );
   app.use(cookieParser());
-  app.use('/api', express.json({ limit: '1mb' }), attachActor, idempotency, apiRouter, notFoundApi);
+  app.use('/api', sameOriginOnly, jsonBodiesOnly, express.json({ limit: '1mb' }), attachActor, idempotency, apiRouter, notFoundApi);
 
   if (options.serveClient) {
     const indexHtml = path.join(config.clientDir, 'index.html');

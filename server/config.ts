@@ -27,6 +27,22 @@ function textFromEnv(name: string, fallback: string): string {
   return raw ? raw : fallback;
 }
 
+/**
+ * TACKLOG_TRUST_PROXY: which proxies may tell the client's address in X-Forwarded-For (the
+ * sign-in limit counts per address). Unset or "off": none — the address is the connection's.
+ * A number: that many proxy hops in front. Otherwise Express's list of addresses, subnets or
+ * names ("loopback", "10.0.0.0/8, 127.0.0.1").
+ */
+export function trustProxyFromEnv(raw: string | undefined): false | number | string {
+  const value = (raw ?? '').trim();
+  if (value === '' || /^(off|false|no|0)$/i.test(value)) return false;
+  if (/^\d+$/.test(value)) return Number(value);
+  if (/^(on|true|yes)$/i.test(value)) {
+    throw new Error('TACKLOG_TRUST_PROXY must name the proxy (e.g. "loopback" or "10.0.0.5") or a number of hops; trusting every sender would let anyone choose their address.');
+  }
+  return value;
+}
+
 export const config = {
   root,
   port: intFromEnv('PORT', 3000),
@@ -42,6 +58,13 @@ export const config = {
   demoPassword: process.env.TACKLOG_DEMO_PASSWORD || 'tacklog-demo',
   /** Login attempts per address per window. */
   loginRateLimit: intFromEnv('TACKLOG_LOGIN_RATE_LIMIT', 20),
+  /** Proxies trusted for X-Forwarded-For (off by default). */
+  trustProxy: trustProxyFromEnv(process.env.TACKLOG_TRUST_PROXY),
+  /**
+   * Origins (scheme://host:port) besides the app's own that the browser may send cookie-signed
+   * state changes from, e.g. a reverse proxy's public address. Comma-separated.
+   */
+  allowedOrigins: (process.env.TACKLOG_ALLOWED_ORIGINS ?? '').split(',').map((o) => o.trim().replace(/\/$/, '')).filter(Boolean),
   smtp: {
     host: process.env.TACKLOG_SMTP_HOST ?? '127.0.0.1',
     port: intFromEnv('TACKLOG_SMTP_PORT', 2525),

@@ -4,6 +4,8 @@ import { type Action, can, isAction } from '../shared/permissions';
 import { forbiddenFor, type Actor } from './services/auth/actor';
 import { AppError, forbidden, notSignedIn } from './errors';
 import { zodIssues } from './middleware/errors';
+import { findNulField } from '../shared/schemas/common';
+import { hasBody, STATE_CHANGING, unsupportedMediaType } from './middleware/csrf';
 
 /**
  * Who may call an endpoint. Every endpoint must say it (deny by default):
@@ -36,6 +38,14 @@ interface EndpointOptions<BS, QS, PS> {
 
 function parsePart<S extends Schema>(schema: S | undefined, value: unknown, where: string): z.output<S> | undefined {
   if (!schema) return undefined;
+  // PostgreSQL cannot store a NUL character in text: refuse it here, for every route at once.
+  const nulAt = findNulField(value);
+  if (nulAt !== null) {
+    const field = where === 'body' ? nulAt : `${where}.${nulAt}`.replace(/\.$/, '');
+    throw new AppError('VALIDATION_FAILED', `Check the ${where}: ${field || where} must not contain a NUL character.`, 400, [
+      { field: field || where, message: 'must not contain a NUL character' },
+    ]);
+  }
   const result = schema.safeParse(value ?? {});
   if (!result.success) {
     const details = zodIssues(result.error, where === 'body' ? '' : `${where}.`);
@@ -80,6 +90,10 @@ export function endpoint<BS extends Schema | undefined = undefined, QS extends S
 ): RequestHandler {
   return withAccess(options.access, async (req: Request, res: Response, next: NextFunction) => {
     try {
+      // Multipart reaches only the routes that read an upload (acceptUpload marks the request).
+      if (STATE_CHANGING.has(req.method) && hasBody(req) && req.is('multipart/form-data') && !req.uploadRead) {
+        throw unsupportedMediaType(req.get('content-type'));
+      }
       checkAccess(options.access, req.actor);
       const params = parsePart(options.params as Schema | undefined, req.params, 'params');
       const query = parsePart(options.query as Schema | undefined, req.query, 'query');

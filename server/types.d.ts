@@ -5,6 +5,10 @@ declare global {
     interface Request {
       /** Set by the auth middleware when a valid session token came with the request. */
       actor?: Actor;
+      /** How the session token came: a bearer header (scripts) or the browser's cookie. */
+      authVia?: 'bearer' | 'cookie';
+      /** Set by acceptUpload: this route reads a multipart upload. */
+      uploadRead?: boolean;
     }
   }
 }

@@ -20,6 +20,12 @@ export const REFUSALS = {
   TOO_MANY_ATTEMPTS: { status: 429, title: 'Too many attempts' },
   IDEMPOTENCY_IN_PROGRESS: { status: 409, title: 'Already being processed' },
   IDEMPOTENCY_KEY_REUSED: { status: 422, title: 'Request key already used for another request' },
+  UNSUPPORTED_MEDIA_TYPE: { status: 415, title: 'Send the request body as JSON' },
+  CROSS_SITE_REQUEST: { status: 403, title: 'Change sent from a page outside Tacklog' },
+  TRY_AGAIN: { status: 409, title: 'Another change happened at the same moment; send again' },
+  REFERENCE_CHANGED: { status: 409, title: 'A record this refers to changed; reload' },
+  DUPLICATE_EMAIL: { status: 409, title: 'A user with this e-mail already exists' },
+  ALREADY_LOADED: { status: 409, title: 'Already loaded for this batch at this station' },
   INTERNAL: { status: 500, title: 'Something went wrong' },
   DB_UNAVAILABLE: { status: 503, title: 'Database unreachable, retrying' },
 

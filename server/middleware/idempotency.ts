@@ -4,12 +4,14 @@
  *
  *  - The key row is inserted before the handler runs (INSERT … ON CONFLICT DO NOTHING), so two
  *    concurrent requests with one key cannot both run: the second gets 409 IDEMPOTENCY_IN_PROGRESS.
- *  - The same key with another method or path is 422 IDEMPOTENCY_KEY_REUSED.
+ *  - The same key with another method, path, query or JSON body is 422 IDEMPOTENCY_KEY_REUSED
+ *    (the body is compared by a SHA-256 of its canonical JSON, so key order does not matter).
  *  - Responses of 500 and above are not kept (the row is deleted) so a retry can run.
  *  - A key whose first request never answered (the process died) is taken over after a while.
  *  - Keys are kept for a week.
  */
-import type { RequestHandler, Response } from 'express';
+import crypto from 'node:crypto';
+import type { Request, RequestHandler, Response } from 'express';
 import { AppError } from '../errors';
 import { isDatabaseUnavailable } from '../db/availability';
 import { claimKey, pruneKeys, releaseKey, storeResponse } from '../services/idempotency';
@@ -28,6 +30,26 @@ function pruneNowAndThen(): void {
       () => undefined,
       (err: unknown) => console.error('[idempotency] pruning old keys failed:', err),
     );
+}
+
+/** JSON with object keys sorted, so {a,b} and {b,a} are one request. */
+function canonical(value: unknown): string {
+  if (Array.isArray(value)) return `[${value.map(canonical).join(',')}]`;
+  if (value && typeof value === 'object') {
+    const entries = Object.keys(value as Record<string, unknown>).sort().map((k) => `${JSON.stringify(k)}:${canonical((value as Record<string, unknown>)[k])}`);
+    return `{${entries.join(',')}}`;
+  }
+  return JSON.stringify(value) ?? 'null';
+}
+
+/**
+ * What identifies the request beside method and path: its query and JSON body. A multipart
+ * upload is not read yet at this point, so it has no hash (method and path still must match).
+ */
+function requestHash(req: Request): string | null {
+  if (req.is('multipart/form-data')) return null;
+  const body: unknown = req.body === undefined || (typeof req.body === 'object' && req.body !== null && !Array.isArray(req.body) && Object.keys(req.body as object).length === 0) ? null : req.body;
+  return crypto.createHash('sha256').update(canonical({ query: req.query, body })).digest('hex');
 }
 
 function invalidKey(): AppError {
@@ -88,7 +110,8 @@ export const idempotency: RequestHandler = async (req, res, next) => {
     if (key.length < 1 || key.length > 200) throw invalidKey();
     const actorId = req.actor.id;
     const path = req.originalUrl.split('?')[0];
-    const claim = await claimKey(actorId, key, req.method, path);
+    const hash = requestHash(req);
+    const claim = await claimKey(actorId, key, req.method, path, hash);
     if (claim.claimed) {
       pruneNowAndThen();
       captureResponse(res, actorId, key);
@@ -103,6 +126,14 @@ export const idempotency: RequestHandler = async (req, res, next) => {
         'IDEMPOTENCY_KEY_REUSED',
         `This Idempotency-Key was already used for ${first.method} ${first.path}; use a new key for a different request.`,
         422,
+      );
+    }
+    if (first.requestHash !== null && first.requestHash !== hash) {
+      throw new AppError(
+        'IDEMPOTENCY_KEY_REUSED',
+        'This Idempotency-Key was already used for a request with a different body; use a new key for a different request.',
+        422,
+        [{ field: 'Idempotency-Key', message: 'was used with a different body' }],
       );
     }
     if (first.statusCode === null) {

@@ -1,8 +1,8 @@
 import { Router } from 'express';
 import { rateLimit } from 'express-rate-limit';
-import { loginInputSchema } from '../../shared/schemas/auth';
+import { loginInputSchema, passwordChangeInputSchema } from '../../shared/schemas/auth';
 import { endpoint } from '../http';
-import { login } from '../services/auth';
+import { changePassword, login, logout } from '../services/auth';
 import { SESSION_COOKIE } from '../services/auth/tokens';
 import { config } from '../config';
 import { sendError } from '../middleware/errors';
@@ -10,19 +10,24 @@ import { permissionsFor } from '../../shared/permissions';
 
 export const authRouter = Router();
 
-const loginLimiter = rateLimit({
-  windowMs: 15 * 60 * 1000,
-  limit: config.loginRateLimit,
-  standardHeaders: 'draft-7',
-  legacyHeaders: false,
-  handler: (_req, res) => {
-    sendError(res, 'TOO_MANY_ATTEMPTS', 'Too many sign-in attempts; wait a few minutes and try again.');
-  },
-});
+/** Attempts per client address (req.ip: the socket's address unless TACKLOG_TRUST_PROXY names a proxy). */
+function attemptLimiter() {
+  return rateLimit({
+    windowMs: 15 * 60 * 1000,
+    limit: config.loginRateLimit,
+    standardHeaders: 'draft-7',
+    legacyHeaders: false,
+    // Without a trusted proxy X-Forwarded-For is ignored on purpose (anyone can send it).
+    validate: { xForwardedForHeader: false },
+    handler: (_req, res) => {
+      sendError(res, 'TOO_MANY_ATTEMPTS', 'Too many sign-in attempts; wait a few minutes and try again.');
+    },
+  });
+}
 
 authRouter.post(
   '/login',
-  loginLimiter,
+  attemptLimiter(),
   endpoint({ access: 'public', body: loginInputSchema }, async ({ body, res }) => {
     const result = await login(body);
     res.cookie(SESSION_COOKIE, result.token, {
@@ -36,15 +41,29 @@ authRouter.post(
   }),
 );
 
+/** Ends this session: the token (bearer or cookie) no longer works. Without a session it only clears the cookie. */
 authRouter.post(
   '/logout',
-  endpoint({ access: 'public' }, ({ res }) => {
+  endpoint({ access: 'public' }, async ({ actor, res }) => {
+    if (actor) await logout(actor);
     res.clearCookie(SESSION_COOKIE, { path: '/' });
     return { ok: true };
   }),
 );
 
+/** Changes the signed-in user's password and ends their other sessions. */
+authRouter.post(
+  '/password',
+  attemptLimiter(),
+  endpoint({ access: 'signed-in', body: passwordChangeInputSchema }, async ({ actor, body }) => {
+    const { endedSessions } = await changePassword(actor, body);
+    return { ok: true, endedSessions };
+  }),
+);
+
 authRouter.get(
   '/me',
-  endpoint({ access: 'signed-in' }, ({ actor }) => ({ user: { ...actor, permissions: permissionsFor(actor.roles) } })),
+  endpoint({ access: 'signed-in' }, ({ actor }) => ({
+    user: { id: actor.id, email: actor.email, name: actor.name, roles: actor.roles, permissions: permissionsFor(actor.roles) },
+  })),
 );

@@ -10,6 +10,15 @@ export const loginInputSchema = z.object({
 });
 export type LoginInput = z.infer<typeof loginInputSchema>;
 
+/** POST /api/auth/password. */
+export const passwordChangeInputSchema = z.object({
+  currentPassword: z.string({ error: 'is required' }).min(1, 'is required').max(200, 'is too long'),
+  newPassword: z.string({ error: 'is required' }).min(10, 'must be at least 10 characters').max(200, 'must be at most 200 characters'),
+});
+export type PasswordChangeInput = z.infer<typeof passwordChangeInputSchema>;
+
+export const passwordChangeResultSchema = z.object({ ok: z.literal(true), endedSessions: z.number().int().nonnegative() });
+
 export const userSchema = z.object({
   id: idSchema,
   email: z.string(),

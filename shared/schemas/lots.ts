@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { LOT_STATUSES } from '../constants';
-import { dateSchema, idSchema, instantSchema } from './common';
+import { dateSchema, fitsColumn, idSchema, instantSchema, QUANTITY_COLUMN } from './common';
 import { attachmentSchema } from './attachments';
 import { containerSchema, fefoEntrySchema } from './containers';
 import { gtinSchema, materialSchema, orRequired, requiredIdSchema } from './materials';
@@ -34,9 +34,6 @@ export const LOT_TRANSITIONS: Record<(typeof LOT_STATUSES)[number], readonly (ty
 export const RECEIVED_AT_TOLERANCE_MINUTES = 5;
 export const MAX_CONTAINERS_PER_RECEIPT = 500;
 
-function hasAtMostDecimals(n: number, places: number): boolean {
-  return Math.abs(Math.round(n * 10 ** places) - n * 10 ** places) < 1e-6;
-}
 
 /** POST /api/lots body. */
 export const receiveLotInputSchema = z
@@ -46,8 +43,7 @@ export const receiveLotInputSchema = z
     supplierLot: z.string(orRequired('must be text')).trim().min(1, 'is required').max(60, 'must be at most 60 characters'),
     containers: z.number(orRequired('must be a whole number of containers')).int('must be a whole number of containers')
       .min(1, 'must be at least 1').max(MAX_CONTAINERS_PER_RECEIPT, `must be at most ${MAX_CONTAINERS_PER_RECEIPT}`),
-    quantityPerContainer: z.number(orRequired('must be a number')).positive('must be more than 0').max(1e9, 'is too large')
-      .refine((n) => hasAtMostDecimals(n, 3), 'may have at most 3 decimal places'),
+    quantityPerContainer: fitsColumn(z.number(orRequired('must be a number')).positive('must be more than 0').max(1e9, 'is too large'), QUANTITY_COLUMN),
     manufacturedOn: dateSchema.nullish(),
     expiresOn: dateSchema.nullish(),
     receivedAt: instantSchema.nullish(),

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { GHS_PICTOGRAMS, MATERIAL_KINDS, STORAGE_CLASSES, type MaterialKind } from '../constants';
 import { isValidGtin } from '../gs1';
-import { idSchema, instantSchema } from './common';
+import { fitsColumn, idSchema, instantSchema, MIX_RATIO_COLUMN, QUANTITY_COLUMN } from './common';
 import { attachmentSchema } from './attachments';
 
 /**
@@ -96,7 +96,7 @@ export const gtinSchema = z
   .refine(isValidGtin, 'has a wrong check digit')
   .transform((g) => g.padStart(14, '0'));
 
-const quantity = (msg: string) => z.number(orRequired(msg)).min(0, 'must not be negative').max(1e9, 'is too large');
+const quantity = (msg: string) => fitsColumn(z.number(orRequired(msg)).min(0, 'must not be negative').max(1e9, 'is too large'), QUANTITY_COLUMN);
 
 /** Every editable field of a material; nullable fields accept null (cleared) or absence. */
 export const materialFieldsSchema = z.object({
@@ -113,7 +113,7 @@ export const materialFieldsSchema = z.object({
   potLifeMinutes: positiveInt('minutes').max(525600, 'must be at most a year').nullish(),
   partnerMaterialId: idSchema.nullish(),
   /** Parts by weight of this component per 1 part of the partner. */
-  mixRatio: z.number(orRequired('must be a number')).positive('must be more than 0').max(1000, 'must be at most 1000').nullish(),
+  mixRatio: fitsColumn(z.number(orRequired('must be a number')).positive('must be more than 0').max(1000, 'must be at most 1000'), MIX_RATIO_COLUMN).nullish(),
   cure: cureProfileSchema.nullish(),
   requiresInspection: z.boolean(orRequired('must be true or false')).default(true),
   hazards: hazardsSchema.default({ signalWord: undefined, pictograms: [], statements: [] }),

@@ -1,10 +1,10 @@
 import { z } from 'zod';
 import { MIX_STATUSES } from '../constants';
-import { idSchema, instantSchema } from './common';
+import { fitsColumn, idSchema, instantSchema, QUANTITY_COLUMN } from './common';
 import { expiryCauseSchema } from './station-loads';
 
 const scannedCode = z.string().trim().min(1, 'is required').max(200, 'is at most 200 characters');
-const quantity = z.number().positive('must be more than 0').max(1_000_000, 'is too large');
+const quantity = fitsColumn(z.number().positive('must be more than 0').max(1_000_000, 'is too large'), QUANTITY_COLUMN);
 
 /** POST /api/stations/:id/mixes (assembler). Quantities in the materials' units. */
 export const mixInputSchema = z.object({

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { idSchema, instantSchema } from './common';
+import { AMOUNT_PER_UNIT_COLUMN, fitsColumn, idSchema, instantSchema } from './common';
 
 const text = (max: number) => z.string().trim().min(1, 'is required').max(max, `is at most ${max} characters`);
 
@@ -13,7 +13,7 @@ export const modelCodeSchema = z
 export const recipeMaterialSchema = z.object({
   materialId: idSchema,
   /** In the material's unit, per driver. */
-  amountPerUnit: z.number().positive('must be more than 0').max(1_000_000, 'is too large'),
+  amountPerUnit: fitsColumn(z.number().positive('must be more than 0').max(1_000_000, 'is too large'), AMOUNT_PER_UNIT_COLUMN),
 });
 export type RecipeMaterial = z.infer<typeof recipeMaterialSchema>;
 

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { idSchema, instantSchema } from './common';
+import { fitsColumn, idSchema, instantSchema, READING_COLUMN } from './common';
 
 /** A reading may be stamped at most this far ahead of the server's clock (clock drift). */
 export const READING_MAX_FUTURE_MS = 5 * 60 * 1000;
@@ -10,8 +10,8 @@ const atSchema = instantSchema.refine(
   (s) => Number.isNaN(Date.parse(s)) || Date.parse(s) <= Date.now() + READING_MAX_FUTURE_MS,
   'is in the future (more than 5 minutes ahead of the server clock)',
 );
-const tempSchema = z.number().min(-60, 'must be at least -60 °C').max(150, 'must be at most 150 °C');
-const rhSchema = z.number().min(0, 'must be at least 0 %').max(100, 'must be at most 100 %');
+const tempSchema = fitsColumn(z.number().min(-60, 'must be at least -60 °C').max(150, 'must be at most 150 °C'), READING_COLUMN);
+const rhSchema = fitsColumn(z.number().min(0, 'must be at least 0 %').max(100, 'must be at most 100 %'), READING_COLUMN);
 const sourceSchema = z.string().trim().min(1).max(60);
 
 /** One shop-condition reading for an area. */

@@ -22,7 +22,7 @@ beforeAll(async () => {
   const freshDb = await import('../../server/db/client');
   const tokens = await import('../../server/services/auth/tokens');
   closeDb = freshDb.closeDb;
-  token = tokens.signSessionToken('00000000-0000-4000-8000-000000000001');
+  token = tokens.signSessionToken('00000000-0000-4000-8000-000000000001', '00000000-0000-4000-8000-000000000002');
   app = await listen(fresh.createApp());
   if (previousUrl === undefined) delete process.env.DATABASE_URL;
   else process.env.DATABASE_URL = previousUrl;

@@ -11,8 +11,8 @@
  * DATABASE_URL names the test database: `npm test` creates and migrates one; to run one file by
  * hand: DATABASE_URL=postgres://…/your_db npx vitest run --project api tests/api/x.test.ts
  *
- * The token comes from signSessionToken, so it is valid for an app made in the same test file
- * (startApp) and costs no sign-in (the login rate limit stays for the tests that want it).
+ * The token comes from a fresh session row (createSession), so it is valid for an app made in the
+ * same test file (startApp) and costs no sign-in (the login rate limit stays for the tests that want it).
  */
 import crypto from 'node:crypto';
 import { eq, sql } from 'drizzle-orm';
@@ -21,8 +21,7 @@ import type { Role } from '../../shared/constants';
 import { db } from '../../server/db/client';
 import { runMigrations } from '../../server/db/migrate';
 import { users } from '../../server/db/schema';
-import { hashPassword } from '../../server/services/auth';
-import { signSessionToken } from '../../server/services/auth/tokens';
+import { createSession, hashPassword } from '../../server/services/auth';
 
 /** Password of every user ensureUser makes (unless given another). */
 export const TEST_PASSWORD = 'test-password-1';
@@ -90,7 +89,8 @@ export async function ensureUser(
     }
   }
   await db.update(users).set(values).where(eq(users.id, id));
-  return { id, email, name, password, roles, token: signSessionToken(id) };
+  const { token } = await createSession(id);
+  return { id, email, name, password, roles, token };
 }
 
 export interface ScratchDatabase {

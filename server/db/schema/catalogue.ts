@@ -72,7 +72,8 @@ export const materials = pgTable(
   },
   (t) => [
     uniqueIndex('materials_code_uq').on(t.code),
-    index('materials_gtin_idx').on(t.gtin),
+    // One GTIN identifies one material (several materials may have none).
+    uniqueIndex('materials_gtin_uq').on(t.gtin),
     check('materials_shelf_life_ck', sql`${t.shelfLifeDays} IS NULL OR ${t.shelfLifeDays} > 0`),
     check('materials_open_life_ck', sql`${t.openLifeHours} IS NULL OR ${t.openLifeHours} > 0`),
     check('materials_thawed_life_ck', sql`${t.thawedLifeHours} IS NULL OR ${t.thawedLifeHours} > 0`),

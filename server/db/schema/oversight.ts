@@ -57,6 +57,8 @@ export const idempotencyKeys = pgTable(
     actorId: uuid('actor_id').notNull().references(() => users.id),
     method: text('method').notNull(),
     path: text('path').notNull(),
+    /** SHA-256 of the first request's query and JSON body: a repeat with another body is refused. */
+    requestHash: text('request_hash'),
     statusCode: integer('status_code'),
     responseBody: jsonb('response_body'),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),

@@ -123,6 +123,11 @@ export const stationLoads = pgTable(
   },
   (t) => [
     index('station_loads_station_idx').on(t.stationId, t.unloadedAt),
+    // One active load of a container or mix per batch and station, even when loads race.
+    uniqueIndex('station_loads_active_container_uq').on(t.stationId, t.batchId, t.containerId)
+      .where(sql`${t.unloadedAt} IS NULL AND ${t.containerId} IS NOT NULL`),
+    uniqueIndex('station_loads_active_mix_uq').on(t.stationId, t.batchId, t.mixId)
+      .where(sql`${t.unloadedAt} IS NULL AND ${t.mixId} IS NOT NULL`),
     check('station_loads_one_ck', sql`(${t.containerId} IS NULL) <> (${t.mixId} IS NULL)`),
   ],
 );

@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { boolean, pgTable, text, timestamp, uuid, uniqueIndex, check } from 'drizzle-orm/pg-core';
+import { boolean, index, pgTable, text, timestamp, uuid, uniqueIndex, check } from 'drizzle-orm/pg-core';
 import { roleEnum } from './enums';
 
 export const users = pgTable(
@@ -18,4 +18,20 @@ export const users = pgTable(
     uniqueIndex('users_email_lower_uq').on(sql`lower(${t.email})`),
     check('users_email_ck', sql`position('@' in ${t.email}) > 1`),
   ],
+);
+
+/**
+ * One row per sign-in. The session token carries the row's id; a request is signed in only while
+ * its row is neither revoked (logout, password change) nor expired and the user is active.
+ */
+export const sessions = pgTable(
+  'sessions',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    userId: uuid('user_id').notNull().references(() => users.id),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+    revokedAt: timestamp('revoked_at', { withTimezone: true }),
+  },
+  (t) => [index('sessions_user_idx').on(t.userId), index('sessions_expires_idx').on(t.expiresAt)],
 );

@@ -58,14 +58,34 @@ export function checkUpload(file: UploadedFile | undefined): UploadType {
   return actual;
 }
 
-/** A file name safe to keep and to send back: no path, no control characters, at most 200 chars. */
+/**
+ * Characters never kept in a file name: C0 and C1 controls, DEL, and the Unicode bidirectional
+ * marks, embeddings, overrides and isolates (Unicode UAX #9: U+061C, U+200E–U+200F,
+ * U+202A–U+202E, U+2066–U+2069), which can make "evil\u202Efdp.exe" read as "evilexe.pdf".
+ * Zero-width characters and the BOM go too, so no invisible difference hides in a name.
+ */
+// eslint-disable-next-line no-control-regex -- matching control characters is the point
+const UNSAFE_NAME_CHARS = /[\u0000-\u001f\u007f-\u009f\u061c\u200b-\u200f\u202a-\u202e\u2060-\u2069\ufeff"]/g;
+
+/** Extensions that name each accepted type; the first is the one given to a file without one. */
+const TYPE_EXTENSIONS: Record<UploadType, string[]> = { 'application/pdf': ['pdf'], 'image/png': ['png'], 'image/jpeg': ['jpg', 'jpeg'] };
+
+/**
+ * A file name safe to keep and to send back: no path, no control or bidi characters, at most 200
+ * characters, and an extension that matches the checked type (a PDF sent as "poly.html" is kept
+ * as "poly.pdf"), so a download never opens as something else.
+ */
 export function cleanFilename(name: string, type: UploadType): string {
-  const printable = Array.from(name.replace(/\\/g, '/'))
-    .filter((ch) => ch.charCodeAt(0) >= 0x20 && ch.charCodeAt(0) !== 0x7f && ch !== '"')
-    .join('');
-  const base = path.basename(printable).trim();
-  const fallback = `document.${EXTENSIONS[type]}`;
-  return (base || fallback).slice(0, 200);
+  const printable = name.replace(/\\/g, '/').replace(UNSAFE_NAME_CHARS, '');
+  let base = path.posix.basename(printable).trim().replace(/^\.+/, '');
+  const ext = path.posix.extname(base).slice(1).toLowerCase();
+  const allowed = TYPE_EXTENSIONS[type];
+  if (!allowed.includes(ext)) base = `${base.slice(0, base.length - (ext ? ext.length + 1 : 0)).trim() || 'document'}.${allowed[0]}`;
+  if (base.length > 200) {
+    const keep = path.posix.extname(base);
+    base = `${base.slice(0, 200 - keep.length)}${keep}`;
+  }
+  return base;
 }
 
 /** Absolute path of a stored attachment, refusing anything outside the upload folder. */

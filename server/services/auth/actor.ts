@@ -9,6 +9,8 @@ export interface Actor {
   email: string;
   name: string;
   roles: Role[];
+  /** The session the request came with (absent for actors made by jobs). */
+  sessionId?: string;
 }
 
 /** The refusal for someone whose roles do not allow `action`, naming the roles that would. */

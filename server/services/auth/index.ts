@@ -1,11 +1,12 @@
 import bcrypt from 'bcryptjs';
-import { eq, sql } from 'drizzle-orm';
+import { and, eq, gt, isNull, lt, ne, sql } from 'drizzle-orm';
 import { db } from '../../db/client';
-import { users } from '../../db/schema';
+import { sessions, users } from '../../db/schema';
+import { config } from '../../config';
 import { AppError } from '../../errors';
-import type { LoginInput, User } from '../../../shared/schemas/auth';
+import type { LoginInput, PasswordChangeInput, User } from '../../../shared/schemas/auth';
 import type { Actor } from './actor';
-import { signSessionToken } from './tokens';
+import { signSessionToken, type SessionClaims } from './tokens';
 import { recordAudit } from '../audit';
 
 // A hash to compare against when the e-mail is unknown, so both paths take the same time.
@@ -15,8 +16,28 @@ export function hashPassword(password: string): Promise<string> {
   return bcrypt.hash(password, 10);
 }
 
-function toUser(row: typeof users.$inferSelect): User {
+function toUser(row: Pick<typeof users.$inferSelect, 'id' | 'email' | 'name' | 'roles'>): User {
   return { id: row.id, email: row.email, name: row.name, roles: row.roles };
+}
+
+let lastPrune = 0;
+
+/** Drops session rows past their expiry (their tokens have expired too), at most once an hour per process. */
+function pruneExpiredSessions(): void {
+  if (Date.now() - lastPrune < 3600 * 1000) return;
+  lastPrune = Date.now();
+  db.delete(sessions).where(lt(sessions.expiresAt, sql`now()`)).then(
+    () => undefined,
+    (err: unknown) => console.error('[sessions] pruning expired sessions failed:', err),
+  );
+}
+
+/** A new session row for the user and its signed token (valid for TACKLOG_SESSION_HOURS). */
+export async function createSession(userId: string): Promise<{ token: string; sessionId: string }> {
+  pruneExpiredSessions();
+  const expiresAt = new Date(Date.now() + config.sessionHours * 3600 * 1000);
+  const [row] = await db.insert(sessions).values({ userId, expiresAt }).returning({ id: sessions.id });
+  return { token: signSessionToken(userId, row.id), sessionId: row.id };
 }
 
 export async function login(input: LoginInput): Promise<{ token: string; user: User }> {
@@ -25,13 +46,75 @@ export async function login(input: LoginInput): Promise<{ token: string; user: U
   if (!row || !ok || !row.active) {
     throw new AppError('BAD_CREDENTIALS', 'The e-mail or password is not right.', 401);
   }
+  const { token } = await createSession(row.id);
   await recordAudit(db, { actorId: row.id, action: 'login', entityType: 'user', entityId: row.id });
-  return { token: signSessionToken(row.id), user: toUser(row) };
+  return { token, user: toUser(row) };
 }
 
-/** The actor for a user id from a session token; null when the user is gone or disabled. */
-export async function actorForUserId(userId: string): Promise<Actor | null> {
-  const [row] = await db.select().from(users).where(eq(users.id, userId)).limit(1);
-  if (!row || !row.active) return null;
-  return toUser(row);
+/**
+ * The actor for a session token's claims: one indexed lookup (session by primary key joined to
+ * its user). Null when the session was revoked or has expired, or the user is gone or disabled.
+ */
+export async function actorForSession(claims: SessionClaims): Promise<Actor | null> {
+  const [row] = await db
+    .select({ id: users.id, email: users.email, name: users.name, roles: users.roles })
+    .from(sessions)
+    .innerJoin(users, eq(users.id, sessions.userId))
+    .where(
+      and(
+        eq(sessions.id, claims.sessionId),
+        eq(sessions.userId, claims.userId),
+        isNull(sessions.revokedAt),
+        gt(sessions.expiresAt, sql`now()`),
+        eq(users.active, true),
+      ),
+    )
+    .limit(1);
+  return row ? { ...toUser(row), sessionId: claims.sessionId } : null;
+}
+
+/** POST /api/auth/logout: this session's token (bearer or cookie) stops working at once. */
+export async function logout(actor: Actor): Promise<void> {
+  if (!actor.sessionId) return;
+  await db.transaction(async (tx) => {
+    const ended = await tx
+      .update(sessions)
+      .set({ revokedAt: new Date() })
+      .where(and(eq(sessions.id, actor.sessionId!), isNull(sessions.revokedAt)))
+      .returning({ id: sessions.id });
+    if (ended.length) await recordAudit(tx, { actorId: actor.id, action: 'logout', entityType: 'user', entityId: actor.id });
+  });
+}
+
+/**
+ * POST /api/auth/password: checks the current password, stores the new one and ends every other
+ * session of this user (a token someone else may hold stops working); this session stays.
+ */
+export async function changePassword(actor: Actor, input: PasswordChangeInput): Promise<{ endedSessions: number }> {
+  const [row] = await db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, actor.id)).limit(1);
+  if (!row || !(await bcrypt.compare(input.currentPassword, row.passwordHash))) {
+    throw new AppError('VALIDATION_FAILED', 'The current password is not right.', 400, [{ field: 'currentPassword', message: 'is not right' }]);
+  }
+  if (input.currentPassword === input.newPassword) {
+    throw new AppError('VALIDATION_FAILED', 'The new password must differ from the current one.', 400, [{ field: 'newPassword', message: 'must differ from the current password' }]);
+  }
+  const passwordHash = await hashPassword(input.newPassword);
+  return db.transaction(async (tx) => {
+    const now = new Date();
+    await tx.update(users).set({ passwordHash, updatedAt: now }).where(eq(users.id, actor.id));
+    const others = actor.sessionId ? ne(sessions.id, actor.sessionId) : undefined;
+    const ended = await tx
+      .update(sessions)
+      .set({ revokedAt: now })
+      .where(and(eq(sessions.userId, actor.id), isNull(sessions.revokedAt), others))
+      .returning({ id: sessions.id });
+    await recordAudit(tx, {
+      actorId: actor.id,
+      action: 'user.password_change',
+      entityType: 'user',
+      entityId: actor.id,
+      after: { otherSessionsEnded: ended.length },
+    });
+    return { endedSessions: ended.length };
+  });
 }

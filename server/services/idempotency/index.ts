@@ -18,6 +18,7 @@ export async function claimKey(
   key: string,
   method: string,
   path: string,
+  requestHash: string | null,
 ): Promise<{ claimed: true } | { claimed: false; first: StoredRequest | null }> {
   // Take over a key whose first request died without an answer.
   await db
@@ -25,7 +26,7 @@ export async function claimKey(
     .where(and(byKey(actorId, key), isNull(idempotencyKeys.statusCode), lt(idempotencyKeys.createdAt, new Date(Date.now() - STALE_MS))));
   const inserted = await db
     .insert(idempotencyKeys)
-    .values({ key, actorId, method, path })
+    .values({ key, actorId, method, path, requestHash })
     .onConflictDoNothing()
     .returning({ key: idempotencyKeys.key });
   if (inserted.length === 1) return { claimed: true };

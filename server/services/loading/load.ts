@@ -100,8 +100,15 @@ export async function loadAtStation(actor: Actor, stationId: string, input: Load
       checkContainerUsable(c.container, c.lot, c.material, now);
       containerId = c.container.id;
       if (c.container.status === 'sealed') {
-        opened = true;
-        await tx.update(containers).set({ status: 'open', openedAt: now, updatedAt: now }).where(eq(containers.id, c.container.id));
+        // Only the load that finds it still sealed opens it (a racing load must not move openedAt).
+        const openedRows = await tx
+          .update(containers)
+          .set({ status: 'open', openedAt: now, updatedAt: now })
+          .where(and(eq(containers.id, c.container.id), eq(containers.status, 'sealed')))
+          .returning({ id: containers.id });
+        opened = openedRows.length === 1;
+      }
+      if (opened) {
         await recordAudit(tx, {
           actorId: actor.id,
           action: 'container.open',
