@@ -22,6 +22,7 @@ import { scansRouter } from './scans';
 import { labelsRouter } from './labels';
 import { attachmentsRouter } from './attachments';
 import { alertsRouter, complianceRouter } from './alerts';
+import { stockRouter } from './stock';
 
 /** Every API router, mounted under /api. Add a domain's router here. */
 export const apiRouter = Router();
@@ -51,3 +52,4 @@ apiRouter.use('/labels', labelsRouter);
 apiRouter.use('/attachments', attachmentsRouter);
 apiRouter.use('/alerts', alertsRouter);
 apiRouter.use('/compliance', complianceRouter);
+apiRouter.use('/stock', stockRouter);
