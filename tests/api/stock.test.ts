@@ -200,7 +200,7 @@ describe('days of cover, waste and advice from the simulation', () => {
     expect(text.endsWith('\r\n')).toBe(true);
     const lines = text.split('\r\n').filter(Boolean);
     expect(lines).toHaveLength(2);
-    expect(lines[0]).toContain('Daily use (unit/day),Daily use from,Days of cover (days),Runs out (date, UTC)');
+    expect(lines[0]).toContain('Daily use (unit/day),Daily use from,Days of cover (days),Runs out (date in UTC),Predicted waste (unit),Advice');
     // The advice sentence holds commas: quoted (RFC 4180 §2.6).
     expect(lines[1]).toMatch(new RegExp(`^${glue.code},"?Stock test adhesive [^,]*"?,g,30,0,40,5,1,history,`));
     expect(lines[1]).toContain(`,${dateIn(21)},`);

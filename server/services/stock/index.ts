@@ -75,7 +75,7 @@ export function stockCsvBody(list: StockList): string {
   const header = [
     'Material code', 'Material', 'Unit',
     'Released (unit)', 'On hold (unit)', 'Quarantined (unit)', 'Reorder point (unit)',
-    'Daily use (unit/day)', 'Daily use from', 'Days of cover (days)', `Runs out (date, ${list.zone})`,
+    'Daily use (unit/day)', 'Daily use from', 'Days of cover (days)', `Runs out (date in ${list.zone})`,
     'Predicted waste (unit)', 'Advice', 'Order by (date)', 'Order quantity suggested (unit)', 'Pack warning',
   ];
   const rows = list.items.map((i) => [
