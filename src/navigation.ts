@@ -47,7 +47,8 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: 'lots.list', label: 'Lots', icon: 'inventory_2', group: 'oversight' },
   { to: 'trace.search', label: 'Trace', icon: 'account_tree', group: 'oversight', roles: ['quality'] },
   { to: 'alerts.list', label: 'Alerts', icon: 'notifications', group: 'oversight', roles: ['quality', 'admin', 'purchasing'] },
-  { to: 'stock.overview', label: 'Stock & expiry', icon: 'event_busy', group: 'oversight', roles: ['purchasing'] },
+  { to: 'stock.overview', label: 'Stock & expiry', icon: 'event_busy', group: 'oversight', roles: ['purchasing', 'quality', 'admin'] },
+  { to: 'stock.outlook', label: 'Expiry outlook', icon: 'stacked_bar_chart', group: 'oversight', roles: ['purchasing', 'quality', 'admin'] },
 
   { to: 'catalogue.materials', label: 'Materials', icon: 'science', group: 'catalogue', roles: ['admin'] },
   { to: 'catalogue.suppliers', label: 'Suppliers', icon: 'local_shipping', group: 'catalogue', roles: ['admin', 'purchasing'] },

@@ -2,6 +2,7 @@ import { computed, ref, type DeepReadonly } from 'vue';
 import { defineStore } from 'pinia';
 import type { Role } from '@shared/constants';
 import type { User } from '@shared/schemas/auth';
+import { can as rolesCan, type Action } from '@shared/permissions';
 import * as authApi from '@/api/auth';
 import { ApiError, onUnauthorized } from '@/api/http';
 
@@ -78,5 +79,15 @@ export const useSessionStore = defineStore('session', () => {
     return wanted.some((role) => current.value?.roles.includes(role));
   }
 
-  return { user, loaded: computed(() => loaded.value), roles, signedIn, load, signIn, signOut, hasRole };
+  /**
+   * Whether the user may do an action of the permission map: the server's list from
+   * /api/auth/me when it sent one, else the same map applied to the user's roles.
+   */
+  function can(action: Action): boolean {
+    const u = current.value as (User & { permissions?: string[] }) | null;
+    if (!u) return false;
+    return Array.isArray(u.permissions) ? u.permissions.includes(action) : rolesCan(u.roles, action);
+  }
+
+  return { user, loaded: computed(() => loaded.value), roles, signedIn, load, signIn, signOut, hasRole, can };
 });
