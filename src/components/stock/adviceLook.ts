@@ -21,3 +21,9 @@ export function daysText(n: number | null, beyond: boolean, horizonDays: number)
   if (n === null) return beyond ? `more than ${horizonDays}` : '—';
   return (Math.round(n * 10) / 10).toLocaleString('en-GB', { maximumFractionDigits: 1 });
 }
+
+/** A daily rate with three significant figures at most: "96.4 pcs/day", "0.357 g/day". */
+export function rateText(n: number, unit: string): string {
+  const text = n === 0 ? '0' : n.toLocaleString('en-GB', { maximumSignificantDigits: n >= 1000 ? 6 : 3 });
+  return `${text} ${unit}/day`;
+}
