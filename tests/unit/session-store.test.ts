@@ -195,3 +195,23 @@ describe('session end', () => {
     expect(session.user).toBeNull();
   });
 });
+
+describe('can', () => {
+  it("answers from the server's permission list, else from the same map on the roles, and no for nobody", async () => {
+    const session = useSessionStore();
+    expect(session.can('stock.read')).toBe(false);
+    // The server sent a list: it is what counts (here it leaves stock.read out).
+    api.me.mockResolvedValueOnce({ ...quality, permissions: ['lots.release'] } as User);
+    await session.load();
+    expect(session.can('lots.release')).toBe(true);
+    expect(session.can('stock.read')).toBe(false);
+  });
+
+  it('without a list from the server, the roles decide through shared/permissions.ts', async () => {
+    api.login.mockResolvedValueOnce({ token: 't', user: quality });
+    const session = useSessionStore();
+    await session.signIn(quality.email, 'pw');
+    expect(session.can('stock.read')).toBe(true); // quality may read stock
+    expect(session.can('users.manage')).toBe(false);
+  });
+});
