@@ -164,13 +164,28 @@ export function simulateFefo(input: SimInput): SimResult {
   /** Ends a container that is not in use: empty ones are done, the rest expire or reach the horizon. */
   const settleIdle = (it: Item) => {
     if (it.endedBy) return;
+    if (it.arrivesAt >= horizon) {
+      // Arrives after the horizon: not part of this look ahead.
+      it.left = it.remaining;
+      it.remaining = 0;
+      it.endedAt = horizon;
+      it.endedBy = 'horizon';
+      return;
+    }
     if (it.remaining <= 0) {
       it.endedBy = 'empty';
       it.endedAt = it.openedAt ?? it.arrivesAt;
       return;
     }
     const exp = effectiveExpiry(it);
-    if (exp < horizon) {
+    if (it.arrivesAt > start && exp <= it.arrivesAt) {
+      // Delivered already expired: waste on arrival. (Stock on hand that expired before the
+      // start keeps its own expiry as the moment it ended.)
+      it.wasted = it.remaining;
+      it.remaining = 0;
+      it.endedAt = it.arrivesAt;
+      it.endedBy = 'expired';
+    } else if (exp < horizon) {
       it.wasted = it.remaining;
       it.remaining = 0;
       it.endedAt = exp;

@@ -130,6 +130,21 @@ describe('FEFO simulation, hand-worked', () => {
     expect(r.wasted).toBe(6);
   });
 
+  it('a delivery that arrives already expired is waste on arrival; one after the horizon is left out', () => {
+    // Delivery A: 5 kg arriving day 3 with expiry day 2 → unusable, 5 kg waste at day 3 (not day 2).
+    // Delivery B: 4 kg arriving day 40, horizon 30 days → not reached: left 4, ended at the horizon.
+    // On hand 10 kg (no expiry) at 1 kg/day: used up at day 10; A is never usable → runs out at day 10.
+    const r = simulateFefo({
+      start: START, dailyUse: 1, horizonDays: 30,
+      containers: [{ quantity: 10, expiresAt: null }],
+      incoming: [{ arrivesAt: day(3), quantity: 5, expiresAt: day(2) }, { arrivesAt: day(40), quantity: 4, expiresAt: null }],
+    });
+    expect(r.incoming[0]).toMatchObject({ used: 0, wasted: 5, openedAt: null, endedAt: day(3), endedBy: 'expired' });
+    expect(r.incoming[1]).toMatchObject({ used: 0, wasted: 0, left: 4, endedAt: day(30), endedBy: 'horizon' });
+    expect(r.runsOutAt).toBe(day(10));
+    expect(r).toMatchObject({ used: 10, wasted: 5, left: 4 });
+  });
+
   it('stops at the horizon with the container in use partly left', () => {
     // 100 kg, no expiry, 1 kg/day, horizon 30 days: used 30, left 70, does not run out.
     const r = simulateFefo({ start: START, dailyUse: 1, horizonDays: 30, containers: [{ quantity: 100, expiresAt: null }] });
@@ -193,6 +208,7 @@ describe('FEFO simulation, properties (fast-check)', () => {
         for (const c of [...r.containers, ...r.incoming]) {
           if (c.expiresAt !== null) expect(Date.parse(c.endedAt)).toBeLessThanOrEqual(Math.max(Date.parse(c.expiresAt), Date.parse(r.horizonAt)));
           if (c.used > 0) expect(c.openedAt).not.toBeNull();
+          expect(Date.parse(c.endedAt)).toBeLessThanOrEqual(Date.parse(r.horizonAt));
         }
         if (i.dailyUse === 0) expect(r.runsOutAt).toBeNull();
       }),
