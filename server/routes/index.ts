@@ -25,6 +25,7 @@ import { attachmentsRouter } from './attachments';
 import { alertsRouter, complianceRouter } from './alerts';
 import { auditRouter } from './audit';
 import { qualityRouter } from './quality';
+import { stockRouter } from './stock';
 
 /** Every API router, mounted under /api. Add a domain's router here. */
 export const apiRouter = Router();
@@ -57,3 +58,4 @@ apiRouter.use('/alerts', alertsRouter);
 apiRouter.use('/compliance', complianceRouter);
 apiRouter.use('/audit', auditRouter);
 apiRouter.use('/quality', qualityRouter);
+apiRouter.use('/stock', stockRouter);

@@ -12,6 +12,7 @@ import { materialsRoutes } from './routes/materials';
 import { receivingRoutes } from './routes/receiving';
 import { alertsRoutes } from './routes/alerts';
 import { actionsOf } from './meta';
+import { stockRoutes } from './routes/stock';
 
 // ---------------------------------------------------------------------------------------------
 // Area routes. Each area keeps its routes in src/router/routes/<area>.ts (lazy components,
@@ -27,6 +28,7 @@ const areaRoutes: RouteRecordRaw[] = [
   ...materialsRoutes,
   ...receivingRoutes,
   ...alertsRoutes,
+  ...stockRoutes,
 ];
 
 export const routes: RouteRecordRaw[] = [

@@ -417,7 +417,9 @@ export function simulateHistory(
   receive('CON-12P', now.minus({ days: 9 }), 5, {
     status: 'quarantined', statusReason: 'Cones warped in transit; moisture damage suspected, awaiting supplier response.',
   });
-  const soon = receive('ADH-CA-40', now.minus({ days: 200 }), 4, { expiresOn: dateOnly(now.plus({ days: 9 })) });
+  // A large cyanoacrylate lot bought near the end of its life: more than the line can use in the
+  // 9 days left, so purchasing sees predicted waste and days of cover shorter than on hand ÷ use.
+  const soon = receive('ADH-CA-40', now.minus({ days: 200 }), 20, { expiresOn: dateOnly(now.plus({ days: 9 })) });
   soon.containers[0].openedAt = now.minus({ days: 3 });
   receive('ACT-220', now.minus({ days: 300 }), 2, { expiresOn: dateOnly(now.minus({ days: 2 })) });
   const frozen = receive('ADH-FZ-7', now.minus({ days: 20 }), 6);
@@ -426,13 +428,19 @@ export function simulateHistory(
   frozen.containers[1].thawedAt = now.minus({ hours: 1 });
   frozen.containers[1].location = 'Line A, dust cap bench';
 
-  // Purchasing has kept up: every material but one is stocked above its reorder point.
+  // Purchasing has kept up: every material but one is stocked above its reorder point and for
+  // its lead time plus four weeks of a full working day's use (so the stock page shows most
+  // materials with enough cover, and the exceptions stand out).
+  const dayUse = new Map<string, number>();
+  for (const [model, qty] of [[woofer, 120], [fullRange, 150]] as const) {
+    for (const step of model.steps) for (const [code, perUnit] of step.materials) dayUse.set(code, (dayUse.get(code) ?? 0) + perUnit * qty);
+  }
   for (const m of materials) {
     if (m.code === 'MAG-NEO-SH') continue;
     const onHand = lots
       .filter((l) => l.materialCode === m.code && l.status === 'released')
       .reduce((sum, l) => sum + l.containers.reduce((s, c) => s + Math.max(0, c.remaining), 0), 0);
-    const want = (m.reorderPoint ?? 0) * 1.5;
+    const want = Math.max((m.reorderPoint ?? 0) * 1.5, (dayUse.get(m.code) ?? 0) * ((m.leadTimeDays ?? 0) + 28));
     if (onHand < want) receive(m.code, now.minus({ days: 3, hours: 2 }), Math.ceil((want - onHand) / m.perContainer) + 1);
   }
 

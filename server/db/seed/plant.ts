@@ -223,5 +223,10 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
     // The plant's long-run final-test failure rate: lots are judged against it.
     { key: 'baselineFailureRate', value: 0.015, updatedBy: admin },
     { key: 'expiringSoonDays', value: 14, updatedBy: admin },
+    // Stock view: daily use over 28 days of finished runs, open batches are one day's build,
+    // and orders should arrive 3 days before the run-out.
+    { key: 'stockUseWindowDays', value: 28, updatedBy: admin },
+    { key: 'stockPlanDays', value: 1, updatedBy: admin },
+    { key: 'reorderSafetyDays', value: 3, updatedBy: admin },
   ]);
 }
