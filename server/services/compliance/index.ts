@@ -6,6 +6,7 @@ import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import type { ComplianceRunResult } from '../../../shared/schemas/alerts';
 import { ALL_CHECKS, type Finding } from './findings';
+import { alertKindWords } from '../../../shared/words';
 
 /** Advisory-lock key of the watch: only one server process sweeps at a time. */
 const WATCH_LOCK = 7226002;
@@ -23,7 +24,7 @@ async function queueAlertMail(tx: Tx, alertId: string, f: Finding): Promise<void
   if (!to.length) return;
   await tx.insert(outgoingEmails).values({
     to,
-    subject: `[Tacklog] ${f.severity === 'critical' ? 'Critical: ' : ''}${f.kind.replace(/_/g, ' ')}`,
+    subject: `[Tacklog] ${f.severity === 'critical' ? 'Critical: ' : ''}${alertKindWords(f.kind)}`,
     body: `${f.message}\n\nOpen Tacklog's alerts page to acknowledge or resolve it.`,
     alertId,
   });
