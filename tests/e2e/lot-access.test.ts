@@ -62,11 +62,10 @@ describe('lot page by role', () => {
     await openLot(await lotWithStatus('released'));
     await expect.poll(() => page.locator('[data-test="status-change"]').count()).toBeGreaterThan(0);
     expect(await page.locator('[data-test="lot-history"]').count()).toBe(0);
-    const menus = page.locator('[data-test="lot-containers"] [data-test^="container-actions-"]');
-    expect(await menus.count()).toBeGreaterThan(0);
-    await menus.first().click();
-    await page.locator('.q-menu [data-test="container-action-reprint"]').waitFor();
-    // Receiving prints labels and handles containers (when live), but never marks them empty.
+    // A sealed container of the lot: receiving may move it, but never marks it empty.
+    const sealedRow = page.locator('[data-test="lot-containers"] tr[data-test^="container-row-"]', { hasText: 'Sealed' }).first();
+    await sealedRow.locator('[data-test^="container-actions-"]').click();
+    await page.locator('.q-menu [data-test="container-action-location"]').waitFor();
     expect(await page.locator('.q-menu [data-test="container-action-empty"]').count()).toBe(0);
     await keepScreenshot(page, 'lot-access-receiving-phone');
   });
