@@ -121,6 +121,10 @@ export const testResultWords = lookup(TEST_RESULT_WORDS);
 export const STEP_RUN_KIND_WORDS: Record<StepRunKind, string> = { build: 'Build', rework: 'Rework' };
 export const stepRunKindWords = lookup(STEP_RUN_KIND_WORDS);
 
+/** The part of a two-part adhesive a container gave to a mix. */
+export const MIX_PART_WORDS: Record<'resin' | 'hardener', string> = { resin: 'Resin', hardener: 'Hardener' };
+export const mixPartWords = lookup(MIX_PART_WORDS);
+
 export const ATTACHMENT_KIND_WORDS: Record<AttachmentKind, string> = {
   certificate: 'Certificate of analysis',
   sds: 'Safety data sheet',

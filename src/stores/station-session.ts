@@ -1,3 +1,4 @@
+import { stationKindWords } from '@shared/words';
 import { computed, ref } from 'vue';
 import { defineStore } from 'pinia';
 import type { BatchDetail } from '@shared/schemas/batches';
@@ -185,7 +186,7 @@ export const useStationSessionStore = defineStore('station-session', () => {
     cureBlock.value = null;
     const step = stepAtStation(found, station.value?.kind);
     if (step) say(feedback('info', `Batch ${found.batch.code}`, `${found.batch.modelName}, ${found.batch.quantity} units. Step here: "${step.name}". Scan each container or mix to load.`));
-    else say(feedback('refuse', `Batch ${found.batch.code}: nothing to do here`, `The batch has no step left at a "${station.value?.kind}" station.`, 'WRONG_STATION'));
+    else say(feedback('refuse', `Batch ${found.batch.code}: nothing to do here`, `The batch has no step left at a ${stationKindWords(station.value?.kind).toLowerCase()} station.`, 'WRONG_STATION'));
     await refresh();
   }
 

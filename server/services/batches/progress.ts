@@ -4,6 +4,7 @@ import { stepRuns } from '../../db/schema';
 import { conflict } from '../../errors';
 import type { RecipeStep } from '../../../shared/schemas/models';
 import { loadSteps } from '../models';
+import { batchStatusWords } from '../../../shared/words';
 
 type StepRunRow = typeof stepRuns.$inferSelect;
 
@@ -30,6 +31,6 @@ export async function batchProgress(tx: DbOrTx, batch: { id: string; modelId: st
 
 export function checkBatchOpen(batch: { code: string; status: string }, allowCompleted = false): void {
   if (batch.status === 'cancelled' || (batch.status === 'completed' && !allowCompleted)) {
-    throw conflict('BATCH_CLOSED', `Batch ${batch.code} is ${batch.status}; nothing more can be loaded or run for it. Scan the batch you are building.`);
+    throw conflict('BATCH_CLOSED', `Batch ${batch.code} is ${batchStatusWords(batch.status).toLowerCase()}; nothing more can be loaded or run for it. Scan the batch you are building.`);
   }
 }

@@ -13,6 +13,9 @@ import type { RecipeStep } from '../../../shared/schemas/models';
 import { containerByCode, mixByCode } from './context';
 import { checkContainerUsable, checkMixUsable, type MaterialRow } from './usability';
 import { describeLoads } from './describe';
+import { stationKindWords } from '../../../shared/words';
+
+const kindWords = (kind: string) => stationKindWords(kind).toLowerCase();
 
 type StationRow = Awaited<ReturnType<typeof findStation>>;
 
@@ -24,7 +27,7 @@ export function stepAtStation(station: StationRow, batchCode: string, pending: R
     throw conflict(
       'WRONG_STATION',
       next
-        ? `Batch ${batchCode} has no step left at a "${station.kind}" station (${station.code}); its next step is "${next.name}" at a "${next.stationKind}" station. Take the batch there.`
+        ? `Batch ${batchCode} has no step left at a ${kindWords(station.kind)} station (${station.code}); its next step is "${next.name}" at a ${kindWords(next.stationKind)} station. Take the batch there.`
         : `Batch ${batchCode} has finished all its steps; nothing more runs at ${station.code}.`,
       { stationKind: station.kind, nextStepId: next?.id ?? null },
     );
@@ -48,10 +51,10 @@ async function reworkStep(tx: Tx, station: StationRow, batch: { id: string; code
   const step = stepId ? steps.find((s) => s.id === stepId) : steps.find((s) => s.stationKind === station.kind);
   if (!step) {
     if (stepId) throw new AppError('NOT_FOUND', 'That recipe step is not part of this batch\'s model.', 404, [{ field: 'stepId', message: 'is not a step of this model' }]);
-    throw conflict('WRONG_STATION', `No step of batch ${batch.code}'s recipe runs at a "${station.kind}" station (${station.code}).`, { stationKind: station.kind });
+    throw conflict('WRONG_STATION', `No step of batch ${batch.code}'s recipe runs at a ${kindWords(station.kind)} station (${station.code}).`, { stationKind: station.kind });
   }
   if (step.stationKind !== station.kind) {
-    throw conflict('WRONG_STATION', `Step "${step.name}" runs at a "${step.stationKind}" station, not at ${station.code} ("${station.kind}").`, { stationKind: station.kind });
+    throw conflict('WRONG_STATION', `Step "${step.name}" runs at a ${kindWords(step.stationKind)} station, not at ${station.code} (${kindWords(station.kind)}).`, { stationKind: station.kind });
   }
   return step;
 }

@@ -7,6 +7,7 @@ import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import { LOT_TRANSITIONS, type Lot } from '../../../shared/schemas/lots';
 import { toLot } from './present';
+import { lotStatusWords } from '../../../shared/words';
 
 /**
  * Quality's decision on a lot: release, quarantine or reject (LOT_TRANSITIONS). A reason is
@@ -24,10 +25,10 @@ export async function changeLotStatus(
     if (!lot) throw notFound('The lot');
     const allowed = LOT_TRANSITIONS[lot.status];
     if (!allowed.includes(input.status)) {
-      const now = lot.status.replace('_', ' ');
+      const now = lotStatusWords(lot.status).toLowerCase();
       const msg = allowed.length === 0
         ? `The lot is ${now}; that is final and its status cannot change.`
-        : `The lot is ${now}; it can be set to ${allowed.join(' or ')}, not ${input.status}.`;
+        : `The lot is ${now}; it can be set to ${allowed.map((s) => lotStatusWords(s).toLowerCase()).join(' or ')}, not ${lotStatusWords(input.status).toLowerCase()}.`;
       throw conflict('INVALID_TRANSITION', msg, { from: lot.status, to: input.status, allowed });
     }
     if (lot.status === 'quarantined' && input.status === 'released' && !input.reason) {

@@ -8,6 +8,7 @@ import { findBatch } from '../batches/read';
 import { batchProgress, checkBatchOpen, type BatchProgress } from '../batches/progress';
 import { profilesForRuns, cureOfRun, type RunCure } from '../cure/compute';
 import type { StepRunRow } from './describe';
+import { stationKindWords } from '../../../shared/words';
 
 /** What startStep / finishStep take: the batch's recipe step at a station; a serial makes it a single-unit rework run. */
 export interface StepActionRequest {
@@ -37,7 +38,7 @@ export async function stepContext(tx: Tx, input: StepActionRequest): Promise<Ste
   if (station.kind !== step.stationKind) {
     throw conflict(
       'WRONG_STATION',
-      `Step "${step.name}" runs at a "${step.stationKind}" station; ${station.code} is a "${station.kind}" station. Go to the right station.`,
+      `Step "${step.name}" runs at a ${stationKindWords(step.stationKind).toLowerCase()} station; ${station.code} is a ${stationKindWords(station.kind).toLowerCase()} station. Go to the right station.`,
       { stationKind: station.kind, stepStationKind: step.stationKind },
     );
   }

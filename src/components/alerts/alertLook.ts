@@ -1,6 +1,6 @@
-import type { AlertSeverity, AlertState } from '@shared/constants';
+import type { AlertKind, AlertSeverity, AlertState } from '@shared/constants';
 import type { Alert } from '@shared/schemas/alerts';
-import { ALERT_KIND_WORDS, alertKindWords } from '@shared/alert-words';
+import { ALERT_KIND_WORDS, ALERT_SEVERITY_WORDS as SEV, ALERT_STATE_WORDS as ST, alertKindWords, alertSeverityWords, alertStateWords } from '@shared/words';
 import { formatDateTime, formatRelative } from '@shared/plant-time';
 
 /**
@@ -16,32 +16,30 @@ export interface AlertLook {
 }
 
 export const SEVERITY_LOOK: Record<AlertSeverity, AlertLook> = {
-  critical: { label: 'Critical', color: 'negative', icon: 'error', hint: 'Act now: material or drivers at risk on the line.' },
-  warning: { label: 'Warning', color: 'warning', icon: 'warning_amber', hint: 'Needs a decision soon.' },
-  info: { label: 'Notice', color: 'info', icon: 'info', hint: 'For planning; nothing is at risk yet.' },
+  critical: { label: SEV.critical, color: 'negative', icon: 'error', hint: 'Act now: material or drivers at risk on the line.' },
+  warning: { label: SEV.warning, color: 'warning', icon: 'warning_amber', hint: 'Needs a decision soon.' },
+  info: { label: SEV.info, color: 'info', icon: 'info', hint: 'For planning; nothing is at risk yet.' },
 };
 
 export const STATE_LOOK: Record<AlertState, AlertLook> = {
-  open: { label: 'Open', color: 'primary', icon: 'radio_button_unchecked', hint: 'Nobody has taken it up yet.' },
-  acknowledged: { label: 'Acknowledged', color: 'secondary', icon: 'visibility', hint: 'Someone has seen it and is on it.' },
-  resolved: { label: 'Resolved', color: 'positive', icon: 'task_alt', hint: 'Done: what was done is recorded.' },
+  open: { label: ST.open, color: 'primary', icon: 'radio_button_unchecked', hint: 'Nobody has taken it up yet.' },
+  acknowledged: { label: ST.acknowledged, color: 'secondary', icon: 'visibility', hint: 'Someone has seen it and is on it.' },
+  resolved: { label: ST.resolved, color: 'positive', icon: 'task_alt', hint: 'Done: what was done is recorded.' },
 };
 
-/** Kinds in plain words (one list, shared with the server's e-mail subjects). */
-export const KIND_WORDS = ALERT_KIND_WORDS;
+/** Alert kinds in plain words (shared/words.ts). */
+export const KIND_WORDS: Record<AlertKind, string> = ALERT_KIND_WORDS;
 
 export function severityLook(severity: string): AlertLook {
-  return SEVERITY_LOOK[severity as AlertSeverity] ?? { label: severity, color: 'grey-7', icon: 'help', hint: '' };
+  return SEVERITY_LOOK[severity as AlertSeverity] ?? { label: alertSeverityWords(severity), color: 'grey-7', icon: 'help', hint: '' };
 }
 
 export function stateLook(state: string): AlertLook {
-  return STATE_LOOK[state as AlertState] ?? { label: state, color: 'grey-7', icon: 'help', hint: '' };
+  return STATE_LOOK[state as AlertState] ?? { label: alertStateWords(state), color: 'grey-7', icon: 'help', hint: '' };
 }
 
 /** A kind in plain words; an unknown kind reads as its words ("new_kind" → "New kind"). */
-export function kindWords(kind: string): string {
-  return alertKindWords(kind);
-}
+export const kindWords = (kind: string): string => alertKindWords(kind);
 
 export interface SubjectRoute {
   name: string;

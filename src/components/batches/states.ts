@@ -1,3 +1,5 @@
+import { BATCH_STATUS_WORDS as B, DRIVER_STATUS_WORDS as D, humanize } from '@shared/words';
+
 /**
  * How batch, step and driver states read on screen: a word, an icon and a colour together
  * (never colour alone). Colours are Quasar brand names from src/theme.ts.
@@ -12,10 +14,10 @@ export type StateKind = 'batch' | 'step' | 'driver';
 
 const LOOKS: Record<StateKind, Record<string, StateLook>> = {
   batch: {
-    open: { label: 'Open', color: 'info', icon: 'radio_button_unchecked' },
-    in_process: { label: 'In process', color: 'primary', icon: 'autorenew' },
-    completed: { label: 'Completed', color: 'positive', icon: 'check_circle' },
-    cancelled: { label: 'Cancelled', color: 'grey-7', icon: 'cancel' },
+    open: { label: B.open, color: 'info', icon: 'radio_button_unchecked' },
+    in_process: { label: B.in_process, color: 'primary', icon: 'autorenew' },
+    completed: { label: B.completed, color: 'positive', icon: 'check_circle' },
+    cancelled: { label: B.cancelled, color: 'grey-7', icon: 'cancel' },
   },
   step: {
     pending: { label: 'Pending', color: 'grey-7', icon: 'radio_button_unchecked' },
@@ -24,14 +26,14 @@ const LOOKS: Record<StateKind, Record<string, StateLook>> = {
     done: { label: 'Done', color: 'positive', icon: 'check_circle' },
   },
   driver: {
-    in_process: { label: 'In process', color: 'primary', icon: 'autorenew' },
-    passed: { label: 'Passed', color: 'positive', icon: 'verified' },
-    failed: { label: 'Failed', color: 'negative', icon: 'report' },
-    reworked: { label: 'Reworked', color: 'warning', icon: 'build' },
-    scrapped: { label: 'Scrapped', color: 'grey-8', icon: 'delete' },
+    in_process: { label: D.in_process, color: 'primary', icon: 'autorenew' },
+    passed: { label: D.passed, color: 'positive', icon: 'verified' },
+    failed: { label: D.failed, color: 'negative', icon: 'report' },
+    reworked: { label: D.reworked, color: 'warning', icon: 'build' },
+    scrapped: { label: D.scrapped, color: 'grey-8', icon: 'delete' },
   },
 };
 
 export function stateLook(kind: StateKind, state: string): StateLook {
-  return LOOKS[kind][state] ?? { label: state.replace(/_/g, ' '), color: 'grey-7', icon: 'help' };
+  return LOOKS[kind][state] ?? { label: humanize(state), color: 'grey-7', icon: 'help' };
 }

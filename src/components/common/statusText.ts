@@ -1,8 +1,10 @@
-import type { ContainerStatus, LotStatus } from '@shared/constants';
+import type { ContainerStatus, LotStatus, StorageClass } from '@shared/constants';
+import { CONTAINER_STATUS_WORDS as C, LOT_STATUS_WORDS as L, STORAGE_CLASS_WORDS, humanize } from '@shared/words';
 
 /**
  * How statuses read on screen: always a word, with a colour and an icon beside it (never
- * colour alone). Colours are Quasar brand names from src/theme.ts.
+ * colour alone). The words come from shared/words.ts (the one place for them); colours are
+ * Quasar brand names from src/theme.ts.
  */
 export interface StatusLook {
   label: string;
@@ -13,25 +15,25 @@ export interface StatusLook {
 }
 
 export const LOT_STATUS_LOOK: Record<LotStatus, StatusLook> = {
-  on_hold: { label: 'On hold', color: 'warning', icon: 'pause_circle', hint: 'Waiting for incoming inspection; not to be used yet.' },
-  released: { label: 'Released', color: 'positive', icon: 'check_circle', hint: 'Inspected and free to use.' },
-  quarantined: { label: 'Quarantined', color: 'negative', icon: 'block', hint: 'Suspect: blocked at every station until quality decides.' },
-  rejected: { label: 'Rejected', color: 'negative', icon: 'cancel', hint: 'Refused by quality; never to be used.' },
-  used_up: { label: 'Used up', color: 'grey-7', icon: 'inventory', hint: 'Every container is empty or scrapped.' },
+  on_hold: { label: L.on_hold, color: 'warning', icon: 'pause_circle', hint: 'Waiting for incoming inspection; not to be used yet.' },
+  released: { label: L.released, color: 'positive', icon: 'check_circle', hint: 'Inspected and free to use.' },
+  quarantined: { label: L.quarantined, color: 'negative', icon: 'block', hint: 'Suspect: blocked at every station until quality decides.' },
+  rejected: { label: L.rejected, color: 'negative', icon: 'cancel', hint: 'Refused by quality; never to be used.' },
+  used_up: { label: L.used_up, color: 'grey-7', icon: 'inventory', hint: 'Every container is empty or scrapped.' },
 };
 
 export const CONTAINER_STATUS_LOOK: Record<ContainerStatus, StatusLook> = {
-  sealed: { label: 'Sealed', color: 'info', icon: 'lock', hint: 'Not opened yet.' },
-  open: { label: 'Open', color: 'primary', icon: 'lock_open', hint: 'In use; the after-opening life runs.' },
-  empty: { label: 'Empty', color: 'grey-7', icon: 'check_box_outline_blank', hint: 'Used up.' },
-  scrapped: { label: 'Scrapped', color: 'negative', icon: 'delete', hint: 'Thrown away (reason in the history).' },
+  sealed: { label: C.sealed, color: 'info', icon: 'lock', hint: 'Not opened yet.' },
+  open: { label: C.open, color: 'primary', icon: 'lock_open', hint: 'In use; the after-opening life runs.' },
+  empty: { label: C.empty, color: 'grey-7', icon: 'check_box_outline_blank', hint: 'Used up.' },
+  scrapped: { label: C.scrapped, color: 'negative', icon: 'delete', hint: 'Thrown away (reason in the history).' },
 };
 
 export type StatusKind = 'lot' | 'container';
 
 export function statusLook(kind: StatusKind, status: string): StatusLook {
   const table: Record<string, StatusLook> = kind === 'lot' ? LOT_STATUS_LOOK : CONTAINER_STATUS_LOOK;
-  return table[status] ?? { label: status.replace(/_/g, ' '), color: 'grey-7', icon: 'help', hint: '' };
+  return table[status] ?? { label: humanize(status), color: 'grey-7', icon: 'help', hint: '' };
 }
 
 /** Why an expiry is what it is, in words (causes from shared/expiry.ts). */
@@ -49,21 +51,9 @@ export function expiryCauseText(cause: string | null | undefined): string {
   return EXPIRY_CAUSE_TEXT[cause] ?? cause.replace(/_/g, ' ');
 }
 
-export const STORAGE_CLASS_LOOK: Record<string, { label: string; icon: string }> = {
-  ambient: { label: 'Ambient', icon: 'thermostat' },
-  refrigerated: { label: 'Refrigerated', icon: 'kitchen' },
-  frozen: { label: 'Frozen', icon: 'ac_unit' },
-};
+const STORAGE_ICONS: Record<StorageClass, string> = { ambient: 'thermostat', refrigerated: 'kitchen', frozen: 'ac_unit' };
 
-export const MATERIAL_KIND_LABELS: Record<string, string> = {
-  adhesive: 'Adhesive',
-  activator: 'Activator',
-  hardener: 'Hardener',
-  wire: 'Wire',
-  magnet: 'Magnet',
-  cone: 'Cone',
-  spider: 'Spider',
-  dust_cap: 'Dust cap',
-  frame: 'Frame',
-  other: 'Other',
-};
+/** A storage class's word (shared/words.ts) and icon. */
+export const STORAGE_CLASS_LOOK: Record<string, { label: string; icon: string }> = Object.fromEntries(
+  Object.entries(STORAGE_CLASS_WORDS).map(([k, label]) => [k, { label, icon: STORAGE_ICONS[k as StorageClass] }]),
+);
