@@ -22,6 +22,8 @@ import { scansRouter } from './scans';
 import { labelsRouter } from './labels';
 import { attachmentsRouter } from './attachments';
 import { alertsRouter, complianceRouter } from './alerts';
+import { mailRouter } from './mail';
+import { meRouter, notificationsRouter, userNotificationsRouter } from './notifications';
 
 /** Every API router, mounted under /api. Add a domain's router here. */
 export const apiRouter = Router();
@@ -29,6 +31,10 @@ export const apiRouter = Router();
 apiRouter.use('/health', healthRouter);
 apiRouter.use('/auth', authRouter);
 apiRouter.use('/users', usersRouter);
+apiRouter.use('/users', userNotificationsRouter);
+apiRouter.use('/me', meRouter);
+apiRouter.use('/mail', mailRouter);
+apiRouter.use('/notifications', notificationsRouter);
 // Genealogy traces (/drivers/:serial/trace, /lots/:id/trace…) before the /lots and /drivers routers.
 apiRouter.use(traceRouter);
 apiRouter.use('/defect-codes', defectsRouter);
