@@ -54,7 +54,9 @@ export function startMailCatcher(options: { port?: number; db?: DbOrTx; hooks?: 
     size: MAX_BYTES,
     logger: false,
     onRcptTo(address: SMTPServerAddress, _session, callback) {
-      Promise.resolve(hooks.rcpt?.(address.address)).then(
+      Promise.resolve()
+        .then(() => hooks.rcpt?.(address.address))
+        .then(
         () => callback(),
         (err: unknown) => callback(err instanceof Error ? err : new Error(String(err))),
       );
