@@ -14,11 +14,15 @@ import { mailTransport } from './transport';
 
 const sentTo = (email: string) => sql`lower(${email}) IN (SELECT lower(x) FROM unnest(${outgoingEmails.to}) AS x)`;
 
+// Written out in full: inside a sub-select drizzle would name the column without its table,
+// and it would then mean captured_emails' own message_id.
+const outboxMessageId = sql.raw('"outgoing_emails"."message_id"');
+
 const columns = {
   row: outgoingEmails,
-  captured: sql<number>`(SELECT count(*)::int FROM captured_emails c WHERE c.message_id = ${outgoingEmails.messageId})`,
-  capturedText: sql<string | null>`(SELECT c.text FROM captured_emails c WHERE c.message_id = ${outgoingEmails.messageId} ORDER BY c.received_at DESC LIMIT 1)`,
-  capturedHtml: sql<string | null>`(SELECT c.html FROM captured_emails c WHERE c.message_id = ${outgoingEmails.messageId} ORDER BY c.received_at DESC LIMIT 1)`,
+  captured: sql<number>`(SELECT count(*)::int FROM captured_emails c WHERE c.message_id = ${outboxMessageId})`,
+  capturedText: sql<string | null>`(SELECT c.text FROM captured_emails c WHERE c.message_id = ${outboxMessageId} ORDER BY c.received_at DESC LIMIT 1)`,
+  capturedHtml: sql<string | null>`(SELECT c.html FROM captured_emails c WHERE c.message_id = ${outboxMessageId} ORDER BY c.received_at DESC LIMIT 1)`,
 };
 
 type Row = { row: typeof outgoingEmails.$inferSelect; captured: number; capturedText: string | null; capturedHtml: string | null };

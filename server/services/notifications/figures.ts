@@ -48,7 +48,8 @@ export async function purchasingFiguresFromAlerts(tx: DbOrTx, now: Date, zone: s
   const expiring = await tx
     .select({
       id: lots.id, supplierLot: lots.supplierLot, material: materials.name, unit: materials.unit, expiresAt: expiry,
-      remaining: sql<string>`(SELECT COALESCE(SUM(${containers.remaining}), 0) FROM ${containers} WHERE ${containers.lotId} = ${lots.id} AND ${containers.status} IN ('sealed','open'))`,
+      // Spelt out: in a select list drizzle leaves columns unqualified, and "id" would be the container's.
+      remaining: sql<string>`(SELECT COALESCE(SUM(c.remaining), 0) FROM containers c WHERE c.lot_id = "lots"."id" AND c.status IN ('sealed','open'))`,
     })
     .from(lots)
     .innerJoin(materials, eq(materials.id, lots.materialId))
