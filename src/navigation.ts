@@ -47,6 +47,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: 'lots.list', label: 'Lots', icon: 'inventory_2', group: 'oversight' },
   { to: 'trace.search', label: 'Trace', icon: 'account_tree', group: 'oversight', roles: ['quality'] },
   { to: 'alerts.list', label: 'Alerts', icon: 'notifications', group: 'oversight', roles: ['quality', 'admin', 'purchasing'] },
+  { to: 'mail.box', label: 'Mailbox', icon: 'mail', group: 'oversight' },
   { to: 'stock.overview', label: 'Stock & expiry', icon: 'event_busy', group: 'oversight', roles: ['purchasing'] },
 
   { to: 'catalogue.materials', label: 'Materials', icon: 'science', group: 'catalogue', roles: ['admin'] },

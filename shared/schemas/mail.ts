@@ -43,6 +43,8 @@ export const mailListSchema = z.object({
   transport: z.string().nullable(),
   /** True when messages stay on this machine (the local catcher). */
   local: z.boolean(),
+  /** The plant's time zone, to show the times in. */
+  zone: z.string(),
 });
 export type MailList = z.infer<typeof mailListSchema>;
 

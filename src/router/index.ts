@@ -11,6 +11,7 @@ import { lotsRoutes } from './routes/lots';
 import { materialsRoutes } from './routes/materials';
 import { receivingRoutes } from './routes/receiving';
 import { alertsRoutes } from './routes/alerts';
+import { mailRoutes } from './routes/mail';
 import './meta';
 
 // ---------------------------------------------------------------------------------------------
@@ -27,6 +28,7 @@ const areaRoutes: RouteRecordRaw[] = [
   ...materialsRoutes,
   ...receivingRoutes,
   ...alertsRoutes,
+  ...mailRoutes,
 ];
 
 export const routes: RouteRecordRaw[] = [

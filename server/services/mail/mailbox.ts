@@ -11,6 +11,7 @@ import { can } from '../../../shared/permissions';
 import { forbidden, notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
 import { mailTransport } from './transport';
+import { config } from '../../config';
 
 const sentTo = (email: string) => sql`lower(${email}) IN (SELECT lower(x) FROM unnest(${outgoingEmails.to}) AS x)`;
 
@@ -66,7 +67,7 @@ export async function listMail(actor: Actor, query: MailListQuery): Promise<Mail
     db.select({ n: count() }).from(outgoingEmails).where(where),
   ]);
   const transport = mailTransport();
-  return { items: rows.map(toItem), total: n, transport: transport?.describe ?? null, local: transport?.local ?? false };
+  return { items: rows.map(toItem), total: n, transport: transport?.describe ?? null, local: transport?.local ?? false, zone: config.plantZone };
 }
 
 export async function getMail(actor: Actor, id: string): Promise<MailItem> {
