@@ -105,5 +105,9 @@ describe('mailbox', () => {
     expect(await page.locator('[data-test="mode-expiring_soon-immediate"]').getAttribute('aria-pressed')).toBe('true');
     // A kind that does not concern purchasing is not offered.
     expect(await page.locator('[data-test="kind-pot_life_exceeded"]').count()).toBe(0);
+    await page.setViewportSize({ width: 390, height: 844 });
+    await keepScreenshot(page, 'notification-settings-phone');
+    await page.setViewportSize({ width: 1024, height: 768 });
+    await keepScreenshot(page, 'notification-settings-tablet');
   });
 });
