@@ -110,7 +110,7 @@ describe('daily digest e-mail', () => {
     expect(mail.subject).toBe('[Tacklog] Daily digest for 2026-07-14 – Halvard Bay Driver Works');
     expect(mail.text).toContain('PURCHASING');
     expect(mail.text).toContain('* Lead wire (LW-TIN-07): 120 m on hand');
-    expect(mail.text).toContain('No stock is past its expiry.');
+    expect(mail.text).toContain('No stock is past its expiry or predicted to go to waste.');
     expect(mail.text).toContain('Lots expiring within 14 days');
     expect(mail.text).toContain('QUALITY');
     expect(mail.text).toContain('* Pot life passed: 1 open, 0 acknowledged; 1 critical');

@@ -15,7 +15,7 @@ import { mailQueued } from '../mail/worker';
 import { renderDigestMail, type DigestItem, type PurchasingFigures, type QualityFigures } from '../mail/templates/digest';
 import { modeFor } from './alert-mail';
 import { mailContext } from './context';
-import { purchasingFigures, qualityFigures } from './figures';
+import { PURCHASING_DIGEST_KINDS, purchasingFigures, qualityFigures } from './figures';
 import { describeSubject } from './subject';
 
 export interface DigestRun {
@@ -57,8 +57,12 @@ export async function queueDigests(now: Date = new Date()): Promise<DigestRun> {
   for (const person of people) {
     if (done.has(digestKey(person.id, plantDate))) continue;
     const roles = person.roles as Role[];
+    const buyer = roles.includes('purchasing');
     const mine = recent.filter(
-      (a) => (roles.includes('admin') || a.audience.some((r) => roles.includes(r))) && modeFor({ roles, modes: person.modes }, a.kind, a.severity) === 'digest',
+      (a) =>
+        (roles.includes('admin') || a.audience.some((r) => roles.includes(r))) &&
+        modeFor({ roles, modes: person.modes }, a.kind, a.severity) === 'digest' &&
+        !(buyer && PURCHASING_DIGEST_KINDS.has(a.kind)),
     );
     if (!hasDigestKind(roles, person.modes)) continue;
     const items: DigestItem[] = [];

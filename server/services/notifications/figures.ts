@@ -15,6 +15,9 @@ import type { DigestItem, PurchasingFigures, QualityFigures } from '../mail/temp
 
 export type PurchasingFiguresSource = (tx: DbOrTx, now: Date, zone: string) => Promise<PurchasingFigures>;
 
+/** Alert kinds the purchasing part of the digest already reports (not listed again as alerts). */
+export const PURCHASING_DIGEST_KINDS: ReadonlySet<string> = new Set(['below_reorder_point', 'expiring_soon', 'expired_in_stock']);
+
 const EXPIRING_WINDOW_DAYS = 14;
 const num = (v: unknown) => Number(v).toLocaleString('en-GB', { maximumFractionDigits: 2 });
 
@@ -28,7 +31,7 @@ export async function purchasingFiguresFromAlerts(tx: DbOrTx, now: Date, zone: s
     .orderBy(materials.name);
   const runOuts: DigestItem[] = reorder.map((r) => ({
     title: `${r.name} (${r.code})`,
-    detail: `${r.message}${r.leadTimeDays !== null ? ` Lead time ${r.leadTimeDays} days: an order placed today arrives about then.` : ' No lead time is recorded.'}`,
+    detail: `${r.message.replace(`${r.name} (${r.code}): `, '')}${r.leadTimeDays !== null ? ` Lead time ${r.leadTimeDays} days: an order placed today arrives about then.` : ' No lead time is recorded.'}`,
     path: `/lots?materialId=${r.materialId}`,
   }));
 

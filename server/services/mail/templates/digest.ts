@@ -97,7 +97,7 @@ export function renderDigestMail(ctx: MailContext, d: DigestData): RenderedMail 
     html.push(`<h1 style="font-size:19px;margin:24px 0 4px 0">Purchasing</h1>`, paragraph(`<span style="color:${COLORS.muted}">${escapeHtml(p.source)}</span>`));
     const sections: [string, DigestItem[], string][] = [
       ['Run-outs inside lead time', p.runOuts, 'No material is below its reorder point.'],
-      ['Predicted waste', p.predictedWaste, 'No stock is past its expiry.'],
+      ['Waste: stock past its expiry or predicted to expire before use', p.predictedWaste, 'No stock is past its expiry or predicted to go to waste.'],
       [`Lots expiring within ${p.windowDays} days`, p.expiringLots, `No lot with stock expires within ${p.windowDays} days.`],
     ];
     for (const [title, items, empty] of sections) {
