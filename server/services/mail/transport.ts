@@ -41,8 +41,11 @@ export interface MailTransport {
   close(): void;
 }
 
-/** Timeouts well inside the worker's lease, so a hung server never outlives a claim. */
-const TIMEOUTS = { connectionTimeout: 30_000, greetingTimeout: 30_000, socketTimeout: 60_000 };
+/**
+ * Timeouts well inside the worker's lease, so a hung server never outlives a claim; pooled
+ * connections, so a burst of alert e-mails does not open one SMTP connection per message.
+ */
+const TIMEOUTS = { connectionTimeout: 30_000, greetingTimeout: 30_000, socketTimeout: 60_000, pool: true, maxConnections: 2, maxMessages: 100 };
 
 function asStrings(list: unknown): string[] {
   return Array.isArray(list) ? list.map((a) => (typeof a === 'string' ? a : String((a as { address?: string }).address ?? a))) : [];
