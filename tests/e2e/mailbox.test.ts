@@ -106,6 +106,8 @@ describe('mailbox', () => {
     // A kind that does not concern purchasing is not offered.
     expect(await page.locator('[data-test="kind-pot_life_exceeded"]').count()).toBe(0);
     await page.setViewportSize({ width: 390, height: 844 });
+    await page.reload();
+    await page.locator('[data-test="kind-expiring_soon"]').waitFor();
     await keepScreenshot(page, 'notification-settings-phone');
     await page.setViewportSize({ width: 1024, height: 768 });
     await keepScreenshot(page, 'notification-settings-tablet');
