@@ -4,6 +4,7 @@ import { config } from './config';
 import { closeDb } from './db/client';
 import { isDatabaseUnavailable, noteDatabaseDown } from './db/availability';
 import { scheduleComplianceWatch } from './jobs/compliance';
+import { scheduleDigest, startMailTransport, startOutboxWorker } from './jobs/mail';
 import { sweep } from './services/compliance';
 
 /** Starts the HTTP server (API and built client) on 127.0.0.1:PORT. */
@@ -41,19 +42,28 @@ async function main() {
   const addr = server.address();
   const port = typeof addr === 'object' && addr ? addr.port : config.port;
   console.log(`[server] Tacklog listening on http://${config.host}:${port}`);
+  const mail = await startMailTransport();
+  console.log(`[mail] sending through the ${mail.transport.describe}${mail.catcher ? ' (no TACKLOG_SMTP_URL: messages stay here; read them on the Mailbox page)' : ''}`);
+  const stopWorker = startOutboxWorker();
   const stopWatch = scheduleComplianceWatch(config.watchSchedule);
+  let firstSweep: Promise<unknown> = Promise.resolve();
   if (config.watchSchedule !== 'off') {
     // A first sweep at start, so alerts are current before the first scheduled run.
-    sweep().then(
+    firstSweep = sweep().then(
       (r) => r.ran && console.log(`[watch] first sweep: raised ${r.raised}, resolved ${r.resolved}`),
       (err) => (isDatabaseUnavailable(err) ? noteDatabaseDown(err) : console.error('[watch] first sweep failed:', err)),
     );
   }
+  // Today's digest, if its time has passed, waits for the first sweep so it reports current alerts.
+  const stopDigest = scheduleDigest(config.mail.digestTime, firstSweep);
   const stop = (signal: string) => {
     console.log(`[server] ${signal}: stopping`);
     stopWatch();
+    stopDigest();
+    stopWorker();
+    mail.transport.close();
     server.close(() => {
-      closeDb().finally(() => process.exit(0));
+      Promise.allSettled([mail.catcher?.close(), closeDb()]).finally(() => process.exit(0));
     });
     setTimeout(() => process.exit(0), 5000).unref();
   };

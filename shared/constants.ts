@@ -49,8 +49,13 @@ export type StepRunKind = (typeof STEP_RUN_KINDS)[number];
 export const ATTACHMENT_KINDS = ['certificate', 'sds', 'other'] as const;
 export type AttachmentKind = (typeof ATTACHMENT_KINDS)[number];
 
-export const EMAIL_STATUSES = ['queued', 'sent', 'failed'] as const;
+/** queued → sending (claimed by a worker, under a lease) → sent | queued again (retry later) | failed. */
+export const EMAIL_STATUSES = ['queued', 'sending', 'sent', 'failed'] as const;
 export type EmailStatus = (typeof EMAIL_STATUSES)[number];
+
+/** What an outgoing e-mail is about. */
+export const EMAIL_KINDS = ['alert', 'alert_resolved', 'digest', 'other'] as const;
+export type EmailKind = (typeof EMAIL_KINDS)[number];
 
 /** GHS pictogram codes (UN GHS, Annex 3). */
 export const GHS_PICTOGRAMS = ['GHS01', 'GHS02', 'GHS03', 'GHS04', 'GHS05', 'GHS06', 'GHS07', 'GHS08', 'GHS09'] as const;

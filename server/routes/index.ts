@@ -26,6 +26,8 @@ import { alertsRouter, complianceRouter } from './alerts';
 import { auditRouter } from './audit';
 import { qualityRouter } from './quality';
 import { stockRouter } from './stock';
+import { mailRouter } from './mail';
+import { meRouter, notificationsRouter, userNotificationsRouter } from './notifications';
 
 /** Every API router, mounted under /api. Add a domain's router here. */
 export const apiRouter = Router();
@@ -34,6 +36,10 @@ apiRouter.use('/health', healthRouter);
 apiRouter.use('/config', configRouter);
 apiRouter.use('/auth', authRouter);
 apiRouter.use('/users', usersRouter);
+apiRouter.use('/users', userNotificationsRouter);
+apiRouter.use('/me', meRouter);
+apiRouter.use('/mail', mailRouter);
+apiRouter.use('/notifications', notificationsRouter);
 // Genealogy traces (/drivers/:serial/trace, /lots/:id/trace…) before the /lots and /drivers routers.
 apiRouter.use(traceRouter);
 apiRouter.use('/defect-codes', defectsRouter);

@@ -13,6 +13,7 @@ import { receivingRoutes } from './routes/receiving';
 import { alertsRoutes } from './routes/alerts';
 import { actionsOf } from './meta';
 import { stockRoutes } from './routes/stock';
+import { mailRoutes } from './routes/mail';
 
 // ---------------------------------------------------------------------------------------------
 // Area routes. Each area keeps its routes in src/router/routes/<area>.ts (lazy components,
@@ -29,6 +30,7 @@ const areaRoutes: RouteRecordRaw[] = [
   ...receivingRoutes,
   ...alertsRoutes,
   ...stockRoutes,
+  ...mailRoutes,
 ];
 
 export const routes: RouteRecordRaw[] = [

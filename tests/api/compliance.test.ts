@@ -150,12 +150,18 @@ describe('compliance watch', () => {
     expect(bad.body.error.details[0].field).toBe('query.state');
   });
 
-  it('queues e-mail to the people whose role the alert concerns', async () => {
-    const [alert] = (await liveAlertsFor(ids.lowMaterial)).filter((a) => a.kind === 'below_reorder_point');
-    const mails = await db.select().from(outgoingEmails).where(eq(outgoingEmails.alertId, alert.id));
-    expect(mails).toHaveLength(1);
-    expect(mails[0].to).toContain(purchasing.email);
-    expect(mails[0].to).not.toContain(receiving.email);
+  it('queues e-mail, one per person, to those whose role the alert concerns and who want it at once', async () => {
+    // Pot life passed is critical: assemblers and quality hear of it at once (their default).
+    const [potLife] = (await liveAlertsFor(ids.mix)).filter((a) => a.kind === 'pot_life_exceeded');
+    const mails = await db.select().from(outgoingEmails).where(eq(outgoingEmails.alertId, potLife.id));
+    expect(mails.every((m) => m.to.length === 1)).toBe(true);
+    const to = mails.map((m) => m.to[0]);
+    expect(to).toContain(quality.email);
+    expect(to).not.toContain(receiving.email);
+    expect(to).not.toContain(purchasing.email);
+    // Below reorder point is not critical: purchasing gets it in the daily digest, not at once.
+    const [low] = (await liveAlertsFor(ids.lowMaterial)).filter((a) => a.kind === 'below_reorder_point');
+    expect(await db.select().from(outgoingEmails).where(eq(outgoingEmails.alertId, low.id))).toHaveLength(0);
   });
 
   it('acknowledges and resolves with a reason, and refuses bad input', async () => {

@@ -2,8 +2,9 @@ import { pgEnum } from 'drizzle-orm/pg-core';
 import {
   ROLES, MATERIAL_KINDS, STORAGE_CLASSES, LOT_STATUSES, CONTAINER_STATUSES, MIX_STATUSES,
   BATCH_STATUSES, DRIVER_STATUSES, TEST_RESULTS, ALERT_SEVERITIES, ALERT_STATES, STEP_RUN_KINDS,
-  ATTACHMENT_KINDS, EMAIL_STATUSES,
+  ATTACHMENT_KINDS, EMAIL_STATUSES, EMAIL_KINDS,
 } from '../../../shared/constants';
+import { NOTIFICATION_MODES } from '../../../shared/notifications';
 
 export const roleEnum = pgEnum('role', ROLES);
 export const materialKindEnum = pgEnum('material_kind', MATERIAL_KINDS);
@@ -19,3 +20,5 @@ export const alertStateEnum = pgEnum('alert_state', ALERT_STATES);
 export const stepRunKindEnum = pgEnum('step_run_kind', STEP_RUN_KINDS);
 export const attachmentKindEnum = pgEnum('attachment_kind', ATTACHMENT_KINDS);
 export const emailStatusEnum = pgEnum('email_status', EMAIL_STATUSES);
+export const emailKindEnum = pgEnum('email_kind', EMAIL_KINDS);
+export const notificationModeEnum = pgEnum('notification_mode', NOTIFICATION_MODES);

@@ -7,6 +7,8 @@ import { requirePermission } from '../auth/actor';
 import { can } from '../../../shared/permissions';
 import { recordAudit } from '../audit';
 import type { Alert, AlertListQuery } from '../../../shared/schemas/alerts';
+import { queueAlertResolvedMails } from '../notifications/alert-mail';
+import { mailQueued } from '../mail/worker';
 
 type AlertRow = typeof alerts.$inferSelect;
 
@@ -48,7 +50,7 @@ export async function listAlerts(actor: Actor, query: AlertListQuery): Promise<{
 }
 
 async function changeState(actor: Actor, id: string, to: 'acknowledged' | 'resolved', resolution?: string): Promise<Alert> {
-  return db.transaction(async (tx) => {
+  const alert = await db.transaction(async (tx) => {
     const [row] = await tx.select().from(alerts).where(eq(alerts.id, id)).for('update');
     if (!row) throw notFound('That alert');
     if (!can(actor.roles, 'alerts.readAll') && !row.audience.some((r) => actor.roles.includes(r))) throw notFound('That alert');
@@ -64,8 +66,12 @@ async function changeState(actor: Actor, id: string, to: 'acknowledged' | 'resol
       actorId: actor.id, action: `alert.${to === 'acknowledged' ? 'acknowledge' : 'resolve'}`, entityType: 'alert', entityId: id,
       before: { state: row.state }, after: { state: to }, reason: resolution ?? null,
     });
+    // Resolving e-mails only those who asked to hear of it (their notification settings).
+    if (to === 'resolved') await queueAlertResolvedMails(tx, row, resolution ?? '', now, actor.name);
     return toAlert(updated, await namesOf(tx, [updated]));
   });
+  if (to === 'resolved') mailQueued();
+  return alert;
 }
 
 export function acknowledgeAlert(actor: Actor, id: string): Promise<Alert> {

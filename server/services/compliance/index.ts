@@ -1,7 +1,9 @@
 import { isDeepStrictEqual } from 'node:util';
-import { and, arrayOverlaps, eq, ne, sql } from 'drizzle-orm';
-import { db, type Tx } from '../../db/client';
-import { alerts, outgoingEmails, users } from '../../db/schema';
+import { eq, ne, sql } from 'drizzle-orm';
+import { db } from '../../db/client';
+import { alerts } from '../../db/schema';
+import { queueAlertMails, queueAlertResolvedMails } from '../notifications/alert-mail';
+import { mailQueued } from '../mail/worker';
 import type { Actor } from '../auth/actor';
 import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
@@ -21,28 +23,15 @@ const keyOf = (f: { kind: string; subjectType: string; subjectId: string }) => `
 const dataOf = (f: Finding): Record<string, unknown> | null =>
   f.data || f.detail ? { ...(f.data ?? {}), ...(f.detail ? { detail: f.detail } : {}) } : null;
 
-/** Queues an e-mail about a new alert to the active users whose roles it concerns. */
-async function queueAlertMail(tx: Tx, alertId: string, f: Finding): Promise<void> {
-  const to = (
-    await tx.select({ email: users.email }).from(users).where(and(eq(users.active, true), arrayOverlaps(users.roles, f.audience)))
-  ).map((u) => u.email);
-  if (!to.length) return;
-  await tx.insert(outgoingEmails).values({
-    to,
-    subject: `[Tacklog] ${f.severity === 'critical' ? 'Critical: ' : ''}${alertKindWords(f.kind)}`,
-    body: `${f.message}${f.detail ? `\n\n${f.detail}` : ''}\n\nOpen Tacklog's alerts page to acknowledge or resolve it.`,
-    alertId,
-  });
-}
-
 /**
  * One sweep of the compliance watch: raises an alert for every new finding (never a duplicate:
  * one live alert per kind and subject), resolves self-clearing alerts whose finding has gone,
- * and queues e-mail for what it raised. Runs in one transaction under a PostgreSQL advisory
+ * and queues e-mail for what it raised (one per subscriber, in the same transaction, under a
+ * once-only key per alert and recipient). Runs in one transaction under a PostgreSQL advisory
  * lock, so with several server processes exactly one sweeps at a time; the others skip.
  */
 export async function sweep(now = new Date()): Promise<ComplianceRunResult> {
-  return db.transaction(async (tx) => {
+  const result = await db.transaction(async (tx) => {
     const [{ locked }] = (await tx.execute<{ locked: boolean }>(sql`SELECT pg_try_advisory_xact_lock(${WATCH_LOCK}) AS locked`)).rows;
     if (!locked) return { raised: 0, resolved: 0, ran: false };
 
@@ -67,25 +56,26 @@ export async function sweep(now = new Date()): Promise<ComplianceRunResult> {
         .insert(alerts)
         .values({ kind: f.kind, severity: f.severity, subjectType: f.subjectType, subjectId: f.subjectId, message: f.message, audience: f.audience, data: dataOf(f), raisedAt: now })
         .onConflictDoNothing()
-        .returning({ id: alerts.id });
+        .returning();
       if (!row) continue;
       raised += 1;
       await recordAudit(tx, { actorId: null, action: 'alert.raise', entityType: 'alert', entityId: row.id, after: { kind: f.kind, subjectType: f.subjectType, subjectId: f.subjectId } });
-      await queueAlertMail(tx, row.id, f);
+      await queueAlertMails(tx, row);
     }
 
     let resolved = 0;
     for (const a of live) {
       if (!SELF_CLEARING.has(a.kind) || found.has(keyOf(a))) continue;
-      await tx
-        .update(alerts)
-        .set({ state: 'resolved', resolvedAt: now, resolution: 'The condition no longer holds (cleared by the compliance watch).' })
-        .where(eq(alerts.id, a.id));
+      const resolution = 'The condition no longer holds (cleared by the compliance watch).';
+      await tx.update(alerts).set({ state: 'resolved', resolvedAt: now, resolution }).where(eq(alerts.id, a.id));
+      await queueAlertResolvedMails(tx, a, resolution, now, null);
       await recordAudit(tx, { actorId: null, action: 'alert.clear', entityType: 'alert', entityId: a.id, before: { state: a.state }, after: { state: 'resolved' } });
       resolved += 1;
     }
     return { raised, resolved, ran: true };
   });
+  if (result.raised || result.resolved) mailQueued();
+  return result;
 }
 
 /** POST /api/compliance/run: a person asks for a sweep now. */
