@@ -89,3 +89,10 @@ export function useCountdown(at: MaybeRefOrGetter<string | null | undefined>, so
   const text = computed(() => expiryText(countdown.value));
   return { countdown, text, now: computed(() => now.value), stop };
 }
+
+/** The page's one clock (ticks every 15 s while someone listens), for views that only need "now". */
+export function useNow() {
+  const stop = listen();
+  if (getCurrentScope()) onScopeDispose(stop);
+  return computed(() => now.value);
+}
