@@ -3,7 +3,7 @@ import { createRouter, createWebHistory, type RouteLocationNormalized, type Rout
 import { useSessionStore } from '@/stores/session';
 import { rolesAllow } from '@/roles';
 import { safeRedirect } from './redirect';
-import { homeRoutes, notFoundRoute, publicRoutes } from './routes/core';
+import { homeRoutes, notAllowedRoute, notFoundRoute, publicRoutes } from './routes/core';
 import { productionRoutes } from './routes/production';
 import { traceRoutes } from './routes/trace';
 import { recipesRoutes } from './routes/recipes';
@@ -34,7 +34,7 @@ export const routes: RouteRecordRaw[] = [
   {
     path: '/',
     component: () => import('@/layouts/MainLayout.vue'),
-    children: [...areaRoutes, notFoundRoute],
+    children: [...areaRoutes, notAllowedRoute, notFoundRoute],
   },
 ];
 
@@ -56,7 +56,8 @@ export async function guard(to: RouteLocationNormalized) {
   if (!user) {
     return to.fullPath === '/' ? { name: 'auth.signin' } : { name: 'auth.signin', query: { redirect: to.fullPath } };
   }
-  if (!rolesAllow(to.meta.roles, user.roles)) return { name: 'home' };
+  // Not a silent redirect: a page that says so, with a way back (NotAllowedPage).
+  if (!rolesAllow(to.meta.roles, user.roles)) return { name: 'not-allowed', query: { from: to.fullPath } };
   return true;
 }
 
