@@ -11,6 +11,7 @@ import { lotsRoutes } from './routes/lots';
 import { materialsRoutes } from './routes/materials';
 import { receivingRoutes } from './routes/receiving';
 import { alertsRoutes } from './routes/alerts';
+import MainLayout from '@/layouts/MainLayout.vue';
 import './meta';
 
 // ---------------------------------------------------------------------------------------------
@@ -33,7 +34,9 @@ export const routes: RouteRecordRaw[] = [
   ...publicRoutes,
   {
     path: '/',
-    component: () => import('@/layouts/MainLayout.vue'),
+    // In the main bundle, not lazy: every signed-in page needs it, and a lazy layout added a
+    // round trip before anything showed on a fresh page.
+    component: MainLayout,
     children: [...areaRoutes, notAllowedRoute, notFoundRoute],
   },
 ];

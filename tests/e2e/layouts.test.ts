@@ -314,7 +314,7 @@ describe('office screens, 1024 and 1440 wide', () => {
   it('purchasing opening a page it may not see gets "You don\'t have access to this page" and a way back', async () => {
     await signInAs(page, 'purchasing@tacklog.test');
     await page.locator('[data-test="nav-lots.list"]').click();
-    await page.locator('[data-test="lots-page"]').waitFor();
+    await page.locator('[data-test="lots-table"] tbody tr').first().waitFor();
     // An in-app navigation (a link or a bookmark inside the app) to the materials catalogue.
     await page.evaluate(() => {
       const app = (document.querySelector('#q-app') as unknown as { __vue_app__: { config: { globalProperties: { $router: { push: (p: string) => Promise<unknown> } } } } }).__vue_app__;
