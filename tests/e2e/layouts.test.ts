@@ -65,6 +65,13 @@ async function expectTablesFit(where: string) {
   expect(clipped, `${where}: tables scrolling sideways`).toEqual([]);
 }
 
+/** Rows shown as stacked cards on a phone lie one below the other, never over each other. */
+async function expectRowsApart(selector: string, where: string) {
+  const boxes = await page.locator(selector).evaluateAll((els) => els.map((el) => el.getBoundingClientRect()).map((r) => ({ top: r.top, bottom: r.bottom })));
+  expect(boxes.length, `${where}: rows`).toBeGreaterThan(0);
+  for (let i = 1; i < boxes.length; i++) expect(boxes[i].top, `${where}: row ${i + 1} starts below row ${i}`).toBeGreaterThanOrEqual(boxes[i - 1].bottom - 1);
+}
+
 async function wedgeScan(code: string) {
   await page.keyboard.type(code, { delay: 5 });
   await page.keyboard.press('Enter');
@@ -234,6 +241,7 @@ describe('receiving phone, 390×844', () => {
     await page.locator('[data-test="receive-submit"]').click();
     await page.locator('[data-test="receipt-result"]').waitFor();
     await shot('layout-phone-receipt');
+    await expectRowsApart('[data-test="receipt-container"]', 'receipt');
     await expectNoSidewaysScroll('receipt');
     await expectButtonsInside('receipt');
 
@@ -258,6 +266,7 @@ describe('receiving phone, 390×844', () => {
     await page.goto(`/lots/${lots.items[0].id}`);
     await page.locator('[data-test="lot-containers"]').waitFor();
     await shot('layout-phone-lot');
+    await expectRowsApart('[data-test^="container-row-"]', 'lot detail');
     await expectNoSidewaysScroll('lot detail');
     await expectButtonsInside('lot detail');
     await expectTablesFit('lot detail');
