@@ -2,6 +2,7 @@ import { fileURLToPath, URL } from 'node:url';
 import { defineConfig } from 'vitest/config';
 import vue from '@vitejs/plugin-vue';
 import { quasar, transformAssetUrls } from '@quasar/vite-plugin';
+import { compression, defineAlgorithm } from 'vite-plugin-compression2';
 
 const apiPort = Number(process.env.PORT ?? 3000);
 
@@ -10,6 +11,14 @@ export default defineConfig({
     vue({ template: { transformAssetUrls } }),
     // Plain CSS build of Quasar (imported in src/main.ts): no Sass toolchain needed.
     quasar({ sassVariables: false }),
+    // gzip and brotli copies of every text asset, made once at build (server/static.ts serves
+    // them by Accept-Encoding), so no request pays for compression.
+    compression({
+      include: /\.(js|mjs|css|html|svg|json|txt)$/,
+      threshold: 1024,
+      algorithms: [defineAlgorithm('gzip', { level: 9 }), defineAlgorithm('brotliCompress')],
+      logLevel: 'silent',
+    }),
   ],
   resolve: {
     alias: {

@@ -1,5 +1,3 @@
-import fs from 'node:fs';
-import path from 'node:path';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import cookieParser from 'cookie-parser';
@@ -9,6 +7,7 @@ import { idempotency } from './middleware/idempotency';
 import { jsonBodiesOnly, sameOriginOnly } from './middleware/csrf';
 import { errorHandler, notFoundApi } from './middleware/errors';
 import { apiRouter } from './routes';
+import { serveClient } from './static';
 
 export interface AppOptions {
   /** Serve the built client from dist/ (production). */
@@ -42,15 +41,7 @@ export function createApp(options: AppOptions = {}): Express {
   app.use(cookieParser());
   app.use('/api', sameOriginOnly, jsonBodiesOnly, express.json({ limit: '1mb' }), attachActor, idempotency, apiRouter, notFoundApi);
 
-  if (options.serveClient) {
-    const indexHtml = path.join(config.clientDir, 'index.html');
-    if (!fs.existsSync(indexHtml)) {
-      throw new Error(`The client is not built (${indexHtml} is missing); run "npm run build".`);
-    }
-    app.use(express.static(config.clientDir, { index: false, maxAge: '1h' }));
-    // Client-side routes: every other GET gets the app shell.
-    app.get(/^(?!\/api\/).*/, (_req, res) => res.sendFile(indexHtml));
-  }
+  if (options.serveClient) serveClient(app, config.clientDir);
 
   app.use(errorHandler);
   return app;

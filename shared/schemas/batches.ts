@@ -68,6 +68,8 @@ export const travelerMaterialSchema = z.object({
   materialName: z.string(),
   unit: z.string(),
   amountPerUnit: z.number(),
+  /** One part of a two-part adhesive (it has a mix partner): the step's material is a mix. */
+  twoPart: z.boolean(),
 });
 
 export const travelerStepSchema = z.object({

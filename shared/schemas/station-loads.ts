@@ -99,6 +99,8 @@ export const stationLoadSchema = z.object({
   lot: loadedLotSchema,
   /** A mix's other part (hardener or activator), so its hazards show too; null for a container. */
   partMaterial: loadedMaterialSchema.nullable(),
+  /** The lot of a mix's other part (the hardener's lot), so the station shows both lots; null for a container. */
+  partLot: loadedLotSchema.nullable(),
   /** The container's material, or the mix's resin material. */
   material: loadedMaterialSchema,
   expiresAt: instantSchema.nullable(),

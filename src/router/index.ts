@@ -3,7 +3,7 @@ import { createRouter, createWebHistory, type RouteLocationNormalized, type Rout
 import { useSessionStore } from '@/stores/session';
 import { usePlantStore } from '@/stores/plant';
 import { safeRedirect } from './redirect';
-import { homeRoutes, notFoundRoute, publicRoutes } from './routes/core';
+import { homeRoutes, notAllowedRoute, notFoundRoute, publicRoutes } from './routes/core';
 import { productionRoutes } from './routes/production';
 import { traceRoutes } from './routes/trace';
 import { recipesRoutes } from './routes/recipes';
@@ -14,6 +14,7 @@ import { alertsRoutes } from './routes/alerts';
 import { actionsOf } from './meta';
 import { stockRoutes } from './routes/stock';
 import { mailRoutes } from './routes/mail';
+import MainLayout from '@/layouts/MainLayout.vue';
 
 // ---------------------------------------------------------------------------------------------
 // Area routes. Each area keeps its routes in src/router/routes/<area>.ts (lazy components,
@@ -37,8 +38,10 @@ export const routes: RouteRecordRaw[] = [
   ...publicRoutes,
   {
     path: '/',
-    component: () => import('@/layouts/MainLayout.vue'),
-    children: [...areaRoutes, notFoundRoute],
+    // In the main bundle, not lazy: every signed-in page needs it, and a lazy layout added a
+    // round trip before anything showed on a fresh page.
+    component: MainLayout,
+    children: [...areaRoutes, notAllowedRoute, notFoundRoute],
   },
 ];
 
@@ -64,7 +67,8 @@ export async function guard(to: RouteLocationNormalized) {
   if (!user) {
     return to.fullPath === '/' ? { name: 'auth.signin' } : { name: 'auth.signin', query: { redirect: to.fullPath } };
   }
-  if (to.meta.permission && !session.can(...actionsOf(to.meta.permission))) return { name: 'home' };
+  // Not a silent redirect: a page that says so, with a way back (NotAllowedPage).
+  if (to.meta.permission && !session.can(...actionsOf(to.meta.permission))) return { name: 'not-allowed', query: { from: to.fullPath } };
   return true;
 }
 

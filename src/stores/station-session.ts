@@ -8,6 +8,8 @@ import type { Station } from '@shared/schemas/stations';
 import type { StepRunResult } from '@shared/schemas/steps';
 import * as stationsApi from '@/api/stations';
 import * as batchesApi from '@/api/batches';
+import * as deviationsApi from '@/api/deviations';
+import { activeCureGate } from '@/components/station/startGate';
 import { ApiError } from '@/api/http';
 import { useOfflineQueue, type QueuedAction, type QueueOutcome } from '@/composables/useOfflineQueue';
 import { alignWithServer } from '@/composables/useNow';
@@ -42,6 +44,9 @@ export const useStationSessionStore = defineStore('station-session', () => {
   const history = ref<StationFeedback[]>([]);
   /** Set when a start was refused with CURE_INCOMPLETE: the cure that is still running. */
   const cureBlock = ref<{ stepName: string; cureCompleteAt: string | null; handlingAt: string | null } | null>(null);
+
+  /** Quality signed an early start (unused deviation) for the step here: Start may go on while curing. */
+  const earlyStartSigned = ref(false);
 
   const queue = useOfflineQueue({ storageKey: KEYS.queue, send: sendStationAction, onResult });
   const stepHere = computed(() => stepAtStation(traveler.value, station.value?.kind));
@@ -146,6 +151,7 @@ export const useStationSessionStore = defineStore('station-session', () => {
     const batch = traveler.value?.batch;
     try {
       if (batch) setTraveler(await batchesApi.getBatch(batch.id));
+      await checkEarlyStart();
       if (st) {
         const loaded = await stationsApi.listLoaded(st.id, batch?.id);
         loads.value = loaded.items;
@@ -154,6 +160,18 @@ export const useStationSessionStore = defineStore('station-session', () => {
     } catch (err) {
       if (!(err instanceof ApiError && err.status === 0)) throw err;
     }
+  }
+
+  /** Looks for an unused early-start deviation, only while the step here waits for a cure. */
+  async function checkEarlyStart(): Promise<void> {
+    const t = traveler.value;
+    const step = stepHere.value;
+    if (!t || !step || step.state !== 'pending' || !activeCureGate(t, step, Date.now() + clockOffsetMs.value)) {
+      earlyStartSigned.value = false;
+      return;
+    }
+    const signed = await deviationsApi.listDeviations({ batchId: t.batch.id, stepId: step.id });
+    earlyStartSigned.value = signed.some((d) => d.kind === 'early_start' && d.usedAt === null);
   }
 
   function selectStation(next: Station) {
@@ -229,6 +247,7 @@ export const useStationSessionStore = defineStore('station-session', () => {
     setTraveler(null);
     loads.value = [];
     cureBlock.value = null;
+    earlyStartSigned.value = false;
   }
 
   function forgetStation() {
@@ -245,6 +264,7 @@ export const useStationSessionStore = defineStore('station-session', () => {
     feedback: computed(() => current.value),
     history: computed(() => history.value),
     cureBlock: computed(() => cureBlock.value),
+    earlyStartSigned: computed(() => earlyStartSigned.value),
     stepHere,
     /** Actions waiting to be sent (offline), oldest first. */
     queued: computed(() => queue.items.value),

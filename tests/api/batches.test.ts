@@ -8,7 +8,7 @@ import {
 } from '../../shared/schemas/batches';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
-import { createBatch, createLot, createMaterial, createModel, createStation, createStepRun, hoursAgo } from '../helpers/fixtures';
+import { createBatch, createLot, createMaterial, createModel, createStation, createStepRun, createTwoPart, hoursAgo } from '../helpers/fixtures';
 
 let app: TestApp;
 let assembler: TestUser;
@@ -80,6 +80,20 @@ describe('build batches', () => {
     expect(open.total).toBe(0);
     expect((await as(receiving).get('/api/batches?status=nope')).status).toBe(400);
     expect((await as(receiving).get('/api/batches?limit=0')).body.error.details[0].field).toBe('query.limit');
+  });
+
+  it('the traveler marks each step material that is one part of a two-part adhesive (the station offers mixing only there)', async () => {
+    const epoxy = await createTwoPart();
+    const mixing = await createModel({
+      steps: [
+        { name: 'Bond', stationKind: station.kind, materials: [{ materialId: epoxy.resin.id, amountPerUnit: 2 }, { materialId: epoxy.hardener.id, amountPerUnit: 2 }] },
+        { name: 'Cap', stationKind: station.kind, materials: [{ materialId: glue.id, amountPerUnit: 1 }] },
+      ],
+    });
+    const batch = await createBatch({ modelId: mixing.id, quantity: 1 });
+    const detail = batchDetailSchema.parse((await as(assembler).get(`/api/batches/${batch.id}`)).body);
+    expect(detail.steps[0].materials.map((m) => [m.materialId, m.twoPart])).toEqual([[epoxy.resin.id, true], [epoxy.hardener.id, true]]);
+    expect(detail.steps[1].materials.map((m) => m.twoPart)).toEqual([false]);
   });
 
   it('the traveler shows each step as pending / running / curing until X / done', async () => {

@@ -134,6 +134,11 @@ describe('loading: accepted', () => {
     expect(res.material.id).toBe(epoxy.resin.id);
     expect(res.partMaterial?.id).toBe(epoxy.hardener.id);
     expect(res.partMaterial?.hazards.pictograms).toEqual(epoxy.hardener.hazards.pictograms);
+    // Both lots too: the station shows the resin's lot and the hardener's lot.
+    expect(res.lot).toMatchObject({ id: r.id, supplierLot: r.supplierLot });
+    expect(res.partLot).toMatchObject({ id: h.id, supplierLot: h.supplierLot });
+    const listed = stationLoadedSchema.parse((await as(assembler).get(`/api/stations/${station.id}/loaded?batchId=${batchId}`)).body);
+    expect(listed.items.find((i) => i.mix?.code === mix.code)?.partLot?.supplierLot).toBe(h.supplierLot);
   });
 });
 

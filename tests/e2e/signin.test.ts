@@ -71,7 +71,7 @@ describe('sign-in', () => {
       expect(shown).toEqual(expected);
       for (const name of forbidden) expect(shown).not.toContain(name);
 
-      // The safety note is on the home page for people who handle containers of adhesive.
+      // The general safety caution shows once after signing in, for people who handle adhesives.
       const handlesAdhesives = can([account.role], 'containers.handle');
       expect(await page.locator('[data-test="safety-note"]').count()).toBe(handlesAdhesives ? 1 : 0);
 

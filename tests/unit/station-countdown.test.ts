@@ -10,6 +10,7 @@ const base = {
   lot: { id: '00000000-0000-4000-8000-000000000004', supplierLot: 'L1', status: 'released' as const },
   material: { id: '00000000-0000-4000-8000-000000000005', code: 'ADH', name: 'Adhesive', kind: 'adhesive' as const, unit: 'g', hazards: { pictograms: [], statements: [] }, sdsAttachmentId: null },
   partMaterial: null,
+  partLot: null,
 };
 
 function mixLoad(mixedAt: string, endsAt: string): StationLoad {

@@ -52,6 +52,7 @@ function loadResult(code: string): LoadResult {
     mix: null, lot: { id: id(400), supplierLot: 'AN-2207', status: 'released' },
     material: { id: id(500), code: 'ADH-AN-220', name: 'Anaerobic bond 220', kind: 'adhesive', unit: 'g', hazards: { pictograms: ['GHS07'], statements: ['H317'] }, sdsAttachmentId: null },
     partMaterial: null,
+    partLot: null,
     expiresAt: '2026-03-05T08:00:00.000Z', expiryCause: 'open_life',
     accepted: true, step: { id: id(101), seq: 1, name: 'Magnet assembly' }, opened: true, alreadyLoaded: false,
   };

@@ -88,6 +88,8 @@ export interface SimBatch {
   modelCode: string;
   quantity: number;
   createdAt: DateTime;
+  /** When the last driver was tested (completed batches only). */
+  completedAt?: DateTime;
   status: 'open' | 'in_process' | 'completed';
   drivers: SimDriver[];
 }
@@ -333,13 +335,20 @@ export function simulateHistory(
       runStep(batch, model, 1, t0.plus({ minutes: 60 }), 110, { preferResin: suspectWindow ? suspect : undefined });
       runStep(batch, model, 2, t0.plus({ minutes: 180 }), 60);
       runStep(batch, model, 3, t0.plus({ minutes: 250 }), 70);
-      // Dust-cap adhesive cures overnight; magnetize and test the next morning.
+      // Dust-cap adhesive cures overnight; magnetize and test the next morning. Nothing is seeded
+      // after `now`: a batch whose test would not have finished yet waits for it (in process).
       const testStart = t0.plus({ days: 1 }).set({ hour: 7 + idx, minute: 0 });
       const early = model === fullRange && day.equals(start.plus({ days: 9 }));
-      const runs = runStep(batch, model, 4, early ? t0.plus({ minutes: 250 + 70 + 480 }) : testStart, 150, {
+      const testAt = early ? t0.plus({ minutes: 250 + 70 + 480 }) : testStart;
+      if (testAt.plus({ minutes: 150 }) > now) {
+        batch.status = 'in_process';
+        return;
+      }
+      const runs = runStep(batch, model, 4, testAt, 150, {
         shortCure: early,
         deviationReason: early ? 'Customer sample order; quality agreed to test after 8 h at 24 °C shop temperature.' : undefined,
       });
+      batch.completedAt = runs.finishedAt ?? undefined;
       const usedSuspect = runs && stepRuns.some((r) => r.batchKey === batch.key && r.uses.some((u) => u.mix?.resin.lotKey === suspect.key));
       for (const d of batch.drivers) {
         const failRate = usedSuspect ? 0.06 : 0.009;
@@ -357,7 +366,10 @@ export function simulateHistory(
   }
 
   // Rework a few failed drivers at the rework bench with new cone, spider and adhesive; retest passes.
-  const failed = batches.flatMap((b) => b.drivers.map((d) => ({ b, d }))).filter(({ d }) => d.status === 'failed');
+  // Only reworks whose retest (20 h after the rework) lies in the past.
+  const failed = batches
+    .flatMap((b) => b.drivers.map((d) => ({ b, d })))
+    .filter(({ d }) => d.status === 'failed' && d.tests[d.tests.length - 1].at.plus({ hours: 3 + 4 + 20 + 1 }) <= now);
   failed.slice(0, Math.min(4, failed.length)).forEach(({ b, d }, i) => {
     const last = d.tests[d.tests.length - 1].at;
     const startedAt = last.plus({ hours: 3 + i });

@@ -143,7 +143,7 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
       .insert(s.buildBatches)
       .values({
         code: b.code, modelId: stepIds.get(`${b.modelCode}:model`)![0], quantity: b.quantity, status: b.status,
-        createdBy: assembler, createdAt: iso(b.createdAt), completedAt: b.status === 'completed' ? iso(b.createdAt.plus({ days: 1, hours: 4 })) : null,
+        createdBy: assembler, createdAt: iso(b.createdAt), completedAt: b.status === 'completed' && b.completedAt ? iso(b.completedAt) : null,
       })
       .returning({ id: s.buildBatches.id });
     batchId.set(b.key, row.id);

@@ -13,7 +13,7 @@ export async function getBatchDetail(id: string, now: Date = new Date()): Promis
   const progress = await batchProgress(db, row);
   const materialIds = [...new Set(progress.steps.flatMap((s) => s.materials.map((m) => m.materialId)))];
   const mats = materialIds.length
-    ? await db.select({ id: materials.id, code: materials.code, name: materials.name, unit: materials.unit }).from(materials).where(inArray(materials.id, materialIds))
+    ? await db.select({ id: materials.id, code: materials.code, name: materials.name, unit: materials.unit, partnerMaterialId: materials.partnerMaterialId }).from(materials).where(inArray(materials.id, materialIds))
     : [];
   const buildRunRows = [...progress.buildRuns.values()];
   const reworkRows = await db
@@ -51,7 +51,14 @@ export async function getBatchDetail(id: string, now: Date = new Date()): Promis
       waitForCure: s.waitForCure,
       materials: s.materials.map((m) => {
         const mat = mats.find((x) => x.id === m.materialId);
-        return { materialId: m.materialId, materialCode: mat?.code ?? '', materialName: mat?.name ?? '', unit: mat?.unit ?? '', amountPerUnit: m.amountPerUnit };
+        return {
+          materialId: m.materialId,
+          materialCode: mat?.code ?? '',
+          materialName: mat?.name ?? '',
+          unit: mat?.unit ?? '',
+          amountPerUnit: m.amountPerUnit,
+          twoPart: !!mat?.partnerMaterialId,
+        };
       }),
       state,
       run,

@@ -9,7 +9,6 @@ import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
 import type { ComplianceRunResult } from '../../../shared/schemas/alerts';
 import { ALL_CHECKS, type Finding } from './findings';
-import { alertKindWords } from '../../../shared/words';
 
 /** Advisory-lock key of the watch: only one server process sweeps at a time. */
 const WATCH_LOCK = 7226002;

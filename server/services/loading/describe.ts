@@ -72,6 +72,7 @@ export async function describeLoads(tx: DbOrTx, rows: LoadRow[], now: Date): Pro
         lot: { id: c.lot.id, supplierLot: c.lot.supplierLot, status: c.lot.status },
         material: materialSummary(c.material),
         partMaterial: null,
+        partLot: null,
         expiresAt: e.at,
         expiryCause: e.cause,
       };
@@ -85,6 +86,7 @@ export async function describeLoads(tx: DbOrTx, rows: LoadRow[], now: Date): Pro
       lot: { id: m.resin.lot.id, supplierLot: m.resin.lot.supplierLot, status: m.resin.lot.status },
       material: materialSummary(m.resin.material),
       partMaterial: materialSummary(m.hardener.material),
+      partLot: { id: m.hardener.lot.id, supplierLot: m.hardener.lot.supplierLot, status: m.hardener.lot.status },
       expiresAt: e.at,
       expiryCause: e.cause,
     };

@@ -12,6 +12,8 @@ export interface StatusLook {
   icon: string;
   /** One sentence on what the status means in the plant. */
   hint: string;
+  /** True when the look says "Expired" instead of the recorded status. */
+  expired?: boolean;
 }
 
 export const LOT_STATUS_LOOK: Record<LotStatus, StatusLook> = {
@@ -31,9 +33,32 @@ export const CONTAINER_STATUS_LOOK: Record<ContainerStatus, StatusLook> = {
 
 export type StatusKind = 'lot' | 'container';
 
-export function statusLook(kind: StatusKind, status: string): StatusLook {
+/**
+ * Statuses under which a lot or container is still in stock and could be used: past its
+ * effective expiry it reads "Expired" instead. Used up, rejected, empty and scrapped stay as they are.
+ */
+const IN_STOCK: Record<StatusKind, readonly string[]> = {
+  lot: ['on_hold', 'released', 'quarantined'],
+  container: ['sealed', 'open'],
+};
+
+export function statusLook(
+  kind: StatusKind,
+  status: string,
+  expiry: { expiresAt?: string | null; cause?: string | null; nowMs?: number } = {},
+): StatusLook {
   const table: Record<string, StatusLook> = kind === 'lot' ? LOT_STATUS_LOOK : CONTAINER_STATUS_LOOK;
-  return table[status] ?? { label: humanize(status), color: 'grey-7', icon: 'help', hint: '' };
+  const base = table[status] ?? { label: humanize(status), color: 'grey-7', icon: 'help', hint: '' };
+  const at = expiry.expiresAt ? Date.parse(expiry.expiresAt) : Number.NaN;
+  if (Number.isNaN(at) || at > (expiry.nowMs ?? Date.now()) || !IN_STOCK[kind].includes(status)) return base;
+  const cause = expiryCauseText(expiry.cause);
+  return {
+    label: cause ? `Expired (${cause})` : 'Expired',
+    color: 'negative',
+    icon: 'event_busy',
+    hint: `Past its effective expiry${cause ? ` (set by the ${cause})` : ''}: not to be used. Recorded status: ${base.label.toLowerCase()}.`,
+    expired: true,
+  };
 }
 
 /** Why an expiry is what it is, in words (causes from shared/expiry.ts). */

@@ -15,6 +15,14 @@ export const homeRoutes: RouteRecordRaw[] = [
   { path: '', name: 'home', component: () => import('@/pages/home/HomePage.vue'), meta: { title: 'Home' } },
 ];
 
+/** Where the guard sends a signed-in person whose roles may not open a page (`from`: that page). */
+export const notAllowedRoute: RouteRecordRaw = {
+  path: 'not-allowed',
+  name: 'not-allowed',
+  component: () => import('@/pages/NotAllowedPage.vue'),
+  meta: { title: 'No access' },
+};
+
 /** Last child of the layout: any path no route claims. */
 export const notFoundRoute: RouteRecordRaw = {
   path: ':pathMatch(.*)*',
