@@ -8,6 +8,7 @@ import { attachActor } from './middleware/auth';
 import { idempotency } from './middleware/idempotency';
 import { errorHandler, notFoundApi } from './middleware/errors';
 import { apiRouter } from './routes';
+import { requestLogger } from './logger';
 
 export interface AppOptions {
   /** Serve the built client from dist/ (production). */
@@ -37,6 +38,7 @@ export function createApp(options: AppOptions = {}): Express {
       crossOriginEmbedderPolicy: false,
     }),
   );
+  app.use(requestLogger);
   app.use(cookieParser());
   app.use('/api', express.json({ limit: '1mb' }), attachActor, idempotency, apiRouter, notFoundApi);
 

@@ -4,6 +4,7 @@ import { config } from './config';
 import { closeDb } from './db/client';
 import { scheduleComplianceWatch } from './jobs/compliance';
 import { sweep } from './services/compliance';
+import { logger } from './logger';
 
 /** Starts the HTTP server (API and built client) on 127.0.0.1:PORT. */
 export async function startServer(options: { serveClient?: boolean; port?: number } = {}): Promise<Server> {
@@ -19,17 +20,17 @@ async function main() {
   const server = await startServer({ serveClient: process.env.TACKLOG_SERVE_CLIENT !== '0' });
   const addr = server.address();
   const port = typeof addr === 'object' && addr ? addr.port : config.port;
-  console.log(`[server] Tacklog listening on http://${config.host}:${port}`);
+  logger.info(`Tacklog listening on http://${config.host}:${port}`);
   const stopWatch = scheduleComplianceWatch(config.watchSchedule);
   if (config.watchSchedule !== 'off') {
     // A first sweep at start, so alerts are current before the first scheduled run.
     sweep().then(
-      (r) => r.ran && console.log(`[watch] first sweep: raised ${r.raised}, resolved ${r.resolved}`),
-      (err) => console.error('[watch] first sweep failed:', err),
+      (r) => r.ran && logger.info({ job: 'watch', ...r }, `first sweep: raised ${r.raised}, resolved ${r.resolved}`),
+      (err) => logger.error({ job: 'watch', err }, 'first sweep failed'),
     );
   }
   const stop = (signal: string) => {
-    console.log(`[server] ${signal}: stopping`);
+    logger.info(`${signal}: stopping`);
     stopWatch();
     server.close(() => {
       closeDb().finally(() => process.exit(0));
@@ -43,7 +44,7 @@ async function main() {
 const isMain = import.meta.url === `file://${process.argv[1]}` || process.argv[1]?.endsWith('server/index.ts');
 if (isMain) {
   main().catch((err) => {
-    console.error('[server] failed to start:', err);
+    logger.fatal({ err }, 'failed to start');
     process.exit(1);
   });
 }

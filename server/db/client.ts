@@ -1,6 +1,7 @@
 import pg from 'pg';
 import { drizzle, type NodePgDatabase } from 'drizzle-orm/node-postgres';
 import * as schema from './schema';
+import { logger } from '../logger';
 
 export type Db = NodePgDatabase<typeof schema>;
 /** A transaction handle; services take `Db | Tx` so they compose inside transactions. */
@@ -17,7 +18,7 @@ export const pool = new pg.Pool({
 
 pool.on('error', (err) => {
   // An idle client lost its connection (e.g. the cluster stopped); the pool replaces it.
-  console.error('[db] idle client error:', err.message);
+  logger.error({ err }, 'database: idle client error');
 });
 
 export const db: Db = drizzle(pool, { schema });

@@ -1,5 +1,6 @@
 import cron from 'node-cron';
 import { sweep } from '../services/compliance';
+import { logger } from '../logger';
 
 /**
  * Schedules the compliance watch (node-cron). Every server process schedules it; the sweep's
@@ -13,10 +14,10 @@ export function scheduleComplianceWatch(schedule: string): () => void {
     try {
       const result = await sweep();
       if (result.ran && (result.raised || result.resolved)) {
-        console.log(`[watch] raised ${result.raised}, resolved ${result.resolved}`);
+        logger.info({ job: 'watch', ...result }, `compliance watch raised ${result.raised}, resolved ${result.resolved}`);
       }
     } catch (err) {
-      console.error('[watch] sweep failed:', err);
+      logger.error({ job: 'watch', err }, 'compliance sweep failed');
     }
   });
   return () => void task.stop();

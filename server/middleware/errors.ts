@@ -53,6 +53,7 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, next) => {
     res.status(status).json({ error: { code: 'BAD_REQUEST', message: 'The request could not be read.' } });
     return;
   }
-  console.error(`[error] ${req.method} ${req.originalUrl}:`, err);
+  // pino-http's child logger carries the request id; the response names the same id (X-Request-Id).
+  req.log.error({ err }, `${req.method} ${req.originalUrl} failed`);
   res.status(500).json({ error: { code: 'INTERNAL', message: 'Something went wrong on the server; it has been logged.' } });
 };

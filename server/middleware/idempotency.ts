@@ -10,6 +10,7 @@
  *  - Keys are kept for a week.
  */
 import type { RequestHandler, Response } from 'express';
+import { logger } from '../logger';
 import { AppError } from '../errors';
 import { claimKey, pruneKeys, releaseKey, storeResponse } from '../services/idempotency';
 
@@ -25,7 +26,7 @@ function pruneNowAndThen(): void {
   lastPrune = now;
   pruneKeys(new Date(now - KEEP_MS)).then(
       () => undefined,
-      (err: unknown) => console.error('[idempotency] pruning old keys failed:', err),
+      (err: unknown) => logger.error({ err }, 'pruning old idempotency keys failed'),
     );
 }
 
@@ -52,7 +53,7 @@ function captureResponse(res: Response, actorId: string, key: string): void {
     save.then(
       () => end(...args),
       (err: unknown) => {
-        console.error('[idempotency] could not store the response:', err);
+        (res.req?.log ?? logger).error({ err }, 'could not store the idempotent response');
         end(...args);
       },
     );

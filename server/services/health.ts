@@ -1,12 +1,13 @@
 import { sql } from 'drizzle-orm';
 import { db } from '../db/client';
+import { logger } from '../logger';
 
 export async function checkDatabase(): Promise<boolean> {
   try {
     await db.execute(sql`SELECT 1`);
     return true;
   } catch (err) {
-    console.error('[health] database check failed:', (err as Error).message);
+    logger.error({ err }, 'health: database check failed');
     return false;
   }
 }

@@ -29,9 +29,20 @@ export async function login(input: LoginInput): Promise<{ token: string; user: U
   return { token: signSessionToken(row.id), user: toUser(row) };
 }
 
+/**
+ * Every signed-in request runs this: one named prepared statement, so each pooled connection
+ * parses and plans it once (only the columns an actor needs).
+ */
+const actorById = db
+  .select({ id: users.id, email: users.email, name: users.name, roles: users.roles, active: users.active })
+  .from(users)
+  .where(eq(users.id, sql.placeholder('id')))
+  .limit(1)
+  .prepare('auth_actor_by_id');
+
 /** The actor for a user id from a session token; null when the user is gone or disabled. */
 export async function actorForUserId(userId: string): Promise<Actor | null> {
-  const [row] = await db.select().from(users).where(eq(users.id, userId)).limit(1);
+  const [row] = await actorById.execute({ id: userId });
   if (!row || !row.active) return null;
-  return toUser(row);
+  return { id: row.id, email: row.email, name: row.name, roles: row.roles };
 }
