@@ -1,3 +1,5 @@
+import cluster from 'node:cluster';
+import os from 'node:os';
 import type { Server } from 'node:http';
 import { createApp } from './app';
 import { config } from './config';
@@ -16,21 +18,40 @@ export async function startServer(options: { serveClient?: boolean; port?: numbe
   });
 }
 
-async function main() {
-  const server = await startServer({ serveClient: process.env.TACKLOG_SERVE_CLIENT !== '0' });
-  const addr = server.address();
-  const port = typeof addr === 'object' && addr ? addr.port : config.port;
-  logger.info(`Tacklog listening on http://${config.host}:${port}`);
+/** TACKLOG_WORKERS: how many server processes answer HTTP (default: one per core). */
+export function workerCount(): number {
+  const raw = process.env.TACKLOG_WORKERS;
+  if (raw === undefined || raw === '') return os.availableParallelism();
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 1 || n > 256) throw new Error(`TACKLOG_WORKERS must be a whole number from 1 to 256, got "${raw}"`);
+  return n;
+}
+
+/**
+ * The compliance watch: a first sweep at start, so alerts are current before the first scheduled
+ * run, then on TACKLOG_WATCH_CRON. With several processes (here or on other machines) the
+ * sweep's advisory lock lets exactly one of them work each time.
+ */
+function startWatch(): () => void {
   const stopWatch = scheduleComplianceWatch(config.watchSchedule);
   if (config.watchSchedule !== 'off') {
-    // A first sweep at start, so alerts are current before the first scheduled run.
     sweep().then(
       (r) => r.ran && logger.info({ job: 'watch', ...r }, `first sweep: raised ${r.raised}, resolved ${r.resolved}`),
       (err) => logger.error({ job: 'watch', err }, 'first sweep failed'),
     );
   }
+  return stopWatch;
+}
+
+/** One process that serves HTTP; `withWatch` when it is the only process. */
+async function serve(withWatch: boolean) {
+  const server = await startServer({ serveClient: process.env.TACKLOG_SERVE_CLIENT !== '0' });
+  const addr = server.address();
+  const port = typeof addr === 'object' && addr ? addr.port : config.port;
+  if (!cluster.isWorker || cluster.worker?.id === 1) logger.info(`Tacklog listening on http://${config.host}:${port}`);
+  const stopWatch = withWatch ? startWatch() : () => undefined;
   const stop = (signal: string) => {
-    logger.info(`${signal}: stopping`);
+    if (!cluster.isWorker) logger.info(`${signal}: stopping`);
     stopWatch();
     server.close(() => {
       closeDb().finally(() => process.exit(0));
@@ -41,7 +62,51 @@ async function main() {
   process.on('SIGTERM', () => stop('SIGTERM'));
 }
 
-const isMain = import.meta.url === `file://${process.argv[1]}` || process.argv[1]?.endsWith('server/index.ts');
+/**
+ * N > 1: this process (the primary) forks N workers that share the port (node:cluster hands out
+ * connections), runs the compliance watch itself, restarts a worker that dies, and on SIGTERM or
+ * SIGINT stops the workers and then itself. The workers hold no state between requests.
+ */
+function supervise(n: number) {
+  let stopping = false;
+  for (let i = 0; i < n; i++) cluster.fork();
+  cluster.on('exit', (worker, code, signal) => {
+    if (stopping) {
+      if (Object.keys(cluster.workers ?? {}).length === 0) closeDb().finally(() => process.exit(0));
+      return;
+    }
+    logger.error({ pid: worker.process.pid, code, signal }, 'a server worker stopped; starting another');
+    cluster.fork();
+  });
+  let workersUp = 0;
+  cluster.on('listening', () => {
+    workersUp += 1;
+    if (workersUp === n) logger.info(`${n} server workers are listening`);
+  });
+  const stopWatch = startWatch();
+  const stop = (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    logger.info(`${signal}: stopping ${n} workers`);
+    stopWatch();
+    const workers = Object.values(cluster.workers ?? {});
+    if (workers.length === 0) closeDb().finally(() => process.exit(0));
+    for (const w of workers) w?.process.kill('SIGTERM');
+    setTimeout(() => process.exit(0), 8000).unref();
+  };
+  process.on('SIGINT', () => stop('SIGINT'));
+  process.on('SIGTERM', () => stop('SIGTERM'));
+}
+
+async function main() {
+  if (cluster.isWorker) return serve(false);
+  const n = workerCount();
+  if (n === 1) return serve(true);
+  supervise(n);
+}
+
+const entry = process.argv[1] ?? '';
+const isMain = import.meta.url === `file://${entry}` || entry.endsWith('server/index.ts') || entry.endsWith('server/index.js');
 if (isMain) {
   main().catch((err) => {
     logger.fatal({ err }, 'failed to start');
