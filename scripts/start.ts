@@ -6,6 +6,7 @@
 import { spawn } from 'node:child_process';
 import { ensureDatabase, providePostgres } from './pg';
 import { buildClientIfStale, clientSourcesPresent, jwtSecret, prepareDatabase, printWelcome } from './lib/app';
+import { buildServerIfStale, serverCommand } from './lib/server-build';
 import { CHILD_STDIO, isShuttingDown, log, onShutdown, root, runMain, stopChild, UserFacingError, waitForExit } from './lib/proc';
 
 runMain(async () => {
@@ -19,8 +20,11 @@ runMain(async () => {
   if (serveClient) await buildClientIfStale();
   else log('index.html is missing: there is no client to build; serving the API only');
 
-  // `node --import tsx` rather than the tsx CLI: one process, which gets our SIGTERM itself.
-  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+  // The server built to JS (esbuild), run by node itself: one process (with TACKLOG_WORKERS > 1,
+  // the primary of its workers), which gets our SIGTERM itself.
+  await buildServerIfStale();
+  const [command, args] = serverCommand();
+  const child = spawn(command, args, {
     cwd: root,
     stdio: CHILD_STDIO,
     detached: true,

@@ -2,6 +2,7 @@ import crypto from 'node:crypto';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 
+// server/config.ts, or the built server (.server-build/index.js): either way one folder below the root.
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
 function intFromEnv(name: string, fallback: number): number {

@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { boolean, check, index, integer, jsonb, numeric, pgTable, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
+import { boolean, check, index, integer, jsonb, numeric, pgTable, pgView, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
 import { batchStatusEnum, driverStatusEnum, stepRunKindEnum, testResultEnum } from './enums';
 import { driverModels, recipeSteps, stations, defectCodes } from './catalogue';
 import { containers, mixes } from './inventory';
@@ -123,6 +123,9 @@ export const stationLoads = pgTable(
   },
   (t) => [
     index('station_loads_station_idx').on(t.stationId, t.unloadedAt),
+    // "Is this container (mix) loaded now?": one index entry per open load, whatever the history.
+    index('station_loads_open_container_idx').on(t.containerId).where(sql`${t.unloadedAt} IS NULL`),
+    index('station_loads_open_mix_idx').on(t.mixId).where(sql`${t.unloadedAt} IS NULL`),
     check('station_loads_one_ck', sql`(${t.containerId} IS NULL) <> (${t.mixId} IS NULL)`),
   ],
 );
@@ -163,3 +166,21 @@ export const readings = pgTable(
     check('readings_rh_ck', sql`${t.rhPct} IS NULL OR ${t.rhPct} BETWEEN 0 AND 100`),
   ],
 );
+
+/**
+ * The genealogy walk (view made by the hand-written migration genealogy_material_uses): every
+ * container a step run used, directly (mix columns null) or as the resin or hardener of a mix.
+ * One row per (step_run_materials row, container). `.existing()`: drizzle-kit does not manage it.
+ */
+export const materialUses = pgView('material_uses', {
+  useId: uuid('use_id').notNull(),
+  stepRunId: uuid('step_run_id').notNull(),
+  loadedAt: timestamp('loaded_at', { withTimezone: true }).notNull(),
+  quantityUsed: numeric('quantity_used', { precision: 14, scale: 3 }).notNull(),
+  containerId: uuid('container_id').notNull(),
+  mixId: uuid('mix_id'),
+  mixCode: text('mix_code'),
+  mixedAt: timestamp('mixed_at', { withTimezone: true }),
+  part: text('part').$type<'resin' | 'hardener'>(),
+  partOrd: integer('part_ord').notNull(),
+}).existing();

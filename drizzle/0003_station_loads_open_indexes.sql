@@ -1,0 +1,2 @@
+CREATE INDEX "station_loads_open_container_idx" ON "station_loads" USING btree ("container_id") WHERE "station_loads"."unloaded_at" IS NULL;--> statement-breakpoint
+CREATE INDEX "station_loads_open_mix_idx" ON "station_loads" USING btree ("mix_id") WHERE "station_loads"."unloaded_at" IS NULL;
