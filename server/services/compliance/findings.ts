@@ -124,7 +124,7 @@ export async function expiringSoon(tx: DbOrTx, now: Date): Promise<Finding[]> {
  */
 export async function quarantineAdvised(tx: DbOrTx, now: Date): Promise<Finding[]> {
   // The same statistics as GET /api/lots/stats, over the lots received in the last year.
-  const stats = await lotStats({ days: 365, flaggedOnly: true });
+  const stats = await lotStats({ days: 365, flaggedOnly: true }, tx);
   const out = new Map<string, Finding>();
   for (const f of stats.items) {
     if (!f.flagged || (f.status !== 'released' && f.status !== 'on_hold')) continue;

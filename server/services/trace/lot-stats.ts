@@ -1,8 +1,9 @@
 import { eq, sql } from 'drizzle-orm';
-import { db } from '../../db/client';
+import { db, type DbOrTx } from '../../db/client';
 import { settings } from '../../db/schema';
 import { flagLots } from '../../../shared/stats';
 import type { LotStat, LotStats, LotStatsQuery } from '../../../shared/schemas/trace';
+import { lotUses } from './walk';
 
 const Q = 0.05;
 
@@ -17,11 +18,12 @@ interface Row {
  * whether that is unlikely under the plant's baseline failure rate (shared/stats flagLots:
  * exact binomial test with Benjamini–Hochberg over the lots listed, or above the p-chart limit).
  * Counted per batch first, so each driver is read once per batch, not once per lot.
+ * `tx`: the caller's transaction (the compliance watch runs it inside its locked sweep).
  */
-export async function lotStats(query: LotStatsQuery): Promise<LotStats> {
-  const [setting] = await db.select({ value: settings.value }).from(settings).where(eq(settings.key, 'baselineFailureRate'));
+export async function lotStats(query: LotStatsQuery, tx: DbOrTx = db): Promise<LotStats> {
+  const [setting] = await tx.select({ value: settings.value }).from(settings).where(eq(settings.key, 'baselineFailureRate'));
   const baseline = typeof setting?.value === 'number' ? setting.value : 0.01;
-  const res = await db.execute(sql`
+  const res = await tx.execute(sql`
     WITH l AS (
       SELECT l.id, l.supplier_lot, l.status, l.received_at, m.id AS material_id, m.code AS material_code, m.name AS material_name
       FROM lots l JOIN materials m ON m.id = l.material_id
@@ -29,14 +31,8 @@ export async function lotStats(query: LotStatsQuery): Promise<LotStats> {
         ${query.materialId ? sql`AND l.material_id = ${query.materialId}` : sql``}
     ),
     lot_batches AS (
-      SELECT DISTINCT l.id AS lot_id, sr.batch_id
-      FROM l JOIN containers c ON c.lot_id = l.id
-      JOIN LATERAL (
-        SELECT srm.step_run_id FROM step_run_materials srm WHERE srm.container_id = c.id
-        UNION ALL
-        SELECT srm.step_run_id FROM mixes mx JOIN step_run_materials srm ON srm.mix_id = mx.id
-          WHERE mx.resin_container_id = c.id OR mx.hardener_container_id = c.id
-      ) u ON true
+      SELECT DISTINCT u.lot_id, sr.batch_id
+      FROM (${lotUses(sql`c.lot_id IN (SELECT id FROM l)`)}) u
       JOIN step_runs sr ON sr.id = u.step_run_id AND sr.driver_id IS NULL AND sr.kind = 'build'
     ),
     batch_outcomes AS (
