@@ -184,3 +184,16 @@ export const materialUses = pgView('material_uses', {
   part: text('part').$type<'resin' | 'hardener'>(),
   partOrd: integer('part_ord').notNull(),
 }).existing();
+
+/**
+ * Final-test outcomes counted per batch, kept by triggers on drivers and test_results
+ * (migration batch_outcomes): drivers built, drivers tested at least once, drivers that failed
+ * at least once. The lot statistics (and the compliance watch) read these few rows instead of
+ * every driver and test of a year.
+ */
+export const batchOutcomes = pgTable('batch_outcomes', {
+  batchId: uuid('batch_id').primaryKey().references(() => buildBatches.id),
+  drivers: integer('drivers').notNull().default(0),
+  tested: integer('tested').notNull().default(0),
+  failed: integer('failed').notNull().default(0),
+});
