@@ -241,7 +241,7 @@ runMain(async () => {
     seedSeconds = (Date.now() - seedStart) / 1000;
   }
   // Enough fresh containers for every scan of both load phases at a generous rate.
-  const station = await seedStationFixture(seedClient, passwordHash, Math.max(20_000, 2 * 3000 * (seconds + warmupMs / 1000)), 64);
+  const station = await seedStationFixture(seedClient, passwordHash, Math.max(20_000, 2 * 1500 * (seconds + warmupMs / 1000)), 64);
   const sizes = await seedClient.query(
     `SELECT (SELECT count(*) FROM drivers)::int AS drivers, (SELECT count(*) FROM build_batches)::int AS batches,
             (SELECT count(*) FROM step_runs)::int AS runs, (SELECT count(*) FROM step_run_materials)::int AS uses,
