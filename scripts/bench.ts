@@ -291,7 +291,8 @@ runMain(async () => {
       const resolved = await http.request('POST', '/api/scans/resolve', { code }, auth);
       expect('resolve', 200, resolved);
       const batchId = station.batchIds[caller % station.batchIds.length];
-      const loaded = await http.request('POST', `/api/stations/${station.stationId}/load`, { batchId, containerCode: code }, auth);
+      // The station screen sends each load with an Idempotency-Key (its offline queue retries with it).
+      const loaded = await http.request('POST', `/api/stations/${station.stationId}/load`, { batchId, containerCode: code }, { ...auth, 'idempotency-key': crypto.randomUUID() });
       expect('load', 200, loaded);
     };
     const lookup = async () => {
