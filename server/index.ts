@@ -1,15 +1,15 @@
-import cluster from 'node:cluster';
+import cluster, { type Worker } from 'node:cluster';
 import os from 'node:os';
 import type { Server } from 'node:http';
-import { createApp } from './app';
 import { config } from './config';
-import { closeDb } from './db/client';
-import { scheduleComplianceWatch } from './jobs/compliance';
-import { sweep } from './services/compliance';
 import { logger } from './logger';
+
+// The app, the database and the watch are imported when needed: the primary of several workers
+// loads none of them (it only supervises), so it stays small.
 
 /** Starts the HTTP server (API and built client) on 127.0.0.1:PORT. */
 export async function startServer(options: { serveClient?: boolean; port?: number } = {}): Promise<Server> {
+  const { createApp } = await import('./app');
   const app = createApp({ serveClient: options.serveClient ?? true });
   const port = options.port ?? config.port;
   return new Promise((resolve, reject) => {
@@ -32,7 +32,8 @@ export function workerCount(): number {
  * run, then on TACKLOG_WATCH_CRON. With several processes (here or on other machines) the
  * sweep's advisory lock lets exactly one of them work each time.
  */
-function startWatch(): () => void {
+async function startWatch(): Promise<() => void> {
+  const [{ scheduleComplianceWatch }, { sweep }] = await Promise.all([import('./jobs/compliance'), import('./services/compliance')]);
   const stopWatch = scheduleComplianceWatch(config.watchSchedule);
   if (config.watchSchedule !== 'off') {
     sweep().then(
@@ -43,13 +44,17 @@ function startWatch(): () => void {
   return stopWatch;
 }
 
-/** One process that serves HTTP; `withWatch` when it is the only process. */
+/** Set by the primary on the one worker that schedules the watch. */
+const WATCH_ENV = 'TACKLOG_RUNS_WATCH';
+
+/** One process that serves HTTP, and schedules the watch when it is the only one or was chosen to. */
 async function serve(withWatch: boolean) {
   const server = await startServer({ serveClient: process.env.TACKLOG_SERVE_CLIENT !== '0' });
+  const { closeDb } = await import('./db/client');
   const addr = server.address();
   const port = typeof addr === 'object' && addr ? addr.port : config.port;
-  if (!cluster.isWorker || cluster.worker?.id === 1) logger.info(`Tacklog listening on http://${config.host}:${port}`);
-  const stopWatch = withWatch ? startWatch() : () => undefined;
+  if (!cluster.isWorker) logger.info(`Tacklog listening on http://${config.host}:${port}`);
+  const stopWatch = withWatch ? await startWatch() : () => undefined;
   const stop = (signal: string) => {
     if (!cluster.isWorker) logger.info(`${signal}: stopping`);
     stopWatch();
@@ -64,33 +69,36 @@ async function serve(withWatch: boolean) {
 
 /**
  * N > 1: this process (the primary) forks N workers that share the port (node:cluster hands out
- * connections), runs the compliance watch itself, restarts a worker that dies, and on SIGTERM or
- * SIGINT stops the workers and then itself. The workers hold no state between requests.
+ * connections) and one of them schedules the compliance watch; a worker that dies is replaced
+ * (the watch goes to its replacement); SIGTERM or SIGINT stops the workers, then the primary.
+ * The workers keep no state between requests.
  */
 function supervise(n: number) {
   let stopping = false;
-  for (let i = 0; i < n; i++) cluster.fork();
+  const watchOf = new Map<Worker, boolean>();
+  const fork = (watch: boolean) => watchOf.set(cluster.fork(watch ? { [WATCH_ENV]: '1' } : {}), watch);
+  for (let i = 0; i < n; i++) fork(i === 0);
   cluster.on('exit', (worker, code, signal) => {
+    const hadWatch = watchOf.get(worker) ?? false;
+    watchOf.delete(worker);
     if (stopping) {
-      if (Object.keys(cluster.workers ?? {}).length === 0) closeDb().finally(() => process.exit(0));
+      if (Object.keys(cluster.workers ?? {}).length === 0) process.exit(0);
       return;
     }
-    logger.error({ pid: worker.process.pid, code, signal }, 'a server worker stopped; starting another');
-    cluster.fork();
+    logger.error({ workerPid: worker.process.pid, code, signal }, 'a server worker stopped; starting another');
+    fork(hadWatch);
   });
-  let workersUp = 0;
+  let up = 0;
   cluster.on('listening', () => {
-    workersUp += 1;
-    if (workersUp === n) logger.info(`${n} server workers are listening`);
+    up += 1;
+    if (up === n) logger.info(`Tacklog listening on http://${config.host}:${config.port} (${n} workers)`);
   });
-  const stopWatch = startWatch();
   const stop = (signal: string) => {
     if (stopping) return;
     stopping = true;
     logger.info(`${signal}: stopping ${n} workers`);
-    stopWatch();
     const workers = Object.values(cluster.workers ?? {});
-    if (workers.length === 0) closeDb().finally(() => process.exit(0));
+    if (workers.length === 0) process.exit(0);
     for (const w of workers) w?.process.kill('SIGTERM');
     setTimeout(() => process.exit(0), 8000).unref();
   };
@@ -99,7 +107,7 @@ function supervise(n: number) {
 }
 
 async function main() {
-  if (cluster.isWorker) return serve(false);
+  if (cluster.isWorker) return serve(process.env[WATCH_ENV] === '1');
   const n = workerCount();
   if (n === 1) return serve(true);
   supervise(n);
