@@ -195,12 +195,12 @@ runMain(async () => {
     driversPerDay: num('TACKLOG_BENCH_PER_DAY', 2000),
     batchSize: 200,
   };
-  const driverSamples = num('TACKLOG_BENCH_DRIVER_SAMPLES', quick ? 100 : 200);
-  const lotSamples = num('TACKLOG_BENCH_LOT_SAMPLES', quick ? 20 : 50);
+  const driverSamples = num('TACKLOG_BENCH_DRIVER_SAMPLES', quick ? 60 : 200);
+  const lotSamples = num('TACKLOG_BENCH_LOT_SAMPLES', quick ? 12 : 50);
   const seed = num('TACKLOG_BENCH_SEED', 20260301);
   const clients = num('TACKLOG_BENCH_CLIENTS', 16);
-  const seconds = num('TACKLOG_BENCH_SECONDS', quick ? 6 : 20);
-  const warmupMs = (quick ? 2 : 5) * 1000;
+  const seconds = num('TACKLOG_BENCH_SECONDS', quick ? 4 : 20);
+  const warmupMs = (quick ? 1 : 5) * 1000;
   const nWorkers = num('TACKLOG_BENCH_WORKERS', os.availableParallelism());
   const rand = prng(seed);
 
