@@ -7,7 +7,7 @@ import globals from 'globals';
 
 export default tseslint.config(
   {
-    ignores: ['dist/**', 'node_modules/**', 'drizzle/**', '.data/**', '.tmp/**', 'coverage/**'],
+    ignores: ['dist/**', 'node_modules/**', 'drizzle/**', '.data/**', '.tmp/**', 'coverage/**', '.server-build/**'],
   },
   js.configs.recommended,
   ...tseslint.configs.recommended,

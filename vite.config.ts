@@ -38,6 +38,8 @@ export default defineConfig({
     chunkSizeWarningLimit: 1500,
   },
   test: {
+    // The server logs every request at info; tests keep only errors (set TACKLOG_LOG_LEVEL to see more).
+    env: { TACKLOG_LOG_LEVEL: process.env.TACKLOG_LOG_LEVEL ?? 'error' },
     projects: [
       {
         extends: true,

@@ -1,29 +1,46 @@
 /**
- * `npm run bench`: the genealogy-trace benchmark.
+ * `npm run bench`: Tacklog's benchmark, everything in one run on a freshly generated history.
  *
  * Seeds a large invented history into a throwaway database (a throwaway cluster, or a database
- * of its own on DATABASE_URL's server, dropped afterwards), starts the real app (server/index.ts)
- * on a free port, then measures backward traces (GET /api/drivers/:serial/trace) for random
- * drivers and forward traces (GET /api/lots/:id/trace) for lots used in ~5,000 drivers, through
- * the API and as the same SQL statements run bare, and prints p50/p95 with the targets:
- * API p95 < 50 ms per driver, < 500 ms per 5,000-driver lot, and within 3× bare SQL.
+ * of its own on DATABASE_URL's server, dropped afterwards), runs Debian's pgbench (TPC-B-like and
+ * select-only) on the same server, then starts the real app (as `npm start` runs it) with
+ * TACKLOG_WORKERS=1 and again with one worker per core, and measures at 16 concurrent clients
+ * over loopback: the station scan (POST /api/scans/resolve + POST /api/stations/:id/load of a
+ * fresh sealed container, with its audit), the scan lookup alone, a reading (POST /api/readings);
+ * the traces one at a time through the API and as bare SQL; a full compliance sweep; the server's
+ * RSS under load; the initial route's JS + CSS gzip size and first paint in Chromium.
+ * Prints a table, then as its last line one JSON object (scanPerSec, scanP99Ms, pgbenchTps,
+ * scanRatio, lookupPerSec, lookupP99Ms, pgbenchSelectTps, lookupRatio, sweepMs, rssMb,
+ * initialRouteGzipKb, driverTraceP95Ms, driverTraceRatio, lotTraceP95Ms, lotTraceRatio, workers).
  * Exit code 0 when every target is met, 1 when one is missed.
  *
+ * `--quick`: 90 days of history and short load phases (under 2 minutes).
  * Knobs: TACKLOG_BENCH_DAYS (1095), TACKLOG_BENCH_PER_DAY (2000), TACKLOG_BENCH_DRIVER_SAMPLES
- * (200), TACKLOG_BENCH_LOT_SAMPLES (50), TACKLOG_BENCH_SEED (sampling). For working on the
- * queries: TACKLOG_BENCH_KEEP=1 keeps the seeded database (its name is printed) and
- * TACKLOG_BENCH_DATABASE=<that name> measures it again without seeding (neither is dropped).
+ * (200), TACKLOG_BENCH_LOT_SAMPLES (50), TACKLOG_BENCH_SEED (sampling), TACKLOG_BENCH_CLIENTS (16),
+ * TACKLOG_BENCH_SECONDS (load phase length), TACKLOG_BENCH_WORKERS (the N, default one per core).
+ * For working on the queries: TACKLOG_BENCH_KEEP=1 keeps the seeded database (its name is
+ * printed) and TACKLOG_BENCH_DATABASE=<that name> measures it again without seeding.
  */
-import { spawn } from 'node:child_process';
+import { spawn, type ChildProcess } from 'node:child_process';
 import crypto from 'node:crypto';
+import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
+import zlib from 'node:zlib';
 import bcrypt from 'bcryptjs';
 import pg from 'pg';
 import type { SQL } from 'drizzle-orm';
 import { dropDatabase, ensureDatabase, freePort, providePostgres } from './pg';
-import { CHILD_STDIO, log, onShutdown, root, runMain, stopChild } from './lib/proc';
+import { log, onShutdown, root, runMain, stopChild } from './lib/proc';
+import { buildClientIfStale } from './lib/app';
 import { BENCH_MATERIALS, benchSerial, benchSupplierLot, seedHistory } from './bench/seed-history';
+import { BENCH_ASSEMBLER, seedStationFixture } from './bench/seed-station';
 import { printTable, summary, timeEach, type Check } from './bench/measure';
+import { closedLoop, httpClient, type LoadResult } from './bench/load';
+import { findPgbench, pgbenchInit, pgbenchRun } from './bench/pgbench';
+import { buildServerIfStale, serverCommand } from './lib/server-build';
+
+const quick = process.argv.includes('--quick');
 
 const num = (name: string, fallback: number) => {
   const v = Number(process.env[name] ?? fallback);
@@ -43,7 +60,7 @@ function prng(seed: number): () => number {
   };
 }
 
-async function waitForHealth(base: string, child: ReturnType<typeof spawn>): Promise<void> {
+async function waitForHealth(base: string, child: ChildProcess): Promise<void> {
   const until = Date.now() + 60_000;
   while (Date.now() < until) {
     if (child.exitCode !== null) throw new Error(`the app exited early (code ${child.exitCode})`);
@@ -58,11 +75,133 @@ async function waitForHealth(base: string, child: ReturnType<typeof spawn>): Pro
   throw new Error('the app did not answer /api/health within 60 s');
 }
 
+/** Resident memory (MB) of a process and its children (the cluster's workers), from /proc. */
+function treeRssMb(pid: number): number {
+  const rssOf = (p: number) => {
+    try {
+      const m = /VmRSS:\s+(\d+) kB/.exec(fs.readFileSync(`/proc/${p}/status`, 'utf8'));
+      return m ? Number(m[1]) / 1024 : 0;
+    } catch {
+      return 0;
+    }
+  };
+  let total = rssOf(pid);
+  for (const entry of fs.readdirSync('/proc')) {
+    if (!/^\d+$/.test(entry)) continue;
+    try {
+      const stat = fs.readFileSync(`/proc/${entry}/stat`, 'utf8');
+      const ppid = Number(stat.slice(stat.lastIndexOf(')') + 2).split(' ')[1]);
+      if (ppid === pid) total += rssOf(Number(entry));
+    } catch {
+      // gone
+    }
+  }
+  return total;
+}
+
+/** Samples `treeRssMb(pid)` every 250 ms while `work` runs; resolves to the work's result and the peak. */
+async function withPeakRss<T>(pid: number, work: () => Promise<T>): Promise<{ result: T; peakMb: number }> {
+  let peakMb = treeRssMb(pid);
+  const timer = setInterval(() => (peakMb = Math.max(peakMb, treeRssMb(pid))), 250);
+  try {
+    return { result: await work(), peakMb };
+  } finally {
+    clearInterval(timer);
+    peakMb = Math.max(peakMb, treeRssMb(pid));
+  }
+}
+
+interface RunningApp {
+  base: string;
+  child: ChildProcess;
+  stop: () => Promise<void>;
+}
+
+/** The real app as `npm start` runs it, with `workers` processes, its log in .tmp/. */
+async function startApp(url: string, jwtSecret: string, workers: number): Promise<RunningApp> {
+  const port = await freePort();
+  const logFile = path.join(root, '.tmp', `bench-server-${workers}w.log`);
+  fs.mkdirSync(path.dirname(logFile), { recursive: true });
+  const out = fs.openSync(logFile, 'w');
+  const [cmd, args] = serverCommand();
+  const child = spawn(cmd, args, {
+    cwd: root,
+    stdio: ['ignore', out, 'inherit'],
+    detached: true,
+    env: {
+      ...process.env,
+      DATABASE_URL: url,
+      PORT: String(port),
+      TACKLOG_SERVE_CLIENT: '1',
+      TACKLOG_WATCH_CRON: 'off',
+      TACKLOG_JWT_SECRET: jwtSecret,
+      TACKLOG_WORKERS: String(workers),
+      NODE_ENV: 'production',
+    },
+  });
+  fs.closeSync(out);
+  const stop = () => stopChild(child);
+  onShutdown(stop);
+  const base = `http://127.0.0.1:${port}`;
+  await waitForHealth(base, child);
+  // Every worker answering: a few health checks spread over the processes.
+  await Promise.all(Array.from({ length: 4 * workers }, () => fetch(`${base}/api/health`).then((r) => r.text())));
+  return { base, child, stop };
+}
+
+async function signIn(base: string, email: string, password: string): Promise<string> {
+  const login = await fetch(`${base}/api/auth/login`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ email, password }),
+  });
+  if (login.status !== 200) throw new Error(`sign-in of ${email} failed: ${login.status} ${await login.text()}`);
+  return ((await login.json()) as { token: string }).token;
+}
+
+/** The initial route as a fresh browser gets it: JS + CSS it loads (gzip -6 sizes) and first contentful paint. */
+async function measureFirstPage(base: string): Promise<{ gzipKb: number; rawKb: number; sentCompressed: boolean; fcpMs: number | null; files: number }> {
+  const { chromium } = await import('playwright-core');
+  const browser = await chromium.launch({
+    executablePath: '/usr/bin/chromium',
+    headless: true,
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--no-first-run', '--disable-sync'],
+  });
+  try {
+    const page = await browser.newPage();
+    const assets: { url: string; encoding: string | undefined }[] = [];
+    page.on('response', (res) => {
+      const type = res.request().resourceType();
+      if (type === 'script' || type === 'stylesheet') assets.push({ url: res.url(), encoding: res.headers()['content-encoding'] });
+    });
+    await page.goto(`${base}/`, { waitUntil: 'networkidle' });
+    const fcp = await page.evaluate(() => performance.getEntriesByName('first-contentful-paint')[0]?.startTime ?? null);
+    let gzip = 0;
+    let raw = 0;
+    for (const a of assets) {
+      const body = Buffer.from(await (await fetch(a.url)).arrayBuffer());
+      raw += body.length;
+      gzip += zlib.gzipSync(body, { level: 6 }).length;
+    }
+    return { gzipKb: gzip / 1024, rawKb: raw / 1024, sentCompressed: assets.length > 0 && assets.every((a) => a.encoding === 'gzip' || a.encoding === 'br'), fcpMs: fcp, files: assets.length };
+  } finally {
+    await browser.close();
+  }
+}
+
 runMain(async () => {
-  const shape = { days: num('TACKLOG_BENCH_DAYS', 1095), driversPerDay: num('TACKLOG_BENCH_PER_DAY', 2000), batchSize: 200 };
-  const driverSamples = num('TACKLOG_BENCH_DRIVER_SAMPLES', 200);
-  const lotSamples = num('TACKLOG_BENCH_LOT_SAMPLES', 50);
+  const shape = {
+    days: num('TACKLOG_BENCH_DAYS', quick ? 90 : 1095),
+    driversPerDay: num('TACKLOG_BENCH_PER_DAY', 2000),
+    batchSize: 200,
+  };
+  const driverSamples = num('TACKLOG_BENCH_DRIVER_SAMPLES', quick ? 60 : 200);
+  const lotSamples = num('TACKLOG_BENCH_LOT_SAMPLES', quick ? 12 : 50);
   const seed = num('TACKLOG_BENCH_SEED', 20260301);
+  const clients = num('TACKLOG_BENCH_CLIENTS', 16);
+  const seconds = num('TACKLOG_BENCH_SECONDS', quick ? 4 : 20);
+  const warmupMs = (quick ? 1 : 5) * 1000;
+  const nWorkers = num('TACKLOG_BENCH_WORKERS', os.availableParallelism());
   const rand = prng(seed);
 
   const server = await providePostgres('throwaway');
@@ -81,6 +220,9 @@ runMain(async () => {
   }
   const { runMigrations } = await import('../server/db/migrate');
   await runMigrations(url);
+  // Both builds before anything is measured: a build running beside a measurement takes its CPU.
+  await buildServerIfStale();
+  await buildClientIfStale();
 
   // ---------------------------------------------------------------- seed
   const password = crypto.randomBytes(12).toString('hex');
@@ -98,52 +240,87 @@ runMain(async () => {
     await seedHistory(seedClient, shape, passwordHash, (m) => console.log(m));
     seedSeconds = (Date.now() - seedStart) / 1000;
   }
+  // Enough fresh containers for every scan of both load phases at a generous rate.
+  const station = await seedStationFixture(seedClient, passwordHash, Math.max(20_000, 2 * 1500 * (seconds + warmupMs / 1000)), 64);
   const sizes = await seedClient.query(
     `SELECT (SELECT count(*) FROM drivers)::int AS drivers, (SELECT count(*) FROM build_batches)::int AS batches,
             (SELECT count(*) FROM step_runs)::int AS runs, (SELECT count(*) FROM step_run_materials)::int AS uses,
             (SELECT count(*) FROM test_results)::int AS tests, (SELECT count(*) FROM lots)::int AS lots,
             (SELECT count(*) FROM containers)::int AS containers, pg_size_pretty(pg_database_size(current_database())) AS size,
             (SELECT max(quantity) FROM build_batches)::int AS batch_size,
-            (SELECT count(DISTINCT created_at::date) FROM build_batches)::int AS days`,
+            (SELECT count(DISTINCT created_at::date) FROM build_batches WHERE status = 'completed')::int AS days,
+            (SELECT count(*) FROM build_batches WHERE status = 'completed')::int AS history_batches`,
   );
   await seedClient.end();
   const sz = sizes.rows[0];
-  const seeded = { batches: sz.batches as number };
+  const seeded = { batches: sz.history_batches as number };
   shape.batchSize = sz.batch_size;
   shape.days = sz.days;
   log(`${seedSeconds ? `seeded in ${seedSeconds.toFixed(1)} s` : 'history'}: ${sz.drivers} drivers, ${sz.batches} batches, ${sz.runs} step runs, ${sz.uses} material uses, ${sz.tests} final tests, ${sz.lots} lots, ${sz.containers} containers (${sz.size})`);
 
-  // ---------------------------------------------------------------- the real app
-  const port = await freePort();
-  // As scripts/start.ts runs it: `node --import tsx`, one process in its own group.
-  const app = spawn(process.execPath, ['--import', 'tsx', path.join('server', 'index.ts')], {
-    cwd: root,
-    stdio: CHILD_STDIO,
-    detached: true,
-    env: {
-      ...process.env,
-      DATABASE_URL: url,
-      PORT: String(port),
-      TACKLOG_SERVE_CLIENT: '0',
-      TACKLOG_WATCH_CRON: 'off',
-      TACKLOG_JWT_SECRET: crypto.randomBytes(32).toString('hex'),
-      NODE_ENV: 'production',
-    },
-  });
-  onShutdown(() => stopChild(app));
-  const base = `http://127.0.0.1:${port}`;
-  await waitForHealth(base, app);
-  const login = await fetch(`${base}/api/auth/login`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json' },
-    body: JSON.stringify({ email: 'bench-quality@tacklog.test', password }),
-  });
-  if (login.status !== 200) throw new Error(`sign-in failed: ${login.status} ${await login.text()}`);
-  const { token } = (await login.json()) as { token: string };
-  const headers = { authorization: `Bearer ${token}` };
+  // ---------------------------------------------------------------- pgbench on the same server
+  const pgbench = findPgbench();
+  const pgbName = `${dbName}_pgbench`;
+  const pgbUrl = await ensureDatabase(server, pgbName);
+  onShutdown(() => dropDatabase(server, pgbName));
+  log(`pgbench: initializing scale ${clients} (one branch per client), then TPC-B-like and select-only, ${clients} clients, ${seconds} s each`);
+  await pgbenchInit(pgbench, pgbUrl, clients);
+  const tpcb = await pgbenchRun(pgbench, pgbUrl, { clients, seconds, select: false });
+  const selectOnly = await pgbenchRun(pgbench, pgbUrl, { clients, seconds, select: true });
+  await dropDatabase(server, pgbName);
+  log(`pgbench: TPC-B-like ${tpcb.tps.toFixed(0)} tps, select-only ${selectOnly.tps.toFixed(0)} tps`);
 
-  // ---------------------------------------------------------------- the same statements, bare
-  // The services' own statements, as the same named prepared statements, on a pool of our own.
+  const jwtSecret = crypto.randomBytes(32).toString('hex');
+
+  // ---------------------------------------------------------------- load phases (scan, lookup, reading)
+  let nextContainer = 0;
+  const freshCode = () => {
+    if (nextContainer >= station.codes.length) throw new Error('the benchmark ran out of fresh containers; raise the fixture size');
+    return station.codes[nextContainer++];
+  };
+  const knownCodes = station.codes.slice(-2000);
+  const loadPhases = async (app: RunningApp, tokens: { assembler: string }) => {
+    const http = httpClient(app.base, clients);
+    const auth = { authorization: `Bearer ${tokens.assembler}` };
+    const expect = (what: string, status: number, reply: { status: number; body: string }) => {
+      if (reply.status !== status) throw new Error(`${what}: ${reply.status} ${reply.body.slice(0, 300)}`);
+    };
+    // A station scan as the station screen does it: resolve the code, then load it onto the batch.
+    const scan = async (caller: number) => {
+      const code = freshCode();
+      const resolved = await http.request('POST', '/api/scans/resolve', { code }, auth);
+      expect('resolve', 200, resolved);
+      const batchId = station.batchIds[caller % station.batchIds.length];
+      // The station screen sends each load with an Idempotency-Key (its offline queue retries with it).
+      const loaded = await http.request('POST', `/api/stations/${station.stationId}/load`, { batchId, containerCode: code }, { ...auth, 'idempotency-key': crypto.randomUUID() });
+      expect('load', 200, loaded);
+    };
+    const lookup = async () => {
+      const reply = await http.request('POST', '/api/scans/resolve', { code: knownCodes[Math.floor(Math.random() * knownCodes.length)] }, auth);
+      expect('resolve', 200, reply);
+    };
+    const reading = async (caller: number) => {
+      const reply = await http.request('POST', '/api/readings', { area: `bench hall ${caller % 4}`, at: new Date().toISOString(), tempC: 21.5, rhPct: 45 }, auth);
+      expect('reading', 201, reply);
+    };
+    try {
+      const scanRun = await withPeakRss(app.child.pid!, () => closedLoop(clients, warmupMs, seconds * 1000, scan));
+      const lookupRun = await withPeakRss(app.child.pid!, () => closedLoop(clients, warmupMs, seconds * 1000, lookup));
+      const readingRun = await closedLoop(clients, warmupMs, seconds * 1000, reading);
+      return { scan: scanRun.result, lookup: lookupRun.result, reading: readingRun, rssMb: Math.max(scanRun.peakMb, lookupRun.peakMb) };
+    } finally {
+      http.close();
+    }
+  };
+
+  // ---------------------------------------------------------------- one worker: traces, sweep, first page, load
+  log('starting the app with TACKLOG_WORKERS=1');
+  const one = await startApp(url, jwtSecret, 1);
+  const quality = await signIn(one.base, 'bench-quality@tacklog.test', password);
+  const assembler = await signIn(one.base, BENCH_ASSEMBLER, password);
+  const headers = { authorization: `Bearer ${quality}` };
+
+  // The same statements, bare: the services' own statements, as the same named prepared statements, on a pool of our own.
   process.env.DATABASE_URL = url;
   const { driverTraceQueries, DRIVER_TRACE_STATEMENTS } = await import('../server/services/trace/driver-trace');
   const { lotTraceQueries, LOT_TRACE_STATEMENTS } = await import('../server/services/trace/lot-trace');
@@ -155,13 +332,12 @@ runMain(async () => {
   const bareDriver = (serial: string) => bare(DRIVER_TRACE_STATEMENTS, driverTraceQueries(serial));
   const bareLot = (lotId: string) => bare(LOT_TRACE_STATEMENTS, lotTraceQueries(lotId));
   const apiGet = async (p: string) => {
-    const res = await fetch(`${base}${p}`, { headers });
+    const res = await fetch(`${one.base}${p}`, { headers });
     const text = await res.text();
     if (res.status !== 200) throw new Error(`GET ${p}: ${res.status} ${text.slice(0, 200)}`);
     return text;
   };
 
-  // ---------------------------------------------------------------- samples
   const serials = Array.from({ length: driverSamples }, () =>
     benchSerial(Math.floor(rand() * seeded.batches), 1 + Math.floor(rand() * shape.batchSize)),
   );
@@ -175,20 +351,18 @@ runMain(async () => {
   const lotIds = lotNumbers.map((n) => lotIdBySupplierLot.get(benchSupplierLot('CA', n))!);
 
   // Sanity: the traces say what the seed built.
-  const one = JSON.parse(await apiGet(`/api/lots/${lotIds[0]}/trace`)) as { drivers: unknown[]; batches: unknown[] };
+  const sample = JSON.parse(await apiGet(`/api/lots/${lotIds[0]}/trace`)) as { drivers: unknown[]; batches: unknown[] };
   const back = JSON.parse(await apiGet(`/api/drivers/${serials[0]}/trace`)) as { steps: { materials: unknown[] }[] };
-  log(`sample lot ${benchSupplierLot('CA', lotNumbers[0])} reaches ${one.drivers.length} drivers in ${one.batches.length} batches; sample driver ${serials[0]} has ${back.steps.length} step runs, ${back.steps.reduce((n, s) => n + s.materials.length, 0)} material entries`);
+  log(`sample lot ${benchSupplierLot('CA', lotNumbers[0])} reaches ${sample.drivers.length} drivers in ${sample.batches.length} batches; sample driver ${serials[0]} has ${back.steps.length} step runs, ${back.steps.reduce((n, s) => n + s.materials.length, 0)} material entries`);
 
-  // ---------------------------------------------------------------- warm-up, then measure
-  log('warming up');
+  log('traces: warming up');
   const warmSerials = serials.slice(0, 20);
   const warmLots = lotIds.slice(0, 5);
   await timeEach(warmSerials, (s) => apiGet(`/api/drivers/${s}/trace`));
   await timeEach(warmSerials, bareDriver);
   await timeEach(warmLots, (id) => apiGet(`/api/lots/${id}/trace`));
   await timeEach(warmLots, bareLot);
-
-  log(`measuring ${serials.length} backward and ${lotIds.length} forward traces`);
+  log(`traces: measuring ${serials.length} backward and ${lotIds.length} forward traces, one at a time`);
   const driverApi = await timeEach(serials, (s) => apiGet(`/api/drivers/${s}/trace`));
   const driverSql = await timeEach(serials, bareDriver);
   let reached = 0;
@@ -196,29 +370,109 @@ runMain(async () => {
     reached += (JSON.parse(await apiGet(`/api/lots/${id}/trace`)) as { drivers: unknown[] }).drivers.length;
   });
   const lotSql = await timeEach(lotIds, bareLot);
-  // The floor under any signed-in request (HTTP, session check, JSON): GET /api/auth/me.
   const floor = summary(await timeEach(serials, () => apiGet('/api/auth/me')));
 
-  console.log('');
-  console.log(`Tacklog trace benchmark — ${sz.drivers.toLocaleString('en')} drivers over ${shape.days} days${seedSeconds ? `, seeded in ${seedSeconds.toFixed(1)} s` : ' (database reused)'};`);
-  console.log(`forward traces reached ${Math.round(reached / lotIds.length).toLocaleString('en')} drivers per lot on average.`);
-  console.log('');
+  log('compliance sweep: three full sweeps (the first raises the history\'s alerts)');
+  const sweeps = await timeEach([1, 2, 3], async () => {
+    const res = await fetch(`${one.base}/api/compliance/run`, { method: 'POST', headers });
+    if (res.status !== 200) throw new Error(`compliance run: ${res.status} ${await res.text()}`);
+    const r = (await res.json()) as { ran: boolean };
+    if (!r.ran) throw new Error('the compliance sweep did not run (its lock was taken)');
+  });
+
+  log('first page: a fresh Chromium opens /');
+  const firstPage = await measureFirstPage(one.base);
+
+  log(`load at ${clients} clients, TACKLOG_WORKERS=1: station scans, scan lookups, readings (${seconds} s each after ${warmupMs / 1000} s warm-up)`);
+  const at1 = await loadPhases(one, { assembler });
+  await one.stop();
+
+  let atN: typeof at1 | null = null;
+  if (nWorkers > 1) {
+    log(`starting the app with TACKLOG_WORKERS=${nWorkers}`);
+    const many = await startApp(url, jwtSecret, nWorkers);
+    log(`load at ${clients} clients, TACKLOG_WORKERS=${nWorkers}`);
+    atN = await loadPhases(many, { assembler });
+    await many.stop();
+  }
+
+  // ---------------------------------------------------------------- report
   const d = { api: summary(driverApi), sql: summary(driverSql) };
   const l = { api: summary(lotApi), sql: summary(lotSql) };
+  const best = atN && atN.scan.perSec > at1.scan.perSec ? { w: nWorkers, r: atN } : { w: 1, r: at1 };
+  const sweepMs = Math.max(...sweeps);
+  const result = {
+    scanPerSec: Math.round(best.r.scan.perSec),
+    scanP99Ms: +best.r.scan.p99.toFixed(1),
+    pgbenchTps: Math.round(tpcb.tps),
+    scanRatio: +(best.r.scan.perSec / tpcb.tps).toFixed(3),
+    lookupPerSec: Math.round(best.r.lookup.perSec),
+    lookupP99Ms: +best.r.lookup.p99.toFixed(1),
+    pgbenchSelectTps: Math.round(selectOnly.tps),
+    lookupRatio: +(best.r.lookup.perSec / selectOnly.tps).toFixed(3),
+    sweepMs: Math.round(sweepMs),
+    rssMb: Math.round(best.r.rssMb),
+    initialRouteGzipKb: +firstPage.gzipKb.toFixed(1),
+    driverTraceP95Ms: +d.api.p95.toFixed(1),
+    driverTraceRatio: +(d.api.p95 / d.sql.p95).toFixed(2),
+    lotTraceP95Ms: +l.api.p95.toFixed(1),
+    lotTraceRatio: +(l.api.p95 / l.sql.p95).toFixed(2),
+    workers: best.w,
+  };
+
+  console.log('');
+  console.log(`Tacklog benchmark${quick ? ' (--quick)' : ''} — ${sz.drivers.toLocaleString('en')} drivers over ${shape.days} days${seedSeconds ? `, seeded in ${seedSeconds.toFixed(1)} s` : ' (database reused)'};`);
+  console.log(`${os.cpus().length} × ${os.cpus()[0]?.model.trim() ?? 'CPU'}, ${(os.totalmem() / 2 ** 30).toFixed(0)} GiB, Node ${process.version}; load: ${clients} clients over loopback, ${seconds} s per phase.`);
+  console.log('');
+  const rows: string[][] = [['path', 'workers', 'per s', 'p50', 'p99', 'pgbench on the same server', 'ratio']];
+  const loadRow = (label: string, w: number, r: LoadResult, base?: { name: string; tps: number }) =>
+    rows.push([label, String(w), r.perSec.toFixed(0), `${r.p50.toFixed(1)} ms`, `${r.p99.toFixed(1)} ms`, base ? `${base.name} ${base.tps.toFixed(0)} tps` : '', base ? (r.perSec / base.tps).toFixed(3) : '']);
+  for (const [w, r] of [[1, at1], ...(atN ? [[nWorkers, atN]] : [])] as [number, typeof at1][]) {
+    loadRow('station scan (resolve + load, audited)', w, r.scan, { name: 'TPC-B-like', tps: tpcb.tps });
+    loadRow('scan lookup (POST /api/scans/resolve)', w, r.lookup, { name: 'select-only', tps: selectOnly.tps });
+    loadRow('a reading (POST /api/readings)', w, r.reading, { name: 'TPC-B-like', tps: tpcb.tps });
+  }
+  const widths = rows[0].map((_, c) => Math.max(...rows.map((r) => r[c].length)));
+  const fmt = (r: string[]) => `  ${r.map((cell, c) => (c === 0 || c === 5 ? cell.padEnd(widths[c]) : cell.padStart(widths[c]))).join('  ')}`;
+  console.log(fmt(rows[0]));
+  console.log(`  ${widths.map((w) => '-'.repeat(w)).join('  ')}`);
+  for (const r of rows.slice(1)) console.log(fmt(r));
+  for (const [w, r] of [[1, at1], ...(atN ? [[nWorkers, atN]] : [])] as [number, typeof at1][]) {
+    const errs = r.scan.errors + r.lookup.errors + r.reading.errors;
+    if (errs) console.log(`  ${errs} failed requests at ${w} worker(s); the first: ${r.scan.firstError ?? r.lookup.firstError ?? r.reading.firstError}`);
+  }
+  console.log('');
+  console.log(`  forward traces reached ${Math.round(reached / lotIds.length).toLocaleString('en')} drivers per lot on average`);
   const checks: Check[] = [
     { what: 'backward trace (driver), API p95', value: d.api.p95, limit: 50, unit: 'ms' },
     { what: 'forward trace (lot in ~5,000 drivers), API p95', value: l.api.p95, limit: 500, unit: 'ms' },
     { what: 'backward trace, API p95 / bare SQL p95', value: d.api.p95 / d.sql.p95, limit: 3, unit: '×' },
     { what: 'forward trace, API p95 / bare SQL p95', value: l.api.p95 / l.sql.p95, limit: 3, unit: '×' },
   ];
-  const met = printTable(
+  let met = printTable(
     [
       { label: 'backward: GET /api/drivers/:serial/trace', n: serials.length, api: driverApi, sql: driverSql },
       { label: 'forward:  GET /api/lots/:id/trace', n: lotIds.length, api: lotApi, sql: lotSql },
     ],
     checks,
   );
-  console.log(`  (for scale: GET /api/auth/me, the session check alone, p50 ${floor.p50.toFixed(1)} ms, p95 ${floor.p95.toFixed(1)} ms)`);
+  const more: { what: string; ok: boolean; text: string }[] = [
+    { what: `station scans per s / pgbench TPC-B-like tps (${best.w} worker${best.w > 1 ? 's' : ''})`, ok: result.scanRatio >= 0.3, text: `${result.scanRatio} (target ≥ 0.30)` },
+    { what: 'station scan p99', ok: result.scanP99Ms < 50, text: `${result.scanP99Ms} ms (target < 50 ms)` },
+    { what: 'scan lookups per s / pgbench select-only tps', ok: result.lookupRatio >= 0.1, text: `${result.lookupRatio} (target ≥ 0.10)` },
+    { what: 'scan lookup p99', ok: result.lookupP99Ms < 25, text: `${result.lookupP99Ms} ms (target < 25 ms)` },
+    { what: `full compliance sweep, slowest of 3 (${sweeps.map((s) => s.toFixed(0)).join(', ')} ms)`, ok: sweepMs < 2000, text: `${result.sweepMs} ms (target < 2,000 ms)` },
+    { what: 'server RSS under load, all processes', ok: result.rssMb < 250, text: `${result.rssMb} MB (target < 250 MB)` },
+    { what: `initial route JS + CSS, gzip (${firstPage.files} files, ${firstPage.rawKb.toFixed(0)} KB raw)`, ok: result.initialRouteGzipKb <= 350, text: `${result.initialRouteGzipKb} KB (target ≤ 350 KB)` },
+    { what: 'initial route sent compressed', ok: firstPage.sentCompressed, text: firstPage.sentCompressed ? 'yes' : 'no' },
+    { what: 'fresh page: first contentful paint', ok: firstPage.fcpMs !== null && firstPage.fcpMs < 1000, text: firstPage.fcpMs === null ? 'not reported' : `${firstPage.fcpMs.toFixed(0)} ms (target < 1,000 ms)` },
+  ];
+  for (const m of more) {
+    met &&= m.ok;
+    console.log(`  ${m.ok ? 'MET   ' : 'MISSED'}  ${m.what}: ${m.text}`);
+  }
+  console.log(`  (for scale: GET /api/auth/me, the session check alone, p50 ${floor.p50.toFixed(1)} ms, p95 ${floor.p95.toFixed(1)} ms; server log in .tmp/bench-server-*.log)`);
   console.log('');
+  console.log(JSON.stringify(result));
   return met ? 0 : 1;
 });

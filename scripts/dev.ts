@@ -23,6 +23,8 @@ runMain(async () => {
     PORT: String(port),
     TACKLOG_JWT_SECRET: jwtSecret(),
     TACKLOG_SERVE_CLIENT: '0',
+    // One process under tsx watch (a restart reloads it; no cluster to restart).
+    TACKLOG_WORKERS: process.env.TACKLOG_WORKERS || '1',
   };
   const children: ChildProcess[] = [
     spawn(process.execPath, [bin('tsx'), 'watch', '--clear-screen=false', 'server/index.ts'], { cwd: root, stdio: CHILD_STDIO, detached: true, env }),

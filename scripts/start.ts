@@ -7,6 +7,7 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { ensureDatabase, providePostgres } from './pg';
 import { buildClientIfStale, clientSourcesPresent, jwtSecret, prepareDatabase, printWelcome } from './lib/app';
+import { buildServerIfStale, serverCommand } from './lib/server-build';
 import { CHILD_STDIO, log, root, runMain, UserFacingError } from './lib/proc';
 import { supervise } from './lib/supervise';
 
@@ -22,6 +23,10 @@ runMain(async () => {
   if (serveClient) await buildClientIfStale();
   else log(clientSourcesPresent() ? 'TACKLOG_SERVE_CLIENT=0: serving the API only' : 'index.html is missing: there is no client to build; serving the API only');
 
+  // The server built to JS (esbuild), run by node itself: one process (with TACKLOG_WORKERS > 1,
+  // the primary of its workers), which gets our SIGTERM itself.
+  await buildServerIfStale();
+  const [command, args] = serverCommand();
   const env = {
     ...process.env,
     DATABASE_URL: databaseUrl,
@@ -30,8 +35,7 @@ runMain(async () => {
     TACKLOG_SERVE_CLIENT: serveClient ? '1' : '0',
   };
   return supervise({
-    // `node --import tsx` rather than the tsx CLI: one process, which gets our SIGTERM itself.
-    start: () => spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], { cwd: root, stdio: CHILD_STDIO, detached: true, env }),
+    start: () => spawn(command, args, { cwd: root, stdio: CHILD_STDIO, detached: true, env }),
     ready: (child) => waitForListening(port, child),
     onFirstReady: () => printWelcome(`http://127.0.0.1:${port}`),
   });

@@ -8,6 +8,7 @@ import { jsonBodiesOnly, sameOriginOnly } from './middleware/csrf';
 import { errorHandler, notFoundApi } from './middleware/errors';
 import { apiRouter } from './routes';
 import { serveClient } from './static';
+import { requestLogger } from './logger';
 
 export interface AppOptions {
   /** Serve the built client from dist/ (production). */
@@ -38,6 +39,7 @@ export function createApp(options: AppOptions = {}): Express {
       crossOriginEmbedderPolicy: false,
     }),
   );
+  app.use(requestLogger);
   app.use(cookieParser());
   app.use('/api', sameOriginOnly, jsonBodiesOnly, express.json({ limit: '1mb' }), attachActor, idempotency, apiRouter, notFoundApi);
 

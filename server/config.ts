@@ -3,6 +3,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { isKnownZone } from '../shared/plant-time';
 
+// server/config.ts, or the built server (.server-build/index.js): either way one folder below the root.
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
 function intFromEnv(name: string, fallback: number): number {

@@ -1,3 +1,5 @@
+import { logger } from '../logger';
+
 /**
  * Telling "the database cannot be reached" from every other failure, and keeping one line of
  * log per outage instead of one per request. A request that fails because PostgreSQL is down,
@@ -68,7 +70,7 @@ let downSince: number | null = null;
 export function noteDatabaseDown(err: unknown): void {
   if (downSince !== null) return;
   downSince = Date.now();
-  console.error(`[db] the database is unreachable: ${rootMessage(err)}; answering 503 until it is back`);
+  logger.error(`the database is unreachable: ${rootMessage(err)}; answering 503 until it is back`);
 }
 
 /** Records that a connection to the database was made; logs the end of an outage. */
@@ -76,7 +78,7 @@ export function noteDatabaseUp(): void {
   if (downSince === null) return;
   const seconds = ((Date.now() - downSince) / 1000).toFixed(1);
   downSince = null;
-  console.log(`[db] the database is reachable again (after ${seconds} s)`);
+  logger.info(`the database is reachable again (after ${seconds} s)`);
 }
 
 export function databaseDownSince(): Date | null {

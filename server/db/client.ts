@@ -2,6 +2,7 @@ import pg from 'pg';
 import { drizzle, type NodePgDatabase } from 'drizzle-orm/node-postgres';
 import * as schema from './schema';
 import { isDatabaseUnavailable, noteDatabaseDown, noteDatabaseUp } from './availability';
+import { logger } from '../logger';
 
 export type Db = NodePgDatabase<typeof schema>;
 /** A transaction handle; services take `Db | Tx` so they compose inside transactions. */
@@ -23,7 +24,7 @@ function onClientError(err: Error): void {
   // The request using the client (if any) gets the error through its query; here it is only
   // recorded. Without a listener a dead connection would be an uncaught 'error' event.
   if (isDatabaseUnavailable(err)) noteDatabaseDown(err);
-  else console.error('[db] connection error:', err.message);
+  else logger.error({ err }, 'database: connection error');
 }
 
 // An idle client lost its connection (e.g. the cluster stopped); the pool replaces it.

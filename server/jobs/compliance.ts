@@ -1,6 +1,7 @@
 import cron from 'node-cron';
 import { sweep } from '../services/compliance';
 import { isDatabaseUnavailable, noteDatabaseDown } from '../db/availability';
+import { logger } from '../logger';
 
 /**
  * Schedules the compliance watch (node-cron). Every server process schedules it; the sweep's
@@ -14,12 +15,12 @@ export function scheduleComplianceWatch(schedule: string): () => void {
     try {
       const result = await sweep();
       if (result.ran && (result.raised || result.resolved)) {
-        console.log(`[watch] raised ${result.raised}, resolved ${result.resolved}`);
+        logger.info({ job: 'watch', ...result }, `compliance watch raised ${result.raised}, resolved ${result.resolved}`);
       }
     } catch (err) {
       // The database away is logged once per outage (db/availability.ts); the next run tries again.
       if (isDatabaseUnavailable(err)) noteDatabaseDown(err);
-      else console.error('[watch] sweep failed:', err);
+      else logger.error({ job: 'watch', err }, 'compliance sweep failed');
     }
   });
   return () => void task.stop();

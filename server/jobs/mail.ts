@@ -4,6 +4,7 @@ import { startMailCatcher, type MailCatcher } from '../services/mail/catcher';
 import { catcherTransport, setMailTransport, smtpTransport, type MailTransport } from '../services/mail/transport';
 import { drainOutbox, onMailQueued } from '../services/mail/worker';
 import { queueDigests } from '../services/notifications/digest';
+import { logger } from '../logger';
 
 /** The digest time "HH:MM" as a daily cron expression ("30 6 * * *"); throws on a bad value. */
 export function digestCron(time: string): string {
@@ -46,10 +47,10 @@ export function startOutboxWorker(pollMs = 5000): () => void {
       .then(
         (r) => {
           if (r.sent || r.failed || r.retried || r.recovered) {
-            console.log(`[mail] sent ${r.sent}, retry later ${r.retried}, failed ${r.failed}, found delivered ${r.recovered}`);
+            logger.info({ job: 'mail', ...r }, `sent ${r.sent}, retry later ${r.retried}, failed ${r.failed}, found delivered ${r.recovered}`);
           }
         },
-        (err: unknown) => console.error('[mail] outbox round failed:', err),
+        (err: unknown) => logger.error({ job: 'mail', err }, 'outbox round failed'),
       )
       .finally(() => {
         running = null;
@@ -80,8 +81,8 @@ export function scheduleDigest(time = config.mail.digestTime, after: Promise<unk
   const expression = digestCron(time);
   const run = (why: string) =>
     queueDigests().then(
-      (r) => r.queued && console.log(`[mail] ${why}: queued ${r.queued} digest(s) for ${r.plantDate}`),
-      (err: unknown) => console.error('[mail] digest failed:', err),
+      (r) => r.queued && logger.info({ job: 'digest' }, `${why}: queued ${r.queued} digest(s) for ${r.plantDate}`),
+      (err: unknown) => logger.error({ job: 'digest', err }, 'digest failed'),
     );
   const task = cron.schedule(expression, () => void run('daily digest'), { timezone: config.plantZone });
   const [hh, mm] = time.split(':').map(Number);

@@ -133,7 +133,7 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, next) => {
   const fromPg = err instanceof AppError ? null : appErrorFromPg(err);
   if (fromPg) {
     // The schemas should have caught a value the database refuses: log it to tighten them.
-    if (fromPg.code === 'VALIDATION_FAILED') console.warn(`[error] ${req.method} ${req.originalUrl}: the database refused a value:`, (err as Error).message);
+    if (fromPg.code === 'VALIDATION_FAILED') req.log.warn({ err }, `${req.method} ${req.originalUrl}: the database refused a value`);
     err = fromPg;
   }
   if (err instanceof AppError) {
@@ -164,6 +164,7 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, next) => {
     sendError(res, 'DB_UNAVAILABLE', e503.message);
     return;
   }
-  console.error(`[error] ${req.method} ${req.originalUrl}:`, err);
+  // pino-http's child logger carries the request id; the response names the same id (X-Request-Id).
+  req.log.error({ err }, `${req.method} ${req.originalUrl} failed`);
   sendError(res, 'INTERNAL', 'Something went wrong on the server; it has been logged.');
 };

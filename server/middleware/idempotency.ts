@@ -12,6 +12,7 @@
  */
 import crypto from 'node:crypto';
 import type { Request, RequestHandler, Response } from 'express';
+import { logger } from '../logger';
 import { AppError } from '../errors';
 import { isDatabaseUnavailable } from '../db/availability';
 import { claimKey, pruneKeys, releaseKey, storeResponse } from '../services/idempotency';
@@ -28,7 +29,7 @@ function pruneNowAndThen(): void {
   lastPrune = now;
   pruneKeys(new Date(now - KEEP_MS)).then(
       () => undefined,
-      (err: unknown) => console.error('[idempotency] pruning old keys failed:', err),
+      (err: unknown) => logger.error({ err }, 'pruning old idempotency keys failed'),
     );
 }
 
@@ -92,7 +93,7 @@ function captureResponse(res: Response, actorId: string, key: string): void {
       () => end(...args),
       (err: unknown) => {
         if (res.statusCode >= 500 && isDatabaseUnavailable(err)) releaseWhenBack(actorId, key);
-        else console.error('[idempotency] could not store the response:', err);
+        else (res.req?.log ?? logger).error({ err }, 'could not store the idempotent response');
         end(...args);
       },
     );

@@ -1,6 +1,7 @@
 import { sql } from 'drizzle-orm';
 import { db } from '../db/client';
 import { isDatabaseUnavailable, noteDatabaseDown } from '../db/availability';
+import { logger } from '../logger';
 
 /** Whether PostgreSQL answers a query now (an unreachable database is logged once per outage). */
 export async function checkDatabase(): Promise<boolean> {
@@ -9,7 +10,7 @@ export async function checkDatabase(): Promise<boolean> {
     return true;
   } catch (err) {
     if (isDatabaseUnavailable(err)) noteDatabaseDown(err);
-    else console.error('[health] database check failed:', (err as Error).message);
+    else logger.error({ err }, 'health: database check failed');
     return false;
   }
 }

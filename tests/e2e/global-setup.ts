@@ -100,6 +100,8 @@ export default async function setup(project: TestProject) {
       HOST: '127.0.0.1',
       TACKLOG_WATCH_CRON: 'off',
       TACKLOG_SERVE_CLIENT: '1',
+      // One server process in tests (TACKLOG_WORKERS defaults to one per core).
+      TACKLOG_WORKERS: '1',
       // Every browser test signs in; the production limit would throttle the suite.
       TACKLOG_LOGIN_RATE_LIMIT: '1000',
       // A plant zone other than this machine's (UTC) and the browsers', so a page that formats a

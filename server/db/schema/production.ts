@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { boolean, check, index, integer, jsonb, numeric, pgTable, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
+import { boolean, check, index, integer, jsonb, numeric, pgTable, pgView, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
 import { batchStatusEnum, driverStatusEnum, stepRunKindEnum, testResultEnum } from './enums';
 import { driverModels, recipeSteps, stations, defectCodes } from './catalogue';
 import { containers, mixes } from './inventory';
@@ -128,6 +128,9 @@ export const stationLoads = pgTable(
       .where(sql`${t.unloadedAt} IS NULL AND ${t.containerId} IS NOT NULL`),
     uniqueIndex('station_loads_active_mix_uq').on(t.stationId, t.batchId, t.mixId)
       .where(sql`${t.unloadedAt} IS NULL AND ${t.mixId} IS NOT NULL`),
+    // "Is this container (mix) loaded now?": one index entry per open load, whatever the history.
+    index('station_loads_open_container_idx').on(t.containerId).where(sql`${t.unloadedAt} IS NULL`),
+    index('station_loads_open_mix_idx').on(t.mixId).where(sql`${t.unloadedAt} IS NULL`),
     check('station_loads_one_ck', sql`(${t.containerId} IS NULL) <> (${t.mixId} IS NULL)`),
   ],
 );
@@ -168,3 +171,34 @@ export const readings = pgTable(
     check('readings_rh_ck', sql`${t.rhPct} IS NULL OR ${t.rhPct} BETWEEN 0 AND 100`),
   ],
 );
+
+/**
+ * The genealogy walk (view made by the hand-written migration genealogy_material_uses): every
+ * container a step run used, directly (mix columns null) or as the resin or hardener of a mix.
+ * One row per (step_run_materials row, container). `.existing()`: drizzle-kit does not manage it.
+ */
+export const materialUses = pgView('material_uses', {
+  useId: uuid('use_id').notNull(),
+  stepRunId: uuid('step_run_id').notNull(),
+  loadedAt: timestamp('loaded_at', { withTimezone: true }).notNull(),
+  quantityUsed: numeric('quantity_used', { precision: 14, scale: 3 }).notNull(),
+  containerId: uuid('container_id').notNull(),
+  mixId: uuid('mix_id'),
+  mixCode: text('mix_code'),
+  mixedAt: timestamp('mixed_at', { withTimezone: true }),
+  part: text('part').$type<'resin' | 'hardener'>(),
+  partOrd: integer('part_ord').notNull(),
+}).existing();
+
+/**
+ * Final-test outcomes counted per batch, kept by triggers on drivers and test_results
+ * (migration batch_outcomes): drivers built, drivers tested at least once, drivers that failed
+ * at least once. The lot statistics (and the compliance watch) read these few rows instead of
+ * every driver and test of a year.
+ */
+export const batchOutcomes = pgTable('batch_outcomes', {
+  batchId: uuid('batch_id').primaryKey().references(() => buildBatches.id),
+  drivers: integer('drivers').notNull().default(0),
+  tested: integer('tested').notNull().default(0),
+  failed: integer('failed').notNull().default(0),
+});

@@ -8,6 +8,7 @@ import type { LoginInput, PasswordChangeInput, User } from '../../../shared/sche
 import type { Actor } from './actor';
 import { signSessionToken, type SessionClaims } from './tokens';
 import { recordAudit } from '../audit';
+import { logger } from '../../logger';
 
 // A hash to compare against when the e-mail is unknown, so both paths take the same time.
 const DUMMY_HASH = bcrypt.hashSync('not-a-real-password', 10);
@@ -28,7 +29,7 @@ function pruneExpiredSessions(): void {
   lastPrune = Date.now();
   db.delete(sessions).where(lt(sessions.expiresAt, sql`now()`)).then(
     () => undefined,
-    (err: unknown) => console.error('[sessions] pruning expired sessions failed:', err),
+    (err: unknown) => logger.error({ err }, 'pruning expired sessions failed'),
   );
 }
 
@@ -52,24 +53,31 @@ export async function login(input: LoginInput): Promise<{ token: string; user: U
 }
 
 /**
+ * Every signed-in request runs this: one named prepared statement, so each pooled connection
+ * parses and plans it once (session by primary key joined to its user, only what an actor needs).
+ */
+const actorBySession = db
+  .select({ id: users.id, email: users.email, name: users.name, roles: users.roles })
+  .from(sessions)
+  .innerJoin(users, eq(users.id, sessions.userId))
+  .where(
+    and(
+      eq(sessions.id, sql.placeholder('sessionId')),
+      eq(sessions.userId, sql.placeholder('userId')),
+      isNull(sessions.revokedAt),
+      gt(sessions.expiresAt, sql`now()`),
+      eq(users.active, true),
+    ),
+  )
+  .limit(1)
+  .prepare('auth_actor_by_session');
+
+/**
  * The actor for a session token's claims: one indexed lookup (session by primary key joined to
  * its user). Null when the session was revoked or has expired, or the user is gone or disabled.
  */
 export async function actorForSession(claims: SessionClaims): Promise<Actor | null> {
-  const [row] = await db
-    .select({ id: users.id, email: users.email, name: users.name, roles: users.roles })
-    .from(sessions)
-    .innerJoin(users, eq(users.id, sessions.userId))
-    .where(
-      and(
-        eq(sessions.id, claims.sessionId),
-        eq(sessions.userId, claims.userId),
-        isNull(sessions.revokedAt),
-        gt(sessions.expiresAt, sql`now()`),
-        eq(users.active, true),
-      ),
-    )
-    .limit(1);
+  const [row] = await actorBySession.execute({ sessionId: claims.sessionId, userId: claims.userId });
   return row ? { ...toUser(row), sessionId: claims.sessionId } : null;
 }
 

@@ -118,12 +118,27 @@ export async function shortCures(tx: DbOrTx, now: Date): Promise<Finding[]> {
 
 /** Containers still in stock (or loaded) past their effective expiry. */
 export async function expiredInStock(tx: DbOrTx, now: Date): Promise<Finding[]> {
+  const soon = new Date(now.getTime() + 86_400_000);
   const rows = await tx
     .select({ c: containers, l: lots, m: materials })
     .from(containers)
     .innerJoin(lots, eq(lots.id, containers.lotId))
     .innerJoin(materials, eq(materials.id, lots.materialId))
-    .where(and(inArray(containers.status, ['sealed', 'open']), notInArray(lots.status, ['rejected', 'used_up']), gt(containers.remaining, '0')));
+    .where(
+      and(
+        inArray(containers.status, ['sealed', 'open']),
+        notInArray(lots.status, ['rejected', 'used_up']),
+        gt(containers.remaining, '0'),
+        // Only containers that may have expired by now: a superset (a day's margin), so the exact
+        // computation below (shared/expiry) still decides, on a handful of rows, not every one in stock.
+        sql`(${lotExpirySql(PLANT_ZONE)} <= ${soon}
+          OR (${containers.openedAt} IS NOT NULL AND ${materials.openLifeHours} IS NOT NULL
+              AND ${containers.openedAt} + make_interval(hours => ${materials.openLifeHours}) <= ${soon})
+          OR (${containers.thawedAt} IS NOT NULL AND ${materials.thawedLifeHours} IS NOT NULL
+              AND ${containers.thawedAt} + make_interval(hours => ${materials.thawedLifeHours}) <= ${soon})
+          OR (${materials.outOfStorageAllowanceHours} IS NOT NULL AND ${materials.storageClass} <> 'ambient'))`,
+      ),
+    );
   const loaded = new Set(
     (
       await tx.select({ id: stationLoads.containerId }).from(stationLoads).where(isNull(stationLoads.unloadedAt))
@@ -177,7 +192,7 @@ export async function expiringSoon(tx: DbOrTx, now: Date): Promise<Finding[]> {
  */
 export async function quarantineAdvised(tx: DbOrTx, now: Date): Promise<Finding[]> {
   // The same statistics as GET /api/lots/stats, over the lots received in the statistics window.
-  const stats = await lotStats({ days: await readSetting('lotStatsWindowDays', tx), flaggedOnly: true });
+  const stats = await lotStats({ days: await readSetting('lotStatsWindowDays', tx), flaggedOnly: true }, tx);
   const out = new Map<string, Finding>();
   for (const f of stats.items) {
     if (!f.flagged || (f.status !== 'released' && f.status !== 'on_hold')) continue;

@@ -4,11 +4,12 @@
  */
 import fs from 'node:fs';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { GHS_PICTOGRAMS, type GhsPictogram } from '../../../shared/constants';
 import { labelLayoutSchema, type LabelLayout } from '../../../shared/schemas/labels';
+import { config } from '../../config';
 
-export const LABELS_DIR = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../../labels');
+// From the repository root (config.root), so the server also finds them when built to one file.
+export const LABELS_DIR = path.join(config.root, 'labels');
 
 let layouts: LabelLayout[] | null = null;
 let pictograms: Map<GhsPictogram, string> | null = null;

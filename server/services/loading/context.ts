@@ -28,7 +28,8 @@ export async function containerByCode(tx: DbOrTx, scanned: string, field: string
     .innerJoin(lots, eq(lots.id, containers.lotId))
     .innerJoin(materials, eq(materials.id, lots.materialId))
     .where(eq(containers.code, code));
-  const [row] = lock ? await q.for('update', { of: containers }) : await q;
+  // Named: the same text every time, so each connection parses and plans it once.
+  const [row] = lock ? await q.for('update', { of: containers }).prepare('loading_container_by_code_lock').execute() : await q.prepare('loading_container_by_code').execute();
   if (!row) throw unknownCode(field, 'container', code);
   return row;
 }

@@ -1,23 +1,115 @@
-import { and, eq, inArray, isNull } from 'drizzle-orm';
+import { eq, inArray, sql } from 'drizzle-orm';
 import { db, type Tx } from '../../db/client';
-import { containers, drivers, materials, stationLoads, stepRunMaterials, stepRuns } from '../../db/schema';
-import { AppError, conflict } from '../../errors';
+import { runNamed } from '../../db/named';
+import { drivers, materials, type stationLoads } from '../../db/schema';
+import { AppError, conflict, notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
 import { requirePermission } from '../auth/actor';
-import { recordAudit } from '../audit';
-import { findStation } from '../stations';
-import { findBatch } from '../batches/read';
-import { batchProgress, checkBatchOpen } from '../batches/progress';
-import type { LoadInput, LoadResult } from '../../../shared/schemas/station-loads';
+import { checkBatchOpen } from '../batches/progress';
+import type { LoadInput, LoadResult, StationLoad } from '../../../shared/schemas/station-loads';
 import type { RecipeStep } from '../../../shared/schemas/models';
 import { containerByCode, mixByCode } from './context';
-import { checkContainerUsable, checkMixUsable, type MaterialRow } from './usability';
-import { describeLoads } from './describe';
+import { checkContainerUsable, checkMixUsable, expiryOfContainer, type MaterialRow } from './usability';
+import { containerSummary, describeLoads, materialSummary } from './describe';
 import { stationKindWords } from '../../../shared/words';
 
 const kindWords = (kind: string) => stationKindWords(kind).toLowerCase();
 
-type StationRow = Awaited<ReturnType<typeof findStation>>;
+/** What a load needs of the station. */
+interface StationRow { id: string; code: string; kind: string; active: boolean }
+type LoadRow = typeof stationLoads.$inferSelect;
+
+interface LoadContextRow {
+  station_id: string | null; station_code: string; station_kind: string; station_active: boolean;
+  batch_id: string | null; batch_code: string; batch_status: string; model_id: string;
+  steps: RecipeStep[]; done_step_ids: string[];
+}
+
+/**
+ * Station, batch and the batch's recipe with the steps already done, in one statement: a step is
+ * done when its latest whole-batch run has finished (as batchProgress reads it).
+ */
+async function loadContext(tx: Tx, stationId: string, batchId: string) {
+  const [r] = await runNamed<LoadContextRow>(tx, 'load_context', sql`
+    SELECT st.id AS station_id, st.code AS station_code, st.kind AS station_kind, st.active AS station_active,
+           b.id AS batch_id, b.code AS batch_code, b.status AS batch_status, b.model_id,
+           (SELECT coalesce(json_agg(json_build_object(
+                     'id', rs.id, 'seq', rs.seq, 'name', rs.name, 'stationKind', rs.station_kind, 'waitForCure', rs.wait_for_cure,
+                     'materials', (SELECT coalesce(json_agg(json_build_object('materialId', rsm.material_id, 'amountPerUnit', rsm.amount_per_unit::float8)), '[]')
+                                   FROM recipe_step_materials rsm WHERE rsm.step_id = rs.id)) ORDER BY rs.seq), '[]')
+              FROM recipe_steps rs WHERE rs.model_id = b.model_id) AS steps,
+           ARRAY(SELECT last.step_id FROM (
+                   SELECT DISTINCT ON (sr.step_id) sr.step_id, sr.finished_at FROM step_runs sr
+                   WHERE sr.batch_id = b.id AND sr.driver_id IS NULL ORDER BY sr.step_id, sr.started_at DESC) last
+                 WHERE last.finished_at IS NOT NULL) AS done_step_ids
+    FROM (SELECT 1) one
+    LEFT JOIN stations st ON st.id = ${stationId}
+    LEFT JOIN build_batches b ON b.id = ${batchId}`);
+  if (!r.station_id) throw notFound('The station');
+  const station: StationRow = { id: r.station_id, code: r.station_code, kind: r.station_kind, active: r.station_active };
+  if (!station.active) {
+    throw conflict('STATION_RETIRED', `Station ${station.code} is retired; nothing can be loaded there. Use an active station.`);
+  }
+  if (!r.batch_id) throw notFound('The build batch');
+  const batch = { id: r.batch_id, code: r.batch_code, status: r.batch_status, modelId: r.model_id };
+  const done = new Set(r.done_step_ids);
+  return { station, batch, steps: r.steps, pending: r.steps.filter((s) => !done.has(s.id)) };
+}
+
+interface LoadWriteRow { load: Omit<LoadRow, 'loadedAt' | 'unloadedAt'> & { loadedAt: string; unloadedAt: string | null }; inserted: boolean }
+
+/**
+ * The writes of a load in one statement: open a sealed container (with its audit), record the
+ * load unless the same thing is already loaded for this batch here (with its audit), and add it
+ * to the genealogy of a step running here for the batch. Data-modifying CTEs all run, each once.
+ */
+async function writeLoad(tx: Tx, a: {
+  actorId: string; stationId: string; stationCode: string; batchId: string; containerId: string | null; mixId: string | null;
+  openContainer: boolean; now: Date;
+}): Promise<LoadWriteRow> {
+  const now = a.now.toISOString();
+  const [row] = await runNamed<LoadWriteRow>(tx, 'load_write', sql`
+    WITH opened AS (
+      UPDATE containers SET status = 'open', opened_at = ${now}::timestamptz, updated_at = ${now}::timestamptz
+      WHERE id = ${a.containerId}::uuid AND ${a.openContainer}::boolean AND status = 'sealed'
+      RETURNING id
+    ),
+    opened_audit AS (
+      INSERT INTO audit_log (actor_id, action, entity_type, entity_id, before, after, reason)
+      SELECT ${a.actorId}::uuid, 'container.open', 'container', id::text, '{"status":"sealed","openedAt":null}'::jsonb,
+             jsonb_build_object('status', 'open', 'openedAt', ${now}::text), 'loaded at station ' || ${a.stationCode}::text
+      FROM opened
+    ),
+    existing AS (
+      SELECT * FROM station_loads
+      WHERE station_id = ${a.stationId}::uuid AND batch_id = ${a.batchId}::uuid AND unloaded_at IS NULL
+        AND (container_id = ${a.containerId}::uuid OR mix_id = ${a.mixId}::uuid)
+      LIMIT 1
+    ),
+    inserted AS (
+      INSERT INTO station_loads (station_id, batch_id, container_id, mix_id, loaded_at, loaded_by)
+      SELECT ${a.stationId}::uuid, ${a.batchId}::uuid, ${a.containerId}::uuid, ${a.mixId}::uuid, ${now}::timestamptz, ${a.actorId}::uuid
+      WHERE NOT EXISTS (SELECT 1 FROM existing)
+      RETURNING *
+    ),
+    load_audit AS (
+      INSERT INTO audit_log (actor_id, action, entity_type, entity_id, after)
+      SELECT ${a.actorId}::uuid, 'station.load', 'station_load', id::text,
+             jsonb_build_object('stationId', station_id, 'batchId', batch_id, 'containerId', container_id, 'mixId', mix_id, 'loadedAt', ${now}::text)
+      FROM inserted
+    ),
+    -- A container swapped in while a step runs here belongs to that run's genealogy too.
+    genealogy AS (
+      INSERT INTO step_run_materials (step_run_id, container_id, mix_id, loaded_at, loaded_by)
+      SELECT sr.id, i.container_id, i.mix_id, i.loaded_at, i.loaded_by
+      FROM inserted i JOIN step_runs sr ON sr.batch_id = i.batch_id AND sr.station_id = i.station_id AND sr.finished_at IS NULL
+    )
+    SELECT json_build_object('id', l.id, 'stationId', l.station_id, 'batchId', l.batch_id, 'containerId', l.container_id, 'mixId', l.mix_id,
+                             'loadedAt', l.loaded_at, 'loadedBy', l.loaded_by, 'unloadedAt', l.unloaded_at) AS load,
+           l.inserted
+    FROM (SELECT *, true AS inserted FROM inserted UNION ALL SELECT *, false FROM existing) l`);
+  return row;
+}
 
 /** The step of the batch this station would run next; WRONG_STATION when the batch has none here. */
 export function stepAtStation(station: StationRow, batchCode: string, pending: RecipeStep[]): RecipeStep {
@@ -82,83 +174,41 @@ async function checkMaterialForStep(tx: Tx, step: RecipeStep, scanned: MaterialR
  */
 export async function loadAtStation(actor: Actor, stationId: string, input: LoadInput, now: Date = new Date()): Promise<LoadResult> {
   requirePermission(actor, 'stations.load');
+  // Round trips: BEGIN, the context, the container (locked) or mix, the writes, COMMIT.
   return db.transaction(async (tx) => {
-    const station = await findStation(tx, stationId);
-    if (!station.active) {
-      throw conflict('STATION_RETIRED', `Station ${station.code} is retired; nothing can be loaded there. Use an active station.`);
-    }
-    const { row: batch } = await findBatch(tx, input.batchId);
+    const { station, batch, steps, pending } = await loadContext(tx, stationId, input.batchId);
     checkBatchOpen(batch, Boolean(input.serial));
-    const progress = await batchProgress(tx, batch);
     const step = input.serial
-      ? await reworkStep(tx, station, batch, progress.steps, input.serial, input.stepId)
-      : stepAtStation(station, batch.code, progress.pending);
+      ? await reworkStep(tx, station, batch, steps, input.serial, input.stepId)
+      : stepAtStation(station, batch.code, pending);
 
-    let containerId: string | null = null;
-    let mixId: string | null = null;
+    let described: StationLoad | null = null;
     let opened = false;
+    let written: LoadWriteRow;
     if (input.containerCode) {
       const c = await containerByCode(tx, input.containerCode, 'containerCode', true);
       await checkMaterialForStep(tx, step, [c.material], `container ${c.container.code}`);
       checkContainerUsable(c.container, c.lot, c.material, now);
-      containerId = c.container.id;
-      if (c.container.status === 'sealed') {
-        // Only the load that finds it still sealed opens it (a racing load must not move openedAt).
-        const openedRows = await tx
-          .update(containers)
-          .set({ status: 'open', openedAt: now, updatedAt: now })
-          .where(and(eq(containers.id, c.container.id), eq(containers.status, 'sealed')))
-          .returning({ id: containers.id });
-        opened = openedRows.length === 1;
-      }
-      if (opened) {
-        await recordAudit(tx, {
-          actorId: actor.id,
-          action: 'container.open',
-          entityType: 'container',
-          entityId: c.container.id,
-          before: { status: 'sealed', openedAt: null },
-          after: { status: 'open', openedAt: now.toISOString() },
-          reason: `loaded at station ${station.code}`,
-        });
-      }
+      opened = c.container.status === 'sealed';
+      written = await writeLoad(tx, { actorId: actor.id, stationId: station.id, stationCode: station.code, batchId: batch.id, containerId: c.container.id, mixId: null, openContainer: opened, now });
+      // Described from what this request already holds (the container as opened just now).
+      const container = opened ? { ...c.container, status: 'open' as const, openedAt: now, updatedAt: now } : c.container;
+      const e = expiryOfContainer(container, c.lot, c.material, now);
+      const l = written.load;
+      described = {
+        id: l.id, stationId: l.stationId, batchId: l.batchId, batchCode: batch.code, loadedAt: new Date(l.loadedAt).toISOString(), loadedBy: l.loadedBy,
+        container: containerSummary(container), mix: null,
+        lot: { id: c.lot.id, supplierLot: c.lot.supplierLot, status: c.lot.status },
+        material: materialSummary(c.material), partMaterial: null, partLot: null, expiresAt: e.at, expiryCause: e.cause,
+      };
     } else {
       const m = await mixByCode(tx, input.mixCode!, 'mixCode');
       await checkMaterialForStep(tx, step, [m.resin.material, m.hardener.material], `mix ${m.mix.code}`);
       checkMixUsable(m.mix, [m.resin, m.hardener], now);
-      mixId = m.mix.id;
+      written = await writeLoad(tx, { actorId: actor.id, stationId: station.id, stationCode: station.code, batchId: batch.id, containerId: null, mixId: m.mix.id, openContainer: false, now });
+      const l = written.load;
+      [described] = await describeLoads(tx, [{ ...l, loadedAt: new Date(l.loadedAt), unloadedAt: l.unloadedAt ? new Date(l.unloadedAt) : null }], now);
     }
-
-    const same = and(
-      eq(stationLoads.stationId, station.id),
-      eq(stationLoads.batchId, batch.id),
-      isNull(stationLoads.unloadedAt),
-      containerId ? eq(stationLoads.containerId, containerId) : eq(stationLoads.mixId, mixId!),
-    );
-    let [load] = await tx.select().from(stationLoads).where(same);
-    const alreadyLoaded = Boolean(load);
-    if (!load) {
-      [load] = await tx
-        .insert(stationLoads)
-        .values({ stationId: station.id, batchId: batch.id, containerId, mixId, loadedAt: now, loadedBy: actor.id })
-        .returning();
-      await recordAudit(tx, {
-        actorId: actor.id,
-        action: 'station.load',
-        entityType: 'station_load',
-        entityId: load.id,
-        after: { stationId: station.id, batchId: batch.id, containerId, mixId, loadedAt: now.toISOString() },
-      });
-      // A container swapped in while a step runs here belongs to that run's genealogy too.
-      const running = await tx
-        .select({ id: stepRuns.id })
-        .from(stepRuns)
-        .where(and(eq(stepRuns.batchId, batch.id), eq(stepRuns.stationId, station.id), isNull(stepRuns.finishedAt)));
-      for (const run of running) {
-        await tx.insert(stepRunMaterials).values({ stepRunId: run.id, containerId, mixId, loadedAt: now, loadedBy: actor.id });
-      }
-    }
-    const [described] = await describeLoads(tx, [load], now);
-    return { ...described, accepted: true as const, step: { id: step.id, seq: step.seq, name: step.name }, opened, alreadyLoaded };
+    return { ...described, accepted: true as const, step: { id: step.id, seq: step.seq, name: step.name }, opened, alreadyLoaded: !written.inserted };
   });
 }

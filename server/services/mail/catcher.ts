@@ -9,6 +9,7 @@ import { SMTPServer, type SMTPServerAddress } from 'smtp-server';
 import { simpleParser, type AddressObject } from 'mailparser';
 import { db as defaultDb, type DbOrTx } from '../../db/client';
 import { capturedEmails } from '../../db/schema';
+import { logger } from '../../logger';
 
 export interface CapturedMessage {
   id: string;
@@ -93,14 +94,14 @@ export function startMailCatcher(options: { port?: number; db?: DbOrTx; hooks?: 
         })().then(
           (id) => callback(null, `Captured as ${id}`),
           (err: unknown) => {
-            console.error('[mail] the local catcher could not store a message:', err);
+            logger.error({ err }, 'mail: the local catcher could not store a message');
             callback(smtpError('The local catcher could not store the message; try again later', 451));
           },
         );
       });
     },
   });
-  server.on('error', (err) => console.error('[mail] local catcher:', err.message));
+  server.on('error', (err) => logger.error({ err }, 'mail: local catcher error'));
   return new Promise((resolve, reject) => {
     server.once('error', reject);
     server.listen(options.port ?? 0, '127.0.0.1', () => {

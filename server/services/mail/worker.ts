@@ -17,6 +17,7 @@ import { db } from '../../db/client';
 import { outgoingEmails } from '../../db/schema';
 import { config } from '../../config';
 import { mailTransport, type MailTransport } from './transport';
+import { logger } from '../../logger';
 
 export const DEFAULT_LEASE_MS = 5 * 60_000;
 export const DEFAULT_MAX_ATTEMPTS = 8;
@@ -149,7 +150,7 @@ export async function drainOutbox(options: DrainOptions = {}): Promise<DrainResu
     } catch (err) {
       const outcome = await markFailedAttempt(row, workerId, err, now, maxAttempts);
       result[outcome] += 1;
-      console.warn(`[mail] ${outcome === 'failed' ? 'gave up on' : 'will retry'} ${row.message_id}: ${err instanceof Error ? err.message : String(err)}`);
+      logger.warn(`mail: ${outcome === 'failed' ? 'gave up on' : 'will retry'} ${row.message_id}: ${err instanceof Error ? err.message : String(err)}`);
     }
   }
   return result;

@@ -1,9 +1,10 @@
-import { and, desc, eq, gte, lte } from 'drizzle-orm';
+import crypto from 'node:crypto';
+import { and, desc, eq, gte, lte, sql } from 'drizzle-orm';
 import { db } from '../../db/client';
+import { runNamed } from '../../db/named';
 import { readings } from '../../db/schema';
 import type { Actor } from '../auth/actor';
 import { requirePermission } from '../auth/actor';
-import { recordAudit } from '../audit';
 import type { Reading, ReadingInput, ReadingQuery } from '../../../shared/schemas/readings';
 
 function toReading(r: typeof readings.$inferSelect): Reading {
@@ -19,29 +20,39 @@ function toReading(r: typeof readings.$inferSelect): Reading {
   };
 }
 
-/** POST /api/readings: one or many shop-condition readings. */
+/**
+ * POST /api/readings: one or many shop-condition readings, each with its audit row, in one
+ * statement (atomic on its own): ids and times are made here, so the answer and the audit rows
+ * are known before the insert and nothing needs reading back.
+ */
 export async function recordReadings(actor: Actor, items: ReadingInput[]): Promise<Reading[]> {
   requirePermission(actor, 'readings.record');
-  return db.transaction(async (tx) => {
-    const rows = await tx
-      .insert(readings)
-      .values(
-        items.map((r) => ({
-          area: r.area,
-          at: new Date(r.at),
-          tempC: r.tempC.toFixed(2),
-          rhPct: r.rhPct === undefined || r.rhPct === null ? null : r.rhPct.toFixed(2),
-          source: r.source ?? 'manual',
-          recordedBy: actor.id,
-        })),
-      )
-      .returning();
-    const out = rows.map(toReading);
-    for (const r of out) {
-      await recordAudit(tx, { actorId: actor.id, action: 'reading.record', entityType: 'reading', entityId: r.id, after: r });
-    }
-    return out;
-  });
+  const createdAt = new Date().toISOString();
+  const out: Reading[] = items.map((r) => ({
+    id: crypto.randomUUID(),
+    area: r.area,
+    at: new Date(r.at).toISOString(),
+    tempC: Number(r.tempC.toFixed(2)),
+    rhPct: r.rhPct === undefined || r.rhPct === null ? null : Number(r.rhPct.toFixed(2)),
+    source: r.source ?? 'manual',
+    recordedBy: actor.id,
+    createdAt,
+  }));
+  const input = JSON.stringify(out.map((r) => ({ id: r.id, area: r.area, at: r.at, temp_c: r.tempC, rh_pct: r.rhPct, source: r.source, audit_after: r })));
+  await runNamed(db, 'readings_record', sql`
+    WITH input AS (
+      SELECT * FROM json_to_recordset(${input}::json)
+        AS t(id uuid, area text, at timestamptz, temp_c numeric, rh_pct numeric, source text, audit_after jsonb)
+    ),
+    saved AS (
+      INSERT INTO readings (id, area, at, temp_c, rh_pct, source, recorded_by, created_at)
+      SELECT id, area, at, temp_c, rh_pct, source, ${actor.id}::uuid, ${createdAt}::timestamptz FROM input
+      RETURNING id
+    )
+    INSERT INTO audit_log (actor_id, action, entity_type, entity_id, after)
+    SELECT ${actor.id}::uuid, 'reading.record', 'reading', s.id::text, i.audit_after
+    FROM saved s JOIN input i ON i.id = s.id`);
+  return out;
 }
 
 /** GET /api/readings: newest first. */

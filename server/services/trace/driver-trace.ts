@@ -5,6 +5,9 @@ import type { TestRecord } from '../../../shared/schemas/tests';
 import type { DriverBatch } from '../../../shared/schemas/drivers';
 import { toTestRecord } from '../testing/records';
 import { runStatements } from './statements';
+import { walk, type MaterialUseRow } from './walk';
+
+type Nullable<T> = { [K in keyof T]: T[K] | null };
 
 /** Prefix of the prepared statements' names (the benchmark runs the same ones bare). */
 export const DRIVER_TRACE_STATEMENTS = 'trace_driver';
@@ -15,12 +18,12 @@ interface HeaderRow {
   model_id: string; model_code: string; model_name: string;
 }
 
-interface StepRow {
+/** A step run with one container it used (the walk's row; all null for a run that used nothing). */
+interface StepRow extends Nullable<Pick<MaterialUseRow, 'quantity_used' | 'mix_id' | 'mix_code' | 'mixed_at' | 'part'>> {
   step_run_id: string; step_id: string; step_name: string; seq: number; kind: 'build' | 'rework'; driver_id: string | null;
   station_id: string; station_code: string; station_name: string; started_at: Date; finished_at: Date | null;
   short_cure: boolean; deviation_id: string | null;
-  container_id: string | null; container_code: string | null; quantity_used: string | null;
-  mix_id: string | null; mix_code: string | null; mixed_at: Date | null; part: 'resin' | 'hardener' | null;
+  container_id: string | null; container_code: string | null;
   lot_id: string; supplier_lot: string; lot_status: TraceMaterial['lotStatus']; certificate_id: string | null;
   material_id: string; material_code: string; material_name: string; material_kind: TraceMaterial['materialKind'];
   supplier_id: string; supplier_name: string;
@@ -34,7 +37,7 @@ interface TestRow {
 /**
  * The three statements of a backward trace. Each starts from the serial (drivers_serial_uq), so
  * they are independent and run side by side: the driver with batch and model; every step run
- * that built it with the containers used (a mix expanded into its resin and hardener containers)
+ * that built it with the containers used (the genealogy walk: a mix as its resin and hardener containers)
  * — the batch's whole-batch runs plus runs on this driver alone (rework); its final tests.
  */
 export function driverTraceQueries(serial: string): { header: SQL; steps: SQL; tests: SQL } {
@@ -55,24 +58,20 @@ export function driverTraceQueries(serial: string): { header: SQL; steps: SQL; t
       SELECT sr.id AS step_run_id, sr.step_id, rs.name AS step_name, rs.seq, sr.kind, sr.driver_id,
              sr.station_id, st.code AS station_code, st.name AS station_name,
              sr.started_at, sr.finished_at, sr.short_cure, sr.deviation_id,
-             c.id AS container_id, c.code AS container_code, srm.quantity_used,
-             mx.id AS mix_id, mx.code AS mix_code, mx.mixed_at, part.part,
+             c.id AS container_id, c.code AS container_code, mu.quantity_used,
+             mu.mix_id, mu.mix_code, mu.mixed_at, mu.part,
              l.id AS lot_id, l.supplier_lot, l.status AS lot_status, l.certificate_id,
              mat.id AS material_id, mat.code AS material_code, mat.name AS material_name, mat.kind AS material_kind,
              sup.id AS supplier_id, sup.name AS supplier_name
       FROM runs sr
       JOIN recipe_steps rs ON rs.id = sr.step_id
       JOIN stations st ON st.id = sr.station_id
-      LEFT JOIN step_run_materials srm ON srm.step_run_id = sr.id
-      LEFT JOIN mixes mx ON mx.id = srm.mix_id
-      LEFT JOIN LATERAL (
-        VALUES (srm.container_id, NULL::text, 0), (mx.resin_container_id, 'resin', 1), (mx.hardener_container_id, 'hardener', 2)
-      ) AS part(container_id, part, ord) ON part.container_id IS NOT NULL
-      LEFT JOIN containers c ON c.id = part.container_id
+      LEFT JOIN ${walk} mu ON mu.step_run_id = sr.id
+      LEFT JOIN containers c ON c.id = mu.container_id
       LEFT JOIN lots l ON l.id = c.lot_id
       LEFT JOIN materials mat ON mat.id = l.material_id
       LEFT JOIN suppliers sup ON sup.id = l.supplier_id
-      ORDER BY sr.kind = 'rework', sr.started_at, rs.seq, sr.id, srm.loaded_at, srm.id, part.ord`,
+      ORDER BY sr.kind = 'rework', sr.started_at, rs.seq, sr.id, mu.loaded_at, mu.use_id, mu.part_ord`,
     tests: sql`
       SELECT t.id, t.driver_id, t.result, t.defect_code, dc.description AS defect_description, t.measurements,
              t.tested_at, t.tested_by, u.name AS tested_by_name

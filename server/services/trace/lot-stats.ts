@@ -1,9 +1,10 @@
 import { sql } from 'drizzle-orm';
-import { db } from '../../db/client';
+import { db, type DbOrTx } from '../../db/client';
 import { readSetting } from '../settings';
 import { plantBaseline } from '../quality/baseline';
 import { flagLots } from '../../../shared/stats';
 import type { LotStat, LotStats, LotStatsQuery } from '../../../shared/schemas/trace';
+import { lotUses } from './walk';
 
 interface Row {
   lot_id: string; supplier_lot: string; status: LotStat['status']; received_at: Date;
@@ -15,12 +16,13 @@ interface Row {
  * GET /api/lots/stats — per lot: drivers built with it, how many were tested and failed, and
  * whether that is unlikely under the plant's baseline failure rate (shared/stats flagLots:
  * exact binomial test with Benjamini–Hochberg over the lots listed, or above the p-chart limit).
- * Counted per batch first, so each driver is read once per batch, not once per lot.
+ * Counted per batch (the batch_outcomes table, kept by triggers), so no driver or test row is read.
+ * `tx`: the caller's transaction (the compliance watch runs it inside its locked sweep).
  */
-export async function lotStats(query: LotStatsQuery): Promise<LotStats> {
-  const baseline = (await plantBaseline()).rate;
-  const fdr = await readSetting('falseDiscoveryRate');
-  const res = await db.execute(sql`
+export async function lotStats(query: LotStatsQuery, tx: DbOrTx = db): Promise<LotStats> {
+  const baseline = (await plantBaseline(tx)).rate;
+  const fdr = await readSetting('falseDiscoveryRate', tx);
+  const res = await tx.execute(sql`
     WITH l AS (
       SELECT l.id, l.supplier_lot, l.status, l.received_at, m.id AS material_id, m.code AS material_code, m.name AS material_name
       FROM lots l JOIN materials m ON m.id = l.material_id
@@ -28,31 +30,20 @@ export async function lotStats(query: LotStatsQuery): Promise<LotStats> {
         ${query.materialId ? sql`AND l.material_id = ${query.materialId}` : sql``}
     ),
     lot_batches AS (
-      SELECT DISTINCT l.id AS lot_id, sr.batch_id
-      FROM l JOIN containers c ON c.lot_id = l.id
-      JOIN LATERAL (
-        SELECT srm.step_run_id FROM step_run_materials srm WHERE srm.container_id = c.id
-        UNION ALL
-        SELECT srm.step_run_id FROM mixes mx JOIN step_run_materials srm ON srm.mix_id = mx.id
-          WHERE mx.resin_container_id = c.id OR mx.hardener_container_id = c.id
-      ) u ON true
+      SELECT DISTINCT u.lot_id, sr.batch_id
+      FROM (${lotUses(sql`c.lot_id IN (SELECT id FROM l)`)}) u
       JOIN step_runs sr ON sr.id = u.step_run_id AND sr.driver_id IS NULL AND sr.kind = 'build'
     ),
-    batch_outcomes AS (
-      SELECT d.batch_id, count(*)::int AS built, count(t.driver_id)::int AS tested, count(*) FILTER (WHERE t.failed)::int AS failures
-      FROM drivers d
-      LEFT JOIN LATERAL (
-        SELECT t.driver_id, bool_or(t.result = 'fail') AS failed FROM test_results t WHERE t.driver_id = d.id GROUP BY t.driver_id
-      ) t ON true
-      -- = ANY(ARRAY(…)): straight to the batch index (a plain IN may walk every driver).
-      WHERE d.batch_id = ANY(ARRAY(SELECT DISTINCT batch_id FROM lot_batches))
-      GROUP BY d.batch_id
+    -- Per batch: drivers built, tested at least once, failed at least once (kept by triggers).
+    outcomes AS (
+      SELECT bo.batch_id, bo.drivers AS built, bo.tested, bo.failed AS failures
+      FROM batch_outcomes bo WHERE bo.batch_id IN (SELECT batch_id FROM lot_batches)
     )
     SELECT l.id AS lot_id, l.supplier_lot, l.status, l.received_at, l.material_id, l.material_code, l.material_name,
            coalesce(sum(bo.built), 0)::int AS built, coalesce(sum(bo.tested), 0)::int AS tested, coalesce(sum(bo.failures), 0)::int AS failures
     FROM l
     LEFT JOIN lot_batches lb ON lb.lot_id = l.id
-    LEFT JOIN batch_outcomes bo ON bo.batch_id = lb.batch_id
+    LEFT JOIN outcomes bo ON bo.batch_id = lb.batch_id
     GROUP BY l.id, l.supplier_lot, l.status, l.received_at, l.material_id, l.material_code, l.material_name`);
   const rows = res.rows as unknown as Row[];
   const flagged = flagLots(rows.map((r) => ({ ...r, inspected: r.tested, defectives: r.failures })), baseline, fdr);

@@ -3,6 +3,7 @@ import { notFound } from '../../errors';
 import { DRIVER_STATUSES } from '../../../shared/constants';
 import type { DriverStatusCounts, LotTrace, LotUse, TraceBatch, TraceDriver, TraceLot } from '../../../shared/schemas/trace';
 import { runStatements } from './statements';
+import { lotUses, type LotUseRow } from './walk';
 
 /** Prefix of the prepared statements' names (the benchmark runs the same ones bare). */
 export const LOT_TRACE_STATEMENTS = 'trace_lot';
@@ -12,10 +13,10 @@ interface LotRow {
   material_id: string; material_code: string; material_name: string; supplier_id: string; supplier_name: string;
 }
 
-interface UseRow {
-  step_run_id: string; kind: 'build' | 'rework'; batch_id: string; driver_id: string | null; driver_serial: string | null;
+/** A step run that used the lot, with the container (and mix) it used it through: the walk's row. */
+interface UseRow extends Pick<LotUseRow, 'step_run_id' | 'container_code' | 'mix_code'> {
+  kind: 'build' | 'rework'; batch_id: string; driver_id: string | null; driver_serial: string | null;
   step_id: string; step_name: string; seq: number; station_code: string; started_at: Date; finished_at: Date | null;
-  container_code: string; mix_code: string | null;
   batch_code: string; batch_created_at: Date; model_id: string; model_code: string; model_name: string;
 }
 
@@ -33,23 +34,9 @@ export interface LotTraceData {
 
 const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
 
-/**
- * Step runs that used a container of the lot, directly or as a part of a mix. Each branch is an
- * index lookup: containers by lot, then step_run_materials by container, or mixes by resin or
- * hardener container and step_run_materials by mix.
- */
+/** Step runs that used a container of the lot, directly or as a part of a mix (the genealogy walk). */
 const lotRunsCte = (lotId: string) => sql`
-  lc AS (SELECT id, code FROM containers WHERE lot_id = ${lotId}),
-  used AS (
-    SELECT srm.step_run_id, lc.code AS container_code, NULL::text AS mix_code
-      FROM lc JOIN step_run_materials srm ON srm.container_id = lc.id
-    UNION
-    SELECT srm.step_run_id, lc.code, mx.code
-      FROM lc JOIN mixes mx ON mx.resin_container_id = lc.id JOIN step_run_materials srm ON srm.mix_id = mx.id
-    UNION
-    SELECT srm.step_run_id, lc.code, mx.code
-      FROM lc JOIN mixes mx ON mx.hardener_container_id = lc.id JOIN step_run_materials srm ON srm.mix_id = mx.id
-  )`;
+  used AS (SELECT DISTINCT u.step_run_id, u.container_code, u.mix_code FROM (${lotUses(sql`c.lot_id = ${lotId}`)}) u)`;
 
 /**
  * The three statements of a forward trace, independent of each other so they run side by side:

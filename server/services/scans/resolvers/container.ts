@@ -1,8 +1,9 @@
+import { eq, sql } from 'drizzle-orm';
 import { db } from '../../../db/client';
+import { containers, lots, materials } from '../../../db/schema';
 import { fieldError, notFound } from '../../../errors';
 import { isValidContainerCode, looksLikeContainerCode, normalizeContainerCode } from '../../../../shared/schemas/containers';
 import { toMaterial } from '../../catalogue/materials-read';
-import { loadContainerByCode } from '../../containers/load';
 import { toContainer, toLot } from '../../lots/present';
 import type { ScanResolver } from '../types';
 
@@ -29,6 +30,18 @@ export function containerCodeIn(text: string): string | null {
   return null;
 }
 
+/**
+ * The scan lookup: container, lot and material by code in one joined, named prepared statement
+ * (one round trip, parsed and planned once per pooled connection).
+ */
+const containerByCode = db
+  .select({ container: containers, lot: lots, material: materials })
+  .from(containers)
+  .innerJoin(lots, eq(lots.id, containers.lotId))
+  .innerJoin(materials, eq(materials.id, lots.materialId))
+  .where(eq(containers.code, sql.placeholder('code')))
+  .prepare('scan_container_by_code');
+
 export const containerResolver: ScanResolver = {
   type: 'container',
   async resolve({ code }) {
@@ -37,7 +50,7 @@ export const containerResolver: ScanResolver = {
     if (!isValidContainerCode(found)) {
       throw fieldError('code', 'looks like a container code but its check symbol (last character) is wrong; check for a typing mistake');
     }
-    const ctx = await loadContainerByCode(db, normalizeContainerCode(found));
+    const [ctx] = await containerByCode.execute({ code: normalizeContainerCode(found) });
     if (!ctx) throw notFound(`Container ${normalizeContainerCode(found)}`);
     return {
       type: 'container',

@@ -1,0 +1,53 @@
+/**
+ * What the station-path benchmark needs beside the history: an assembler, open batches of model
+ * BW-12 (nothing run yet, so their next step at a "moving_parts" station is "Moving parts"), and a
+ * released lot of the step's cyanoacrylate with many sealed containers under real container codes
+ * (TLC-…, with their check symbol), each loaded once during the run.
+ */
+import type pg from 'pg';
+import { CROCKFORD_ALPHABET, containerCodeFromBody } from '../../shared/schemas/containers';
+
+export const BENCH_ASSEMBLER = 'bench-assembler@tacklog.test';
+
+/** Container code number n (distinct for n < 32^8). */
+export function benchContainerCode(n: number): string {
+  let body = '';
+  let v = n + 32 ** 7; // a leading non-zero symbol
+  for (let i = 0; i < 8; i++) {
+    body = CROCKFORD_ALPHABET[v % 32] + body;
+    v = Math.floor(v / 32);
+  }
+  return containerCodeFromBody(body);
+}
+
+export interface StationFixture {
+  stationId: string;
+  batchIds: string[];
+  codes: string[];
+}
+
+export async function seedStationFixture(client: pg.Client, passwordHash: string, containers: number, openBatches: number): Promise<StationFixture> {
+  const md5id = (t: string) => `overlay(overlay(md5('${t}') placing '4' from 13) placing '8' from 17)::uuid`;
+  await client.query(`INSERT INTO users (email, name, password_hash, roles) VALUES ($1, 'Bench assembler', $2, '{assembler}')
+    ON CONFLICT DO NOTHING`, [BENCH_ASSEMBLER, passwordHash]);
+  await client.query(`UPDATE users SET password_hash = $1 WHERE email = $2`, [passwordHash, BENCH_ASSEMBLER]);
+  const station = (await client.query<{ id: string }>(`SELECT ${md5id('st-2')} AS id`)).rows[0].id;
+  const lot = await client.query<{ id: string }>(`
+    INSERT INTO lots (material_id, supplier_id, supplier_lot, status, received_at)
+    VALUES (${md5id('mat-CA')}, ${md5id('sup-1')}, 'CA-SCAN-' || to_char(now(), 'YYYYMMDDHH24MISS'), 'released', now() - interval '2 days')
+    RETURNING id`);
+  const codes = Array.from({ length: containers }, (_, i) => benchContainerCode(Date.now() % 1_000_000 * 1000 + i));
+  await client.query(
+    `INSERT INTO containers (code, lot_id, seq, quantity, remaining, status)
+     SELECT c, $1, n, 1000, 1000, 'sealed' FROM unnest($2::text[]) WITH ORDINALITY AS t(c, n)`,
+    [lot.rows[0].id, codes],
+  );
+  const batches = await client.query<{ id: string }>(
+    `INSERT INTO build_batches (code, model_id, quantity, status)
+     SELECT 'BSCAN-' || to_char(now(), 'HH24MISS') || '-' || lpad(i::text, 3, '0'), ${md5id('model-0')}, 200, 'open'
+     FROM generate_series(1, $1::int) i RETURNING id`,
+    [openBatches],
+  );
+  await client.query('ANALYZE containers, build_batches, lots');
+  return { stationId: station, batchIds: batches.rows.map((r) => r.id), codes };
+}
