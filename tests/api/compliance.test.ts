@@ -6,7 +6,7 @@ import { db } from '../../server/db/client';
 import { alerts, containers, defectCodes, lots, materials, stepRuns, testResults, outgoingEmails } from '../../server/db/schema';
 import { sweep } from '../../server/services/compliance';
 import { api, startApp, type TestApp } from '../helpers/api';
-import { ensureUser, testDatabaseUrl, type TestUser } from '../helpers/db';
+import { ensureUser, pinBaseline, testDatabaseUrl, type TestUser } from '../helpers/db';
 import {
   createBatch, createLot, createMaterial, createMix, createModel, createStation, createStationLoad, createStepRun, createTwoPart,
   daysAgo, hoursAgo, minutesAgo, ymd,
@@ -23,7 +23,9 @@ describe('compliance watch', () => {
   let quality: TestUser, purchasing: TestUser, receiving: TestUser, admin: TestUser;
   const ids: Record<string, string> = {};
 
+  let unpinBaseline: () => Promise<void> = async () => undefined;
   beforeAll(async () => {
+    unpinBaseline = await pinBaseline(0.01); // the plant default; see pinBaseline
     app = await startApp();
     quality = await ensureUser(['quality']);
     purchasing = await ensureUser(['purchasing']);
@@ -77,7 +79,10 @@ describe('compliance watch', () => {
     await db.update(lots).set({ certificateExpiresOn: ymd(daysAgo(1)) }).where(eq(lots.id, certLot.id));
     ids.certLot = certLot.id;
   });
-  afterAll(() => app.close());
+  afterAll(async () => {
+    await unpinBaseline();
+    await app.close();
+  });
 
   it('refuses a run without a session (401) and for a role that may not run it (403)', async () => {
     expect((await api(app.baseUrl).post('/api/compliance/run')).status).toBe(401);

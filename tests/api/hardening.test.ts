@@ -46,7 +46,7 @@ describe('cross-site requests and form posts (CSRF)', () => {
 
   it('refuses a cookie-signed change from a page on another port of the same host (Origin, Sec-Fetch-Site) and changes nothing', async () => {
     const c = await openContainer();
-    const cookie = cookieOf(clerk.token);
+    const cookie = cookieOf(assembler.token);
     // What a page on http://127.0.0.1:<other port> auto-submitting a form sends.
     const form = await api(app.baseUrl).post(`/api/containers/${c.id}/empty`, undefined, {
       raw: 'x=1',
@@ -64,17 +64,17 @@ describe('cross-site requests and form posts (CSRF)', () => {
   it('refuses a body that is not JSON with 415 (text/plain, urlencoded), even without Origin headers', async () => {
     const c = await openContainer();
     for (const type of ['text/plain', 'application/x-www-form-urlencoded']) {
-      const res = await api(app.baseUrl).post(`/api/containers/${c.id}/empty`, undefined, { raw: 'a=b', headers: { cookie: cookieOf(clerk.token), 'content-type': type } });
+      const res = await api(app.baseUrl).post(`/api/containers/${c.id}/empty`, undefined, { raw: 'a=b', headers: { cookie: cookieOf(assembler.token), 'content-type': type } });
       // RFC 9110 §15.5.16: 415 Unsupported Media Type.
       expect(res.status, type).toBe(415);
       expect(errorBodySchema.parse(res.body).error.code).toBe('UNSUPPORTED_MEDIA_TYPE');
     }
-    const bearer = await as(clerk).post(`/api/containers/${c.id}/empty`, undefined, { raw: 'a=b', headers: { 'content-type': 'text/plain' } });
+    const bearer = await as(assembler).post(`/api/containers/${c.id}/empty`, undefined, { raw: 'a=b', headers: { 'content-type': 'text/plain' } });
     expect(bearer.status).toBe(415);
     // Multipart goes only to upload routes.
     const form = new FormData();
     form.append('x', '1');
-    const multipart = await fetch(`${app.baseUrl}/api/containers/${c.id}/empty`, { method: 'POST', body: form, headers: { authorization: `Bearer ${clerk.token}` } });
+    const multipart = await fetch(`${app.baseUrl}/api/containers/${c.id}/empty`, { method: 'POST', body: form, headers: { authorization: `Bearer ${assembler.token}` } });
     expect(multipart.status).toBe(415);
     expect(await containerStatus(c.id)).toBe('open');
   });
@@ -82,14 +82,14 @@ describe('cross-site requests and form posts (CSRF)', () => {
   it('accepts the app\'s own page (same-origin), a body-less POST without Content-Type, and scripts with a bearer token from anywhere', async () => {
     const c = await openContainer();
     const own = await api(app.baseUrl).post(`/api/containers/${c.id}/location`, { location: 'Shelf B2' }, {
-      headers: { cookie: cookieOf(clerk.token), origin: app.baseUrl, 'sec-fetch-site': 'same-origin' },
+      headers: { cookie: cookieOf(assembler.token), origin: app.baseUrl, 'sec-fetch-site': 'same-origin' },
     });
     expect(own.status).toBe(200);
-    const bodiless = await api(app.baseUrl).post(`/api/containers/${c.id}/empty`, undefined, { headers: { cookie: cookieOf(clerk.token), 'sec-fetch-site': 'same-origin' } });
+    const bodiless = await api(app.baseUrl).post(`/api/containers/${c.id}/empty`, undefined, { headers: { cookie: cookieOf(assembler.token), 'sec-fetch-site': 'same-origin' } });
     expect(bodiless.status).toBe(200);
     expect(await containerStatus(c.id)).toBe('empty');
     const c2 = await openContainer();
-    const script = await as(clerk).post(`/api/containers/${c2.id}/empty`, undefined, { headers: { origin: 'http://elsewhere.test' } });
+    const script = await as(assembler).post(`/api/containers/${c2.id}/empty`, undefined, { headers: { origin: 'http://elsewhere.test' } });
     expect(script.status).toBe(200);
   });
 });

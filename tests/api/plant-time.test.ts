@@ -9,7 +9,7 @@ import { alertSchema, alertListSchema } from '../../shared/schemas/alerts';
 import { lotHistorySchema } from '../../shared/schemas/lots';
 import { formatDateTime } from '../../shared/plant-time';
 import { api, startApp, type TestApp } from '../helpers/api';
-import { ensureUser, type TestUser } from '../helpers/db';
+import { ensureUser, pinBaseline, type TestUser } from '../helpers/db';
 import { createBatch, createLot, createMaterial, createModel, createStation, createStepRun, hoursAgo } from '../helpers/fixtures';
 import { newMaterial, newSupplier, pdfBytes, receive, upload } from '../helpers/receiving';
 
@@ -24,7 +24,9 @@ const ids: Record<string, string> = {};
 let cureCompleteAt: Date;
 let shortStartedAt: Date;
 
+let unpinBaseline: () => Promise<void> = async () => undefined;
 beforeAll(async () => {
+  unpinBaseline = await pinBaseline(0.01); // the plant default; see pinBaseline
   app = await startApp();
   quality = await ensureUser(['quality']);
   admin = await ensureUser(['admin']);
@@ -55,7 +57,10 @@ beforeAll(async () => {
   ids.material = cone.id;
   await sweep();
 });
-afterAll(() => app.close());
+afterAll(async () => {
+  await unpinBaseline();
+  await app.close();
+});
 
 describe('GET /api/config', () => {
   it('tells anyone the plant zone and name, so the sign-in page already shows plant time', async () => {

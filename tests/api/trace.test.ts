@@ -5,7 +5,7 @@ import { csvField, toCsv } from '../../server/services/trace';
 import type { Role } from '../../shared/constants';
 import { driverTraceSchema, lotStatsSchema, lotTraceSchema, CONTAINMENT_CSV_COLUMNS, type DriverTrace } from '../../shared/schemas/trace';
 import { startApp, type TestApp } from '../helpers/api';
-import { ensureUser } from '../helpers/db';
+import { ensureUser, pinBaseline } from '../helpers/db';
 import { buildTraceScenario, type TraceScenario } from '../helpers/trace-scenario';
 
 let app: TestApp;
@@ -17,13 +17,18 @@ const get = (path: string, token?: string) =>
 let s: TraceScenario;
 let quality: string;
 
+let unpinBaseline: () => Promise<void> = async () => undefined;
 beforeAll(async () => {
+  unpinBaseline = await pinBaseline(0.01); // the plant default; see pinBaseline
   app = await startApp();
   s = await buildTraceScenario();
   quality = await tokenFor('quality');
 });
 
-afterAll(() => app.close());
+afterAll(async () => {
+  await unpinBaseline();
+  await app.close();
+});
 
 async function driverTrace(serial: string): Promise<DriverTrace> {
   const res = await get(`/drivers/${encodeURIComponent(serial)}/trace`, quality);

@@ -93,10 +93,10 @@ describe('plant time', () => {
     await expect.poll(() => station1.locator('[data-test="station-code"]').innerText()).toContain(station.code);
     await wedgeScan(station1, batchCode);
     await expect.poll(() => station1.locator('[data-test="batch-code"]').innerText()).toBe(batchCode);
-    await station1.locator('[data-test="start-step"]:not([disabled])').click();
+    // The gate shows as soon as the batch is scanned (Start is disabled and says why).
     await station1.locator('[data-test="cure-block"]').waitFor();
     const stationTime = await station1.locator('[data-test="cure-complete-at"]').innerText();
-    const refusal = await station1.locator('[data-test="feedback-message"]').innerText();
+    const refusal = await station1.locator('[data-test="start-why-not"]').innerText();
     await keepScreenshot(station1, 'plant-time-station');
 
     // 2. The cure board (office).
@@ -123,7 +123,7 @@ describe('plant time', () => {
     expect(stationTime).toMatch(new RegExp(`(^|\\s)${plant.time}$`));
     expect(boardTime).toMatch(new RegExp(`(^|\\s)${plant.time}$`));
     expect(stationTime).toBe(boardTime);
-    expect(refusal).toContain(`until ${stationTime}`);
+    expect(refusal).toContain(`ready ${stationTime}, in `);
     expect(alertText).toContain(`full cure at ${plant.date} ${plant.time}`);
     for (const text of [stationTime, boardTime, refusal, alertText]) {
       expect(text).not.toMatch(/UTC|AM|PM|\d{1,2}\/\d{1,2}\/\d{4}/);

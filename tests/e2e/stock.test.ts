@@ -80,10 +80,11 @@ describe('stock page', () => {
     expect((await readFile((await outlookCsv.path())!, 'utf8')).split('\r\n')[0]).toMatch(/^Week of \(date\),Expires/);
   });
 
-  it('an assembler has no stock page: the menu hides it and the address sends them home', async () => {
+  it('an assembler has no stock page: the menu hides it and the address says so, with a way back', async () => {
     await signInAs(page, 'assembler@tacklog.test');
     expect(await page.locator('[data-test="nav-stock.overview"]').count()).toBe(0);
     await page.goto('/stock');
-    await page.locator('[data-test="home-page"]').waitFor();
+    await page.locator('[data-test="not-allowed-page"]').waitFor();
+    expect(await page.locator('[data-test="not-allowed-path"]').innerText()).toBe('/stock');
   });
 });

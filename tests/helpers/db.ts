@@ -118,3 +118,18 @@ export async function createScratchDatabase(prefix = 'scratch'): Promise<Scratch
   await admin(`CREATE DATABASE "${name}"`);
   return { name, url: url.toString(), drop: () => admin(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`) };
 }
+
+/**
+ * Pins the plant's baseline failure rate for one test file (the override quality can record), so
+ * lot statistics judge crafted lots against a known rate whatever other files' tests left in the
+ * shared database's window. Returns the undo (call it in afterAll).
+ */
+export async function pinBaseline(rate: number): Promise<() => Promise<void>> {
+  await migrateTestDatabase();
+  const value = { rate, reason: 'pinned by a test file', by: 'tests', at: new Date().toISOString() };
+  await db.execute(sql`INSERT INTO settings (key, value) VALUES ('baselineOverride', ${JSON.stringify(value)}::jsonb)
+    ON CONFLICT (key) DO UPDATE SET value = EXCLUDED.value`);
+  return async () => {
+    await db.execute(sql`DELETE FROM settings WHERE key = 'baselineOverride'`);
+  };
+}

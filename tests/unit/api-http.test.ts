@@ -236,7 +236,7 @@ describe('apiFetch while the database is unreachable (503 DB_UNAVAILABLE)', () =
 
   it('another 503 is an error at once, and an abort ends the wait', async () => {
     answer(503, { error: { code: 'MAINTENANCE', message: 'Down for maintenance.' } });
-    await expect(apiFetch('/api/lots', { schema: okSchema })).rejects.toMatchObject({ status: 503, code: 'MAINTENANCE' });
+    await expect(apiFetch('/api/lots', { schema: okSchema })).rejects.toMatchObject({ status: 503, code: 'HTTP_ERROR', serverCode: 'MAINTENANCE' });
     expect(connection.databaseDown).toBe(false);
 
     downThenUp(5);

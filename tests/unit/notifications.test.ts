@@ -9,16 +9,16 @@ describe('notification defaults by role', () => {
   it('critical kinds in the role\'s audience at once, its other kinds in the digest, the rest not at all', () => {
     expect(defaultModes(['assembler'])).toEqual({
       pot_life_exceeded: 'immediate', short_cure: 'none', expired_in_stock: 'immediate',
-      expiring_soon: 'none', quarantine_advised: 'none', below_reorder_point: 'none',
+      expiring_soon: 'none', quarantine_advised: 'none', below_reorder_point: 'none', audit_chain_broken: 'none',
     });
     expect(defaultModes(['purchasing'])).toMatchObject({ below_reorder_point: 'digest', expiring_soon: 'digest', pot_life_exceeded: 'none' });
     // Several roles: the widest default wins kind by kind.
     expect(defaultModes(['purchasing', 'quality'])).toMatchObject({ short_cure: 'immediate', below_reorder_point: 'digest', quarantine_advised: 'digest' });
   });
 
-  it('an administrator may choose every kind but gets none by default', () => {
+  it('an administrator may choose every kind but by default gets only what concerns admin (a broken audit trail, at once)', () => {
     expect(kindsFor(['admin'])).toEqual([...ALERT_KINDS]);
-    expect(Object.values(defaultModes(['admin']))).toEqual(ALERT_KINDS.map(() => 'none'));
+    expect(defaultModes(['admin'])).toEqual(Object.fromEntries(ALERT_KINDS.map((k) => [k, k === 'audit_chain_broken' ? 'immediate' : 'none'])));
   });
 
   it('choices override defaults, kind by kind', () => {

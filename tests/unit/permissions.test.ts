@@ -73,8 +73,10 @@ describe('route table against the permission map', () => {
     expect(openChanges.map((r) => `${r.method} ${r.path}`).sort()).toEqual([
       'POST /api/auth/login',
       'POST /api/auth/logout',
+      'POST /api/auth/password',
       'POST /api/cure/estimate',
       'POST /api/scans/resolve',
+      'PUT /api/me/notifications',
     ]);
   });
 });

@@ -57,7 +57,7 @@ export async function queueAlertMails(tx: Tx, alert: RaisedAlert): Promise<numbe
   const people = (await candidates(tx, alert.audience)).filter((u) => modeFor(u, alert.kind, alert.severity) === 'immediate');
   if (!people.length) return 0;
   const subject = await describeSubject(tx, alert);
-  const ctx = mailContext();
+  const ctx = await mailContext();
   let queued = 0;
   for (const person of people) {
     const mail = renderAlertMail(ctx, {
@@ -104,7 +104,7 @@ export async function queueAlertResolvedMails(
     .where(and(eq(outgoingEmails.alertId, alert.id), eq(outgoingEmails.kind, 'alert'), eq(notificationSettings.whenResolved, true), eq(users.active, true)));
   if (!people.length) return 0;
   const subject = await describeSubject(tx, alert);
-  const ctx = mailContext();
+  const ctx = await mailContext();
   let queued = 0;
   for (const person of people) {
     const mail = renderAlertResolvedMail(ctx, { kind: alert.kind, subjectWords: subject.words, resolution, resolvedAt, resolvedBy, recipientName: person.name });

@@ -1,7 +1,9 @@
 import { config } from '../../config';
 import type { MailContext } from '../mail/templates/layout';
+import { plantConfig } from '../plant';
 
-/** The plant's name, zone and Tacklog's address, for rendering e-mails. */
-export function mailContext(now: Date = new Date()): MailContext {
-  return { plantName: config.plantName, zone: config.plantZone, baseUrl: config.baseUrl, now };
+/** The plant's name (the `plant` setting, as pages show it), zone and Tacklog's address, for rendering e-mails. */
+export async function mailContext(now: Date = new Date()): Promise<MailContext> {
+  const plant = await plantConfig();
+  return { plantName: plant.plantName, zone: config.plantZone, baseUrl: config.baseUrl, now };
 }

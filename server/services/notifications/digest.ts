@@ -51,7 +51,7 @@ export async function queueDigests(now: Date = new Date()): Promise<DigestRun> {
   const recentItems = new Map<string, DigestItem>();
   let purchasing: PurchasingFigures | undefined;
   let quality: QualityFigures | undefined;
-  const ctx = mailContext(now);
+  const ctx = await mailContext(now);
   const run: DigestRun = { plantDate, queued: 0, ids: [] };
 
   for (const person of people) {
