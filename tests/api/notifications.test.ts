@@ -63,8 +63,9 @@ describe('notification settings', () => {
     const forBuyer = await api(app.baseUrl, buyer.token).get('/api/me/notifications');
     expect(forBuyer.body.kinds).toMatchObject({ below_reorder_point: 'digest', expiring_soon: 'digest', pot_life_exceeded: 'none' });
     const forAdmin = await api(app.baseUrl, admin.token).get('/api/me/notifications');
-    expect(Object.values(forAdmin.body.kinds).every((m) => m === 'none')).toBe(true);
-    expect(forAdmin.body.available).toHaveLength(6);
+    // An administrator gets only what concerns admin by default: a broken audit trail, at once.
+    expect(Object.entries(forAdmin.body.kinds).every(([k, m]) => m === (k === 'audit_chain_broken' ? 'immediate' : 'none'))).toBe(true);
+    expect(forAdmin.body.available).toHaveLength(7);
   });
 
   it('refuse bad input naming the field, and change nothing', async () => {
