@@ -69,7 +69,11 @@ describe('plant time', () => {
     const quality = await signedIn('quality@tacklog.test');
     const assembler = await signedIn('assembler@tacklog.test');
     const board = await json<{ items: CureItem[] }>(quality, '/api/cure/board');
-    const cure = board.items.find((i) => i.waitForCure && !i.ready && i.nextStep && i.serial === null);
+    // The demo cures two batches overnight; this test starts one early (a short cure), so it takes
+    // the one that cures last and leaves the other to the station layout test.
+    const cure = board.items
+      .filter((i) => i.waitForCure && !i.ready && i.nextStep && i.serial === null)
+      .sort((a, b) => Date.parse(b.cureCompleteAt) - Date.parse(a.cureCompleteAt))[0];
     expect(cure, 'a demo batch curing with its next step waiting').toBeTruthy();
     const { batchId, batchCode, nextStep } = cure!;
     const traveler = await json<{ steps: { id: string; stationKind: string }[] }>(assembler, `/api/batches/${batchId}`);

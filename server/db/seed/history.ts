@@ -395,6 +395,13 @@ export function simulateHistory(
   runStep(curing, woofer, 1, now.minus({ hours: 5, minutes: 40 }), 110);
   runStep(curing, woofer, 2, now.minus({ hours: 3, minutes: 40 }), 60);
   runStep(curing, woofer, 3, now.minus({ hours: 2, minutes: 30 }), 70);
+  // A smaller woofer batch a little behind it, its dust cap glued an hour ago.
+  const curingLater = newBatch('HB12W', 8, now.minus({ hours: 5 }));
+  curingLater.status = 'in_process';
+  runStep(curingLater, woofer, 0, now.minus({ hours: 4, minutes: 40 }), 20);
+  runStep(curingLater, woofer, 1, now.minus({ hours: 3, minutes: 50 }), 40);
+  runStep(curingLater, woofer, 2, now.minus({ hours: 2, minutes: 20 }), 25);
+  runStep(curingLater, woofer, 3, now.minus({ hours: 1, minutes: 20 }), 30);
 
   const running = newBatch('HB65F', 150, now.minus({ hours: 2 }));
   running.status = 'in_process';
