@@ -40,6 +40,8 @@ export async function startSupervised(dataDir: string, ports?: { port: number; p
     TACKLOG_SERVE_CLIENT: '0',
     TACKLOG_WATCH_CRON: 'off',
     TACKLOG_LOGIN_RATE_LIMIT: '1000',
+    // The fault tests read the server's own log lines (outage start and end, restarts).
+    TACKLOG_LOG_LEVEL: 'info',
   };
   delete env.DATABASE_URL;
   delete env.TACKLOG_JWT_SECRET;
