@@ -100,6 +100,7 @@ const EXPECTED: Record<string, Access> = {
   'POST /api/scans/resolve': 'signed-in',
   'GET /api/labels/layouts': 'signed-in',
   'GET /api/labels/render': 'labels.print',
+  'GET /api/labels/stations': 'labels.print',
   'GET /api/attachments/:id/meta': 'signed-in',
   'GET /api/attachments/:id': 'signed-in',
 
