@@ -34,6 +34,15 @@ describe('quality overview page', () => {
     expect(await page.locator('[data-test="baseline-rate-shown"]').innerText()).toMatch(/^\d+(\.\d+)? %$/);
     expect(await page.locator('[data-test="baseline-source"]').innerText()).toMatch(/(set by hand|computed from recent final tests|plant default)/);
     await keepScreenshot(page, 'quality-overview');
+
+    // A flagged lot ("quarantine advised") links to its forward trace: the drivers built with it.
+    const flagged = page.locator('[data-test="pchart-lots"] tbody tr[data-flagged="true"]');
+    if (await flagged.count()) {
+      expect(await flagged.first().innerText()).toContain('Quarantine advised');
+      await flagged.first().locator('[data-test^="containment-"]').click();
+      await page.locator('[data-test="lot-trace-page"]').waitFor();
+      expect(new URL(page.url()).pathname).toMatch(/^\/trace\/lots\/[0-9a-f-]{36}$/);
+    }
   });
 
   it('the baseline override names the field that is wrong and changes nothing until it is right', async () => {
