@@ -51,6 +51,8 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: 'alerts.list', label: 'Alerts', icon: 'notifications', group: 'oversight', permission: 'alerts.resolve' },
   { to: 'stock.overview', label: 'Stock & expiry', icon: 'event_busy', group: 'oversight', permission: 'stock.read' },
   { to: 'stock.outlook', label: 'Expiry outlook', icon: 'stacked_bar_chart', group: 'oversight', permission: 'stock.read' },
+  { to: 'quality.overview', label: 'Quality overview', icon: 'insights', group: 'oversight', permission: 'quality.overview' },
+  { to: 'audit.list', label: 'Audit trail', icon: 'policy', group: 'oversight', permission: 'audit.read' },
   { to: 'mail.box', label: 'Mailbox', icon: 'mail', group: 'oversight' },
 
   { to: 'catalogue.materials', label: 'Materials', icon: 'science', group: 'catalogue', permission: 'materials.edit' },

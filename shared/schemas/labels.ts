@@ -70,3 +70,15 @@ export const labelRenderQuerySchema = z
     if (q.lotId && q.containerIds) ctx.addIssue({ code: 'custom', path: ['containerIds'], message: 'cannot be given together with lotId' });
   });
 export type LabelRenderQuery = z.output<typeof labelRenderQuerySchema>;
+
+/**
+ * GET /api/labels/stations query: a station's code label (QR + code + name) in one of the
+ * container label layouts. `skip` as for container labels; `copies` prints the same label again.
+ */
+export const stationLabelQuerySchema = z.object({
+  layout: z.string({ error: (i) => (i.input === undefined ? 'is required' : 'must be a layout id') }).min(1, 'is required').max(60),
+  stationId: idSchema,
+  copies: z.coerce.number({ error: 'must be a number' }).int('must be a whole number').min(1, 'must be at least 1').max(100, 'must be at most 100').default(1),
+  skip: z.coerce.number({ error: 'must be a number' }).int('must be a whole number').min(0, 'must not be negative').max(500, 'is too large').default(0),
+});
+export type StationLabelQuery = z.output<typeof stationLabelQuerySchema>;

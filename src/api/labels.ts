@@ -20,3 +20,11 @@ export function labelRenderUrl(layout: string, target: LabelTarget, skip = 0): s
   if (skip > 0) params.set('skip', String(skip));
   return `/api/labels/render?${params.toString()}`;
 }
+
+/** GET /api/labels/stations: printable HTML with a station's code label (QR + code + name); the URL for a preview frame. */
+export function stationLabelUrl(layout: string, stationId: string, copies = 1, skip = 0): string {
+  const params = new URLSearchParams({ layout, stationId });
+  if (copies > 1) params.set('copies', String(copies));
+  if (skip > 0) params.set('skip', String(skip));
+  return `/api/labels/stations?${params.toString()}`;
+}

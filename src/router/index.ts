@@ -14,6 +14,7 @@ import { alertsRoutes } from './routes/alerts';
 import { actionsOf } from './meta';
 import { stockRoutes } from './routes/stock';
 import { mailRoutes } from './routes/mail';
+import { oversightRoutes } from './routes/oversight';
 import MainLayout from '@/layouts/MainLayout.vue';
 
 // ---------------------------------------------------------------------------------------------
@@ -32,6 +33,7 @@ const areaRoutes: RouteRecordRaw[] = [
   ...alertsRoutes,
   ...stockRoutes,
   ...mailRoutes,
+  ...oversightRoutes,
 ];
 
 export const routes: RouteRecordRaw[] = [

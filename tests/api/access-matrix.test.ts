@@ -120,6 +120,7 @@ const EXPECTED: Record<string, Access> = {
   'POST /api/scans/resolve': 'signed-in',
   'GET /api/labels/layouts': 'signed-in',
   'GET /api/labels/render': 'labels.print',
+  'GET /api/labels/stations': 'labels.print',
   'GET /api/attachments/:id/meta': 'signed-in',
   'GET /api/attachments/:id': 'signed-in',
 
@@ -127,6 +128,28 @@ const EXPECTED: Record<string, Access> = {
   'POST /api/alerts/:id/acknowledge': 'alerts.acknowledge',
   'POST /api/alerts/:id/resolve': 'alerts.resolve',
   'POST /api/compliance/run': 'compliance.run',
+
+  // Routes merged to main without a row here (added with the oversight pages).
+  'GET /api/config': 'public',
+  'POST /api/auth/password': 'signed-in',
+  'GET /api/users/:id/notifications': 'notifications.manageAll',
+  'PUT /api/users/:id/notifications': 'notifications.manageAll',
+  'GET /api/me/notifications': 'signed-in',
+  'PUT /api/me/notifications': 'signed-in',
+  'GET /api/mail': 'signed-in',
+  'GET /api/mail/:id': 'signed-in',
+  'POST /api/notifications/digest': 'notifications.sendDigest',
+  'POST /api/models/:id/revisions': 'recipes.edit',
+  'POST /api/models/:id/make-current': 'recipes.edit',
+  'GET /api/stock': 'stock.read',
+  'POST /api/stock/simulate': 'stock.read',
+  'GET /api/stock/outlook': 'stock.read',
+  'GET /api/stock/today': 'stock.read',
+  'GET /api/stock/materials/:id': 'stock.read',
+  'GET /api/audit': 'audit.read',
+  'POST /api/audit/verify': 'audit.verify',
+  'GET /api/quality/overview': 'quality.overview',
+  'POST /api/quality/baseline': 'quality.overrideBaseline',
 };
 
 /** Roles allowed by an access; null for public (no session needed). */

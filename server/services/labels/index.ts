@@ -1,13 +1,14 @@
 import { asc, eq, inArray, sql } from 'drizzle-orm';
 import { db } from '../../db/client';
-import { containers, lots, materials, suppliers } from '../../db/schema';
+import { containers, lots, materials, stations, suppliers } from '../../db/schema';
 import { AppError, fieldError, notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
 import { requirePermission } from '../auth/actor';
-import type { LabelLayout, LabelRenderQuery } from '../../../shared/schemas/labels';
+import type { LabelLayout, LabelRenderQuery, StationLabelQuery } from '../../../shared/schemas/labels';
+import { stationKindWords } from '../../../shared/words';
 import { PLANT_ZONE, containerExpiryOf } from '../lots/present';
 import { findLayout, labelLayouts } from './templates';
-import { renderLabelsHtml, type LabelData } from './render';
+import { renderLabelsHtml, renderStationLabelsHtml, type LabelData } from './render';
 
 export function listLabelLayouts(): { items: LabelLayout[] } {
   return { items: labelLayouts() };
@@ -65,4 +66,19 @@ export async function renderLabels(actor: Actor, query: LabelRenderQuery): Promi
     throw new AppError('NOT_FOUND', `${ids.length - data.length} of the containers asked for were not found.`, 404);
   }
   return renderLabelsHtml(layout, data, { zone: PLANT_ZONE, skip: query.skip });
+}
+
+/** GET /api/labels/stations: print-ready HTML with a station's code label (QR + code + name). */
+export async function renderStationLabels(actor: Actor, query: StationLabelQuery): Promise<string> {
+  requirePermission(actor, 'labels.print');
+  const layout = findLayout(query.layout);
+  if (!layout) throw fieldError('query.layout', `is not a known layout; use one of: ${labelLayouts().map((l) => l.id).join(', ')}`);
+  const perPage = layout.grid.cols * layout.grid.rows;
+  if (query.skip >= perPage) throw fieldError('query.skip', `must be less than the ${perPage} labels on one page`);
+  const [station] = await db.select().from(stations).where(eq(stations.id, query.stationId));
+  if (!station) throw notFound('The station');
+  const data = { code: station.code, name: station.name, kind: stationKindWords(station.kind), area: station.area };
+  return renderStationLabelsHtml(layout, Array.from({ length: query.copies }, () => data), {
+    zone: PLANT_ZONE, skip: query.skip, title: `Station ${station.code} – code label`,
+  });
 }

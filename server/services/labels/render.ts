@@ -164,3 +164,39 @@ ${hazardous ? 'The hazard pictograms and signal word come from the material cata
 ${pages.join('\n')}
 </body></html>`;
 }
+
+/** What a station code label shows: the code as QR and text, the station's name, kind and area. */
+export interface StationLabelData {
+  code: string;
+  name: string;
+  kind: string;
+  area: string;
+}
+
+async function stationLabelHtml(d: StationLabelData): Promise<string> {
+  return `<div class="label"><div class="qr">${await qrSvg(d.code)}<div class="code">${escapeHtml(d.code)}</div></div>`
+    + `<div class="text"><div class="line title">${escapeHtml(d.name)}</div><div class="line">Station ${escapeHtml(d.code)}</div>`
+    + `<div class="line">${escapeHtml(d.kind)} · ${escapeHtml(d.area)}</div></div></div>`;
+}
+
+/**
+ * Station code labels in a container label layout (same page geometry and QR size): scanning the
+ * QR gives the station's code, which the scan lookup and station mode recognise.
+ */
+export async function renderStationLabelsHtml(layout: LabelLayout, labels: StationLabelData[], options: RenderOptions): Promise<string> {
+  const perPage = layout.grid.cols * layout.grid.rows;
+  const skip = Math.min(options.skip ?? 0, perPage - 1);
+  const cells: string[] = [...Array.from({ length: skip }, () => '<div class="label empty"></div>')];
+  for (const d of labels) cells.push(await stationLabelHtml(d));
+  const pages: string[] = [];
+  for (let i = 0; i < cells.length; i += perPage) pages.push(`<section class="page">${cells.slice(i, i + perPage).join('')}</section>`);
+  const title = escapeHtml(options.title ?? `Station code labels – ${layout.name}`);
+  return `<!doctype html>
+<html lang="en"><head><meta charset="utf-8"><title>${title}</title>
+<style>${layoutCss(layout)}</style></head>
+<body>
+<div class="screen-note"><strong>${escapeHtml(layout.name)}</strong> – ${labels.length} station label(s) on ${pages.length} page(s).
+Print at 100 % scale ("actual size"), with no page margins and no headers or footers, on ${escapeHtml(`${layout.page.widthMm} × ${layout.page.heightMm} mm`)} stock.</div>
+${pages.join('\n')}
+</body></html>`;
+}

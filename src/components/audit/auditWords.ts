@@ -1,0 +1,94 @@
+/**
+ * How the audit page names record types and actions. Lot and container actions reuse the lot
+ * history's words (historyText.ts); the rest are named here, unknown ones are split into words.
+ */
+import { actionText as lotActionText } from '@/components/lots/historyText';
+
+export const ENTITY_WORDS: Record<string, string> = {
+  lot: 'Lot',
+  container: 'Container',
+  material: 'Material',
+  supplier: 'Supplier',
+  station: 'Station',
+  station_load: 'Station loading',
+  driver_model: 'Driver model',
+  driver: 'Driver',
+  build_batch: 'Build batch',
+  step_run: 'Process step',
+  mix: 'Mix',
+  deviation: 'Deviation',
+  defect_code: 'Defect code',
+  test_result: 'Final test result',
+  alert: 'Alert',
+  user: 'User',
+  setting: 'Setting',
+  digest: 'Daily digest',
+};
+
+const ACTION_WORDS: Record<string, string> = {
+  'alert.clear': 'Alert cleared',
+  'alert.raise': 'Alert raised',
+  'batch.create': 'Batch started',
+  'batch.status': 'Batch status changed',
+  'baseline.override': 'Baseline failure rate overridden',
+  'baseline.clearOverride': 'Baseline back to the computed rate',
+  'defect_code.create': 'Defect code added',
+  'defect_code.update': 'Defect code changed',
+  'deviation.sign': 'Deviation signed',
+  'deviation.use': 'Deviation used',
+  'driver.scrap': 'Driver scrapped',
+  'driver.status': 'Driver status changed',
+  login: 'Signed in',
+  logout: 'Signed out',
+  'material.create': 'Material added',
+  'material.partner': 'Partner material set',
+  'material.retire': 'Material retired',
+  'material.sds': 'Safety data sheet attached',
+  'material.update': 'Material changed',
+  'mix.consume': 'Mix used',
+  'mix.create': 'Mix made',
+  'model.create': 'Driver model added',
+  'model.makeCurrent': 'Revision made current',
+  'model.revise': 'New revision',
+  'model.update': 'Driver model changed',
+  'notifications.change': 'Notification settings changed',
+  'notifications.digest': 'Daily digest sent',
+  'station.create': 'Station added',
+  'station.retire': 'Station retired',
+  'station.unload': 'Unloaded from a station',
+  'station.update': 'Station changed',
+  'step.finish': 'Step finished',
+  'step.start': 'Step started',
+  'supplier.create': 'Supplier added',
+  'supplier.retire': 'Supplier retired',
+  'supplier.update': 'Supplier changed',
+  'test.record': 'Final test recorded',
+  'user.password_change': 'Password changed',
+};
+
+/** Actions offered in the filter, in words, sorted by their words. */
+export const ACTION_OPTIONS: { value: string; label: string }[] = [
+  ...Object.entries(ACTION_WORDS),
+  ...['lot.receive', 'lot.status', 'lot.certificate', 'container.open', 'container.move', 'container.empty', 'container.scrap', 'container.consume'].map(
+    (a) => [a, lotActionText(a)] as [string, string],
+  ),
+]
+  .map(([value, label]) => ({ value, label }))
+  .sort((a, b) => a.label.localeCompare(b.label));
+
+export const ENTITY_OPTIONS = Object.entries(ENTITY_WORDS)
+  .map(([value, label]) => ({ value, label }))
+  .sort((a, b) => a.label.localeCompare(b.label));
+
+export function auditActionText(action: string): string {
+  return ACTION_WORDS[action] ?? lotActionText(action);
+}
+
+export function entityText(entity: string): string {
+  return ENTITY_WORDS[entity] ?? entity.charAt(0).toUpperCase() + entity.slice(1).replace(/[_-]/g, ' ');
+}
+
+/** The problem the chain check reports, in words (the server's text is already plain; kept as is). */
+export function verifyProblemText(problem: string): string {
+  return problem.charAt(0).toUpperCase() + problem.slice(1);
+}
