@@ -60,7 +60,7 @@ export type StepRunResult = z.infer<typeof stepRunResultSchema>;
 
 /** Details of a 409 CURE_INCOMPLETE refusal. */
 export const cureIncompleteDetailsSchema = z.object({
-  cureCompleteAt: instantSchema,
+  cureCompleteAt: instantSchema.nullable(),
   handlingAt: instantSchema.nullable(),
   stepRunId: idSchema,
   stepId: idSchema,

@@ -4,7 +4,7 @@ import { db } from '../../server/db/client';
 import { readings } from '../../server/db/schema';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
-import { createStation, sfx } from '../helpers/fixtures';
+import { createBatch, createLot, createMaterial, createModel, createReading, createStation, createStationReading, createStepRun, hoursAgo, sfx } from '../helpers/fixtures';
 
 let app: TestApp;
 let admin: TestUser;
@@ -98,5 +98,83 @@ describe('cure methods: stations and their own readings', () => {
     const listed = await as(assembler).get(`/api/readings?stationId=${oven.id}`);
     expect(listed.status).toBe(200);
     expect(listed.body.items).toHaveLength(2);
+  });
+});
+
+const HOUR = 3_600_000;
+const MIN = 60_000;
+/** Heat-cure magnet-bond epoxy: 30 min at 120 °C, 15 min at 150 °C (a worked data-sheet style schedule). */
+const heatCure = { method: 'heat' as const, refTempC: 120, handlingMinutes: 30, fullCureMinutes: 30, schedule: [{ tempC: 120, minutes: 30 }, { tempC: 150, minutes: 15 }] };
+
+describe('cure methods: POST /api/cure/estimate', () => {
+  it('heat: 135 °C between 30 min at 120 °C and 15 min at 150 °C is √(30 × 15) = 21.2 min (log-linear interpolation)', async () => {
+    const m = await createMaterial({ name: 'Heat-cure epoxy', cure: heatCure });
+    const startAt = '2026-03-04T08:00:00.000Z';
+    const res = await as(assembler).post('/api/cure/estimate', { materialId: m.id, startAt, tempC: 135 });
+    expect(res.status).toBe(200);
+    expect(res.body.cureMethod).toBe('heat');
+    expect(res.body.fullCureMinutes).toBeCloseTo(Math.sqrt(30 * 15), 3); // times are whole milliseconds
+  });
+
+  it('ambient with a minimum: 2 h at 5 °C (below 10 °C) add nothing, then 24 h at the 25 °C reference', async () => {
+    const m = await createMaterial({ name: 'Cold-sensitive adhesive', cure: { refTempC: 25, handlingMinutes: 60, fullCureMinutes: 1440, minTempC: 10 } });
+    const t0 = Date.parse('2026-03-04T08:00:00.000Z');
+    const readings = [{ at: new Date(t0).toISOString(), tempC: 5 }, { at: new Date(t0 + 2 * HOUR).toISOString(), tempC: 25 }];
+    const res = await as(assembler).post('/api/cure/estimate', { materialId: m.id, startAt: new Date(t0).toISOString(), readings });
+    expect(res.status).toBe(200);
+    expect(Date.parse(res.body.fullCureAt) - t0).toBe(26 * HOUR);
+    expect(res.body.minutesBelowMin).toBe(120);
+    const cold = await as(assembler).post('/api/cure/estimate', { materialId: m.id, startAt: new Date(t0).toISOString(), tempC: 5 });
+    expect(cold.body).toMatchObject({ fullCureAt: null, handlingAt: null });
+  });
+
+  it('uv: 3,000 mJ/cm² at 100 mW/cm² needs 30 s (dose = irradiance × time, 1 mW·s = 1 mJ)', async () => {
+    const m = await createMaterial({ name: 'UV acrylic', cure: { method: 'uv', refTempC: 23, handlingMinutes: 1, fullCureMinutes: 1, uvDoseMJcm2: 3000 } });
+    const res = await as(assembler).post('/api/cure/estimate', { materialId: m.id, irradianceMWcm2: 100 });
+    expect(res.status).toBe(200);
+    expect(res.body).toEqual({ cureMethod: 'uv', exposureSeconds: 30, doseMJcm2: 3000, irradianceMWcm2: 100 });
+    const noIrr = await as(assembler).post('/api/cure/estimate', { materialId: m.id, startAt: '2026-03-04T08:00:00.000Z', tempC: 25 });
+    expect(noIrr.status).toBe(400);
+    expect(fields(noIrr)).toEqual(['irradianceMWcm2']);
+  });
+});
+
+describe('cure methods: the oven gate uses the station\'s own readings', () => {
+  async function ovenRun(ovenTempC: number) {
+    const area = `area-${sfx()}`;
+    const ovenKind = `oven ${sfx()}`;
+    const nextKind = `magnetize ${sfx()}`;
+    const oven = await createStation({ kind: ovenKind, area, cureEnvironment: 'own' });
+    const next = await createStation({ kind: nextKind, area });
+    const epoxy = await createMaterial({ name: 'Magnet-bond epoxy', cure: heatCure });
+    const model = await createModel({ steps: [
+      { name: 'Magnet bond (oven)', stationKind: ovenKind, waitForCure: true, materials: [{ materialId: epoxy.id, amountPerUnit: 1 }] },
+      { name: 'Magnetize', stationKind: nextKind },
+    ] });
+    const batch = await createBatch({ modelId: model.id, quantity: 2, status: 'in_process' });
+    const lot = await createLot({ materialId: epoxy.id, containerStatus: 'open', openedAt: hoursAgo(2) });
+    const finishedAt = new Date(Date.now() - 20 * MIN);
+    // The area's air is 25 °C: by the area the epoxy would need hours (30 min × 2^9.5 ≈ 12 h).
+    await createReading(area, new Date(finishedAt.getTime() - 5 * MIN), 25);
+    await createStationReading(oven.id, new Date(finishedAt.getTime() - 5 * MIN), { tempC: ovenTempC });
+    await createStepRun({ batchId: batch.id, stepId: model.steps[0].id, stationId: oven.id, finishedAt, cureCompleteAt: new Date(finishedAt.getTime() + 15 * MIN), used: [{ containerId: lot.containers[0].id, quantity: 2 }] });
+    return { batch, model, next, finishedAt };
+  }
+  const startNext = (o: Awaited<ReturnType<typeof ovenRun>>) =>
+    as(assembler).post(`/api/batches/${o.batch.id}/steps/${o.model.steps[1].id}/start`, { stationId: o.next.id });
+
+  it('oven at 150 °C: 15 min to full cure, so 20 min after the finish the next step may start (the area at 25 °C would refuse)', async () => {
+    const o = await ovenRun(150);
+    const res = await startNext(o);
+    expect(res.status).toBe(200);
+    expect(res.body.stepRun.shortCure).toBe(false);
+  });
+
+  it('oven at 100 °C: below the schedule, ×2 per 10 °C (common practice) from 30 min at 120 °C gives 120 min → CURE_INCOMPLETE', async () => {
+    const o = await ovenRun(100);
+    const res = await startNext(o);
+    expect(res.status).toBe(409);
+    expect(res.body.error.code).toBe('CURE_INCOMPLETE');
+    expect(Date.parse(res.body.error.details.cureCompleteAt)).toBe(o.finishedAt.getTime() + 120 * MIN);
   });
 });

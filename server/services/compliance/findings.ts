@@ -88,7 +88,7 @@ export async function shortCures(tx: DbOrTx, now: Date): Promise<Finding[]> {
   const prevIds = rows.flatMap((r) => (r.prevRunId ? [r.prevRunId] : []));
   const prevRuns = prevIds.length
     ? await tx
-        .select({ id: stepRuns.id, finishedAt: stepRuns.finishedAt, cureCompleteAt: stepRuns.cureCompleteAt, area: stations.area })
+        .select({ id: stepRuns.id, finishedAt: stepRuns.finishedAt, cureCompleteAt: stepRuns.cureCompleteAt, area: stations.area, stationId: stepRuns.stationId })
         .from(stepRuns)
         .innerJoin(stations, eq(stations.id, stepRuns.stationId))
         .where(inArray(stepRuns.id, prevIds))
@@ -101,9 +101,9 @@ export async function shortCures(tx: DbOrTx, now: Date): Promise<Finding[]> {
     // station and the cure board showed it; else the time computed at the previous finish.
     const prev = r.prevRunId ? prevById.get(r.prevRunId) : undefined;
     const seen = prev?.finishedAt
-      ? await cureOfRun(tx, { finishedAt: prev.finishedAt, area: prev.area }, profiles.get(prev.id) ?? [], r.startedAt)
+      ? await cureOfRun(tx, { finishedAt: prev.finishedAt, area: prev.area, stationId: prev.stationId }, profiles.get(prev.id) ?? [], r.startedAt)
       : null;
-    const cureAt = seen ? new Date(seen.cureCompleteAt) : (prev?.cureCompleteAt ?? null);
+    const cureAt = seen?.cureCompleteAt ? new Date(seen.cureCompleteAt) : (prev?.cureCompleteAt ?? null);
     const cure = cureAt
       ? `, before the previous step's adhesive was fully cured (full cure at ${when(cureAt)})`
       : ", before the previous step's adhesive was fully cured";

@@ -52,15 +52,15 @@ export async function finishStep(
     await consumeForRun(tx, actor, run.id, ctx.step, units, ctx.batch.code, now);
 
     const profiles = (await profilesForRuns(tx, [run.id])).get(run.id) ?? [];
-    const cure = await cureOfRun(tx, { finishedAt: now, area: ctx.station.area }, profiles, now);
+    const cure = await cureOfRun(tx, { finishedAt: now, area: ctx.station.area, stationId: ctx.station.id }, profiles, now);
     await tx
       .update(stepRuns)
       .set({
         finishedAt: now,
         finishedBy: actor.id,
         unitsDone: units,
-        handlingAt: cure ? new Date(cure.handlingAt) : null,
-        cureCompleteAt: cure ? new Date(cure.cureCompleteAt) : null,
+        handlingAt: cure?.handlingAt ? new Date(cure.handlingAt) : null,
+        cureCompleteAt: cure?.cureCompleteAt ? new Date(cure.cureCompleteAt) : null,
       })
       .where(eq(stepRuns.id, run.id));
     const stepRun = await describeRun(tx, run.id);
