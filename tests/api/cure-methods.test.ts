@@ -1,7 +1,7 @@
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '../../server/db/client';
-import { readings } from '../../server/db/schema';
+import { alerts, deviations, readings } from '../../server/db/schema';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
 import { createBatch, createLot, createMaterial, createModel, createReading, createStation, createStationReading, createStepRun, hoursAgo, sfx } from '../helpers/fixtures';
@@ -9,9 +9,10 @@ import { createBatch, createLot, createMaterial, createModel, createReading, cre
 let app: TestApp;
 let admin: TestUser;
 let assembler: TestUser;
+let quality: TestUser;
 beforeAll(async () => {
   app = await startApp();
-  [admin, assembler] = await Promise.all([ensureUser(['admin']), ensureUser(['assembler'])]);
+  [admin, assembler, quality] = await Promise.all([ensureUser(['admin']), ensureUser(['assembler']), ensureUser(['quality'])]);
 });
 afterAll(() => app.close());
 const as = (u?: TestUser) => api(app.baseUrl, u?.token);
@@ -176,5 +177,74 @@ describe('cure methods: the oven gate uses the station\'s own readings', () => {
     expect(res.status).toBe(409);
     expect(res.body.error.code).toBe('CURE_INCOMPLETE');
     expect(Date.parse(res.body.error.details.cureCompleteAt)).toBe(o.finishedAt.getTime() + 120 * MIN);
+  });
+});
+
+describe('cure methods: a UV step is finished by its dose', () => {
+  /** A UV station with a lamp measured at 80 mW/cm², a dust-cap acrylic needing 3,000 mJ/cm², a batch started there. */
+  async function uvStarted() {
+    const uvKind = `uv cap ${sfx()}`;
+    const lampStation = await createStation({ kind: uvKind, cureEnvironment: 'own' });
+    const acrylic = await createMaterial({ name: 'UV dust-cap acrylic', cure: { method: 'uv', refTempC: 23, handlingMinutes: 1, fullCureMinutes: 1, uvDoseMJcm2: 3000 } });
+    const model = await createModel({ steps: [{ name: 'Dust cap (UV)', stationKind: uvKind, materials: [{ materialId: acrylic.id, amountPerUnit: 0.2 }] }] });
+    const batch = await createBatch({ modelId: model.id, quantity: 2 });
+    const lot = await createLot({ materialId: acrylic.id, quantity: 50 });
+    await createStationReading(lampStation.id, new Date(Date.now() - HOUR), { irradianceMWcm2: 80 });
+    expect((await as(assembler).post(`/api/stations/${lampStation.id}/load`, { batchId: batch.id, containerCode: lot.containers[0].code })).status).toBe(200);
+    const url = `/api/batches/${batch.id}/steps/${model.steps[0].id}`;
+    expect((await as(assembler).post(`${url}/start`, { stationId: lampStation.id })).status).toBe(200);
+    const finish = (extra: Record<string, unknown>) => as(assembler).post(`${url}/finish`, { stationId: lampStation.id, ...extra });
+    return { lampStation, batch, model, finish };
+  }
+
+  it('needs the exposure; 80 mW/cm² × 30 s = 2,400 mJ/cm² < 3,000 → 409 UV_DOSE_LOW naming both; 40 s = 3,200 finishes', async () => {
+    const u = await uvStarted();
+    const none = await u.finish({});
+    expect(none.status).toBe(400);
+    expect(fields(none)).toEqual(['exposureSeconds']);
+    const low = await u.finish({ exposureSeconds: 30 });
+    expect(low.status).toBe(409);
+    expect(low.body.error.code).toBe('UV_DOSE_LOW');
+    expect(low.body.error.message).toContain('2,400 mJ/cm²');
+    expect(low.body.error.message).toContain('3,000 mJ/cm²');
+    expect(low.body.error.details).toMatchObject({ doseMJcm2: 2400, neededMJcm2: 3000, irradianceMWcm2: 80, exposureSeconds: 30 });
+    const ok = await u.finish({ exposureSeconds: 40 });
+    expect(ok.status).toBe(200);
+    expect(ok.body.stepRun.finishedAt).not.toBeNull();
+  });
+
+  it('a quality deviation (uv_dose_low) lets a short dose finish, once', async () => {
+    const u = await uvStarted();
+    expect((await u.finish({ exposureSeconds: 30 })).body.error.code).toBe('UV_DOSE_LOW');
+    const dev = await as(quality).post('/api/deviations', { batchId: u.batch.id, stepId: u.model.steps[0].id, kind: 'uv_dose_low', reason: 'Cap bond verified by pull test on 3 units' });
+    expect(dev.status).toBe(201);
+    const ok = await u.finish({ exposureSeconds: 30 });
+    expect(ok.status).toBe(200);
+    const [used] = await db.select().from(deviations).where(eq(deviations.id, dev.body.deviation.id));
+    expect(used.usedAt).not.toBeNull();
+  });
+});
+
+describe('cure methods: radiometer check due', () => {
+  it('raises lamp_check_due when a UV lamp\'s last radiometer reading is older than 7 days, and resolves it after a new one', async () => {
+    const lampStation = await createStation({ kind: `uv ${sfx()}`, cureEnvironment: 'own' });
+    await createStationReading(lampStation.id, new Date(Date.now() - 8 * 24 * HOUR), { irradianceMWcm2: 90 });
+    expect((await as(quality).post('/api/compliance/run', {})).status).toBe(200);
+    let rows = await db.select().from(alerts).where(eq(alerts.subjectId, lampStation.id));
+    expect(rows).toHaveLength(1);
+    expect(rows[0]).toMatchObject({ kind: 'lamp_check_due', subjectType: 'station', state: 'open' });
+    expect(rows[0].message).toContain(lampStation.code);
+
+    await createStationReading(lampStation.id, new Date(Date.now() - HOUR), { irradianceMWcm2: 88 });
+    await as(quality).post('/api/compliance/run', {});
+    rows = await db.select().from(alerts).where(eq(alerts.subjectId, lampStation.id));
+    expect(rows[0].state).toBe('resolved');
+  });
+
+  it('a lamp read 6 days ago raises nothing', async () => {
+    const lampStation = await createStation({ kind: `uv ${sfx()}`, cureEnvironment: 'own' });
+    await createStationReading(lampStation.id, new Date(Date.now() - 6 * 24 * HOUR), { irradianceMWcm2: 90 });
+    await as(quality).post('/api/compliance/run', {});
+    expect(await db.select().from(alerts).where(eq(alerts.subjectId, lampStation.id))).toHaveLength(0);
   });
 });

@@ -56,6 +56,7 @@ describe('notification settings', () => {
     expect(res.body.kinds).toEqual({
       pot_life_exceeded: 'immediate', short_cure: 'immediate', expired_in_stock: 'immediate',
       expiring_soon: 'digest', quarantine_advised: 'digest', below_reorder_point: 'none',
+      lamp_check_due: 'digest', humidity_out_of_window: 'digest',
     });
     expect(res.body.available).not.toContain('below_reorder_point');
     expect(res.body.whenResolved).toBe(false);

@@ -3,10 +3,10 @@
  * one per subject that is in breach now. The watch turns new findings into alerts and resolves
  * alerts whose finding has gone.
  */
-import { and, eq, gt, gte, inArray, isNull, lte, notInArray, sql } from 'drizzle-orm';
+import { and, eq, gt, gte, inArray, isNotNull, isNull, lte, notInArray, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { DbOrTx } from '../../db/client';
-import { containers, lots, materials, mixes, stationLoads, stations, stepRuns, buildBatches, recipeSteps } from '../../db/schema';
+import { containers, lots, materials, mixes, readings, stationLoads, stations, stepRuns, buildBatches, recipeSteps } from '../../db/schema';
 import { readSetting } from '../settings';
 import { auditChainBroken } from './audit-check';
 import type { AlertSeverity, Role } from '../../../shared/constants';
@@ -23,7 +23,7 @@ import { lotFailureDetail, lotFailureSentence } from '../../../shared/alert-word
 export interface Finding {
   kind: string;
   severity: AlertSeverity;
-  subjectType: 'mix' | 'step_run' | 'container' | 'lot' | 'material' | 'audit_entry';
+  subjectType: 'mix' | 'step_run' | 'container' | 'lot' | 'material' | 'audit_entry' | 'station';
   subjectId: string;
   /** One sentence a person reads in one go. */
   message: string;
@@ -250,5 +250,34 @@ export async function belowReorderPoint(tx: DbOrTx): Promise<Finding[]> {
 
 export const ALL_CHECKS = [
   potLifeExceeded, shortCures, expiredInStock, expiringSoon, quarantineAdvised, (tx: DbOrTx) => belowReorderPoint(tx), auditChainBroken,
+  lampCheckDue,
 ];
 
+
+/**
+ * A UV station (own cure environment) whose lamp has been measured at least once, or that ran a
+ * UV step, and whose last radiometer reading is older than `lampCheckDays`: the dose of every
+ * step there is computed from that reading, so it must be current.
+ */
+export async function lampCheckDue(tx: DbOrTx, now: Date): Promise<Finding[]> {
+  const days = await readSetting('lampCheckDays', tx);
+  const limit = new Date(now.getTime() - days * 86_400_000);
+  const rows = await tx
+    .select({ id: stations.id, code: stations.code, name: stations.name, last: sql<Date | string>`max(${readings.at})` })
+    .from(stations)
+    .innerJoin(readings, and(eq(readings.stationId, stations.id), isNotNull(readings.irradianceMWcm2)))
+    .where(and(eq(stations.active, true), eq(stations.cureEnvironment, 'own')))
+    .groupBy(stations.id, stations.code, stations.name);
+  return rows
+    .map((r) => ({ ...r, last: new Date(r.last) }))
+    .filter((r) => r.last < limit)
+    .map((r) => ({
+      kind: 'lamp_check_due',
+      severity: 'warning' as const,
+      subjectType: 'station' as const,
+      subjectId: r.id,
+      message: `The UV lamp of ${r.code} (${r.name}) was last measured with the radiometer at ${when(r.last)}, more than ${days} days ago; measure it before curing with it.`,
+      audience: ['quality'] as Role[],
+      data: { stationCode: r.code, lastReadingAt: r.last.toISOString(), lampCheckDays: days },
+    }));
+}

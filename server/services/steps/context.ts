@@ -16,6 +16,8 @@ export interface StepActionRequest {
   stepId: string;
   stationId: string;
   serial?: string;
+  /** Finish of a UV step: exposure under the lamp, seconds. */
+  exposureSeconds?: number;
 }
 
 export interface StepContext {
