@@ -248,3 +248,30 @@ describe('cure methods: radiometer check due', () => {
     expect(await db.select().from(alerts).where(eq(alerts.subjectId, lampStation.id))).toHaveLength(0);
   });
 });
+
+describe('cure methods: humidity window', () => {
+  it('flags a cure that ran while the area\'s RH left the material\'s window (40–60 % RH), not one that stayed inside', async () => {
+    const area = `area-${sfx()}`;
+    const kind = `ca bond ${sfx()}`;
+    const st = await createStation({ kind, area });
+    const ca = await createMaterial({ name: 'Cyanoacrylate', cure: { refTempC: 23, handlingMinutes: 1, fullCureMinutes: 1440, rhMinPct: 40, rhMaxPct: 60 } });
+    const model = await createModel({ steps: [{ name: 'Lead-wire tack', stationKind: kind, materials: [{ materialId: ca.id, amountPerUnit: 0.05 }] }] });
+    const run = async () => {
+      const batch = await createBatch({ modelId: model.id, status: 'in_process' });
+      const lot = await createLot({ materialId: ca.id, containerStatus: 'open', openedAt: hoursAgo(5) });
+      return createStepRun({ batchId: batch.id, stepId: model.steps[0].id, stationId: st.id, finishedAt: hoursAgo(3), cureCompleteAt: new Date(Date.now() + 20 * HOUR), used: [{ containerId: lot.containers[0].id, quantity: 0.1 }] });
+    };
+    const inside = await run();
+    await createReading(area, hoursAgo(4), 23, 50);
+    await as(quality).post('/api/compliance/run', {});
+    expect(await db.select().from(alerts).where(eq(alerts.subjectId, inside.id))).toHaveLength(0);
+
+    // 1 h ago the area dropped to 30 % RH: below the window (the cure is still running).
+    await createReading(area, hoursAgo(1), 23, 30);
+    await as(quality).post('/api/compliance/run', {});
+    const [flag] = await db.select().from(alerts).where(eq(alerts.subjectId, inside.id));
+    expect(flag).toMatchObject({ kind: 'humidity_out_of_window', subjectType: 'step_run', state: 'open' });
+    expect(flag.message).toContain('30 % RH');
+    expect(flag.message).toContain('40–60 % RH');
+  });
+});

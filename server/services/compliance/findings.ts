@@ -19,6 +19,7 @@ import { plantDateTime } from '../../plant-time';
 import { formatDate } from '../../../shared/plant-time';
 import { pChartLimits } from '../../../shared/stats';
 import { lotFailureDetail, lotFailureSentence } from '../../../shared/alert-words';
+import { humidityWindowCheck, type MethodCureProfile } from '../../../shared/cure-methods';
 
 export interface Finding {
   kind: string;
@@ -250,7 +251,7 @@ export async function belowReorderPoint(tx: DbOrTx): Promise<Finding[]> {
 
 export const ALL_CHECKS = [
   potLifeExceeded, shortCures, expiredInStock, expiringSoon, quarantineAdvised, (tx: DbOrTx) => belowReorderPoint(tx), auditChainBroken,
-  lampCheckDue,
+  lampCheckDue, humidityOutOfWindow,
 ];
 
 
@@ -280,4 +281,52 @@ export async function lampCheckDue(tx: DbOrTx, now: Date): Promise<Finding[]> {
       audience: ['quality'] as Role[],
       data: { stationCode: r.code, lastReadingAt: r.last.toISOString(), lampCheckDays: days },
     }));
+}
+
+/**
+ * A finished step whose adhesive has a humidity window (moisture-curing, from its data sheet)
+ * and cured, between the finish and full cure (or now), while the area's relative humidity was
+ * outside it. A compliance check, not a rate: no humidity formula is applied to the cure time.
+ */
+export async function humidityOutOfWindow(tx: DbOrTx, now: Date): Promise<Finding[]> {
+  const days = await readSetting('shortCureLookbackDays', tx);
+  const since = new Date(now.getTime() - days * 86_400_000);
+  const runs = await tx
+    .select({ id: stepRuns.id, finishedAt: stepRuns.finishedAt, cureCompleteAt: stepRuns.cureCompleteAt, area: stations.area, batch: buildBatches.code, step: recipeSteps.name })
+    .from(stepRuns)
+    .innerJoin(stations, eq(stations.id, stepRuns.stationId))
+    .innerJoin(buildBatches, eq(buildBatches.id, stepRuns.batchId))
+    .innerJoin(recipeSteps, eq(recipeSteps.id, stepRuns.stepId))
+    .where(and(isNotNull(stepRuns.finishedAt), gte(stepRuns.finishedAt, since)));
+  if (runs.length === 0) return [];
+  const profiles = await profilesForRuns(tx, runs.map((r) => r.id));
+  const out: Finding[] = [];
+  for (const r of runs) {
+    const windows = ((profiles.get(r.id) ?? []) as MethodCureProfile[]).filter((p) => typeof p.rhMinPct === 'number' || typeof p.rhMaxPct === 'number');
+    if (windows.length === 0 || !r.finishedAt) continue;
+    const to = r.cureCompleteAt && r.cureCompleteAt < now ? r.cureCompleteAt : now;
+    const rows = await tx
+      .select({ at: readings.at, rh: readings.rhPct })
+      .from(readings)
+      .where(and(eq(readings.area, r.area), isNotNull(readings.rhPct), lte(readings.at, to), gte(readings.at, new Date(r.finishedAt.getTime() - 4 * 3_600_000))))
+      .orderBy(readings.at);
+    const rh = rows.map((x) => ({ at: x.at.toISOString(), rhPct: Number(x.rh) }));
+    for (const w of windows) {
+      const check = humidityWindowCheck(w, r.finishedAt.toISOString(), to.toISOString(), rh);
+      if (check.ok) continue;
+      const first = check.outside[0];
+      const range = `${w.rhMinPct ?? 0}–${w.rhMaxPct ?? 100} % RH`;
+      out.push({
+        kind: 'humidity_out_of_window',
+        severity: 'warning',
+        subjectType: 'step_run',
+        subjectId: r.id,
+        message: `Batch ${r.batch}, step "${r.step}": the adhesive cured while ${r.area} was at ${first.rhPct} % RH (from ${when(new Date(first.from))}), outside its data sheet range of ${range}.`,
+        audience: ['quality'],
+        data: { batchCode: r.batch, step: r.step, area: r.area, outside: check.outside, rhMinPct: w.rhMinPct ?? null, rhMaxPct: w.rhMaxPct ?? null },
+      });
+      break;
+    }
+  }
+  return out;
 }
