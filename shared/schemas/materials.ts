@@ -244,6 +244,9 @@ export const materialSchema = z.object({
   cure: z.object({
     refTempC: z.number(), handlingMinutes: z.number(), fullCureMinutes: z.number(),
     factorPer10C: z.number().optional(), activationEnergyKJ: z.number().optional(),
+    method: z.enum(CURE_METHODS).optional(), minTempC: z.number().optional(),
+    schedule: z.array(z.object({ tempC: z.number(), minutes: z.number() })).optional(),
+    uvDoseMJcm2: z.number().optional(), rhMinPct: z.number().optional(), rhMaxPct: z.number().optional(),
   }).nullable(),
   requiresInspection: z.boolean(),
   hazards: z.object({
