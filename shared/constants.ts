@@ -39,7 +39,7 @@ export type AlertState = (typeof ALERT_STATES)[number];
 
 export const ALERT_KINDS = [
   'pot_life_exceeded', 'short_cure', 'expired_in_stock', 'expiring_soon', 'quarantine_advised', 'below_reorder_point',
-  'audit_chain_broken',
+  'audit_chain_broken', 'lamp_check_due', 'humidity_out_of_window',
 ] as const;
 export type AlertKind = (typeof ALERT_KINDS)[number];
 

@@ -60,6 +60,14 @@ export const ALERT_KIND_INFO: Record<AlertKind, AlertKindInfo> = {
     words: 'Audit trail does not verify', audience: ['quality', 'admin'], canBeCritical: true, handling: false,
     todo: 'Find out who changed the database directly; keep a copy of it before anything else changes, and run the audit verification again.',
   },
+  lamp_check_due: {
+    words: 'UV lamp radiometer check due', audience: ['quality'], canBeCritical: false, handling: false,
+    todo: 'Measure the lamp with the radiometer and record the reading for its station; the UV dose of each step is computed from it.',
+  },
+  humidity_out_of_window: {
+    words: 'Cured outside its humidity range', audience: ['quality'], canBeCritical: false, handling: false,
+    todo: 'Review the batch: the adhesive cured while the area\'s humidity was outside its data sheet range; decide whether its drivers need extra checks.',
+  },
 };
 
 export function isAlertKind(kind: string): kind is AlertKind {

@@ -76,6 +76,7 @@ export const REFUSALS = {
   PARTNER_STILL_NEEDED: { status: 409, title: 'Partner still needed' },
   MIX_DISCARDED: { status: 409, title: 'Mix discarded' },
   CURE_INCOMPLETE: { status: 409, title: 'Cure not complete' },
+  UV_DOSE_LOW: { status: 409, title: 'UV dose too low' },
   STEP_NOT_STARTED: { status: 409, title: 'Step not started' },
   STEP_ALREADY_STARTED: { status: 409, title: 'Step already started' },
   STEP_ALREADY_DONE: { status: 409, title: 'Step already done' },

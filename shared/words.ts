@@ -140,6 +140,8 @@ export const ALERT_KIND_WORDS: Record<AlertKind, string> = {
   quarantine_advised: 'Quarantine advised',
   below_reorder_point: 'Below reorder point',
   audit_chain_broken: 'Audit trail does not verify',
+  lamp_check_due: 'UV lamp radiometer check due',
+  humidity_out_of_window: 'Cured outside its humidity range',
 };
 export const alertKindWords = lookup(ALERT_KIND_WORDS);
 

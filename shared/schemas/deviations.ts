@@ -1,8 +1,11 @@
 import { z } from 'zod';
 import { idSchema, instantSchema } from './common';
 
-/** Rules a deviation may set aside. early_start: start a step before the previous step's cure is complete. */
-export const DEVIATION_KINDS = ['early_start'] as const;
+/**
+ * Rules a deviation may set aside. early_start: start a step before the previous step's cure is
+ * complete; uv_dose_low: finish a UV step whose dose fell short of the adhesive's.
+ */
+export const DEVIATION_KINDS = ['early_start', 'uv_dose_low'] as const;
 
 /** POST /api/deviations (quality): a signed decision to go on despite a rule. */
 export const deviationInputSchema = z.object({

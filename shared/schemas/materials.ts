@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { GHS_PICTOGRAMS, MATERIAL_KINDS, STORAGE_CLASSES, type MaterialKind } from '../constants';
 import { isValidGtin } from '../gs1';
+import { CURE_METHODS } from '../cure-methods';
 import { fitsColumn, idSchema, instantSchema, MIX_RATIO_COLUMN, QUANTITY_COLUMN } from './common';
 import { attachmentSchema } from './attachments';
 
@@ -68,8 +69,15 @@ export type Hazards = z.infer<typeof hazardsSchema>;
 const positiveInt = (what: string) =>
   z.number(orRequired(`must be a whole number of ${what}`)).int(`must be a whole number of ${what}`).positive('must be more than 0');
 
+const schedulePointSchema = z.object({
+  tempC: z.number(orRequired('must be a temperature in °C')).min(20, 'must be at least 20 °C').max(300, 'must be at most 300 °C'),
+  minutes: z.number(orRequired('must be a number of minutes')).positive('must be more than 0').max(525600, 'must be at most a year'),
+});
+
 export const cureProfileSchema = z
   .object({
+    /** How it cures: in the room's air, in an oven by a schedule, or under a UV lamp by dose (shared/cure-methods.ts). */
+    method: z.enum(CURE_METHODS, { error: 'must be one of: ' + CURE_METHODS.join(', ') }).default('ambient'),
     refTempC: z.number(orRequired('must be a temperature in °C')).min(-40, 'must be at least -40 °C').max(200, 'must be at most 200 °C'),
     handlingMinutes: z.number(orRequired('must be a number of minutes')).positive('must be more than 0').max(525600, 'must be at most a year'),
     fullCureMinutes: z.number(orRequired('must be a number of minutes')).positive('must be more than 0').max(525600, 'must be at most a year'),
@@ -77,6 +85,15 @@ export const cureProfileSchema = z
     factorPer10C: z.number(orRequired('must be a number')).gt(1, 'must be more than 1 (the reaction speeds up when warmer)').max(10, 'must be at most 10').optional(),
     /** Arrhenius activation energy, kJ/mol; used instead of factorPer10C when given. */
     activationEnergyKJ: z.number(orRequired('must be a number of kJ/mol')).positive('must be more than 0').max(500, 'must be at most 500 kJ/mol').optional(),
+    /** ambient: no cure progress below this temperature (data sheets: "do not cure below 10 °C"). */
+    minTempC: z.number(orRequired('must be a temperature in °C')).min(-40, 'must be at least -40 °C').max(100, 'must be at most 100 °C').optional(),
+    /** heat: the data sheet's cure schedule, (oven temperature, minutes) points. */
+    schedule: z.array(schedulePointSchema, { error: 'must be a list of {tempC, minutes} points' }).max(12, 'has at most 12 points').optional(),
+    /** uv: the dose the adhesive needs, mJ/cm². */
+    uvDoseMJcm2: z.number(orRequired('must be a dose in mJ/cm²')).positive('must be more than 0').max(1e6, 'must be at most 1,000,000 mJ/cm²').optional(),
+    /** Relative-humidity window from the data sheet (moisture-curing adhesives), %. */
+    rhMinPct: z.number(orRequired('must be a percentage')).min(0, 'must be at least 0 %').max(100, 'must be at most 100 %').optional(),
+    rhMaxPct: z.number(orRequired('must be a percentage')).min(0, 'must be at least 0 %').max(100, 'must be at most 100 %').optional(),
   })
   .superRefine((c, ctx) => {
     if (c.handlingMinutes > c.fullCureMinutes) {
@@ -84,6 +101,30 @@ export const cureProfileSchema = z
     }
     if (c.factorPer10C !== undefined && c.activationEnergyKJ !== undefined) {
       ctx.addIssue({ code: 'custom', path: ['activationEnergyKJ'], message: 'give either factorPer10C or activationEnergyKJ, not both' });
+    }
+    if (c.method === 'heat') {
+      if (!c.schedule || c.schedule.length === 0) {
+        ctx.addIssue({ code: 'custom', path: ['schedule'], message: 'a heat cure needs at least one schedule point (temperature, minutes)' });
+      } else {
+        const temps = c.schedule.map((p) => p.tempC);
+        temps.forEach((t, i) => {
+          if (temps.indexOf(t) !== i) ctx.addIssue({ code: 'custom', path: ['schedule', i, 'tempC'], message: `lists ${t} °C twice` });
+        });
+      }
+    } else if (c.schedule !== undefined && c.schedule.length > 0) {
+      ctx.addIssue({ code: 'custom', path: ['schedule'], message: 'only a heat cure has a schedule' });
+    }
+    if (c.method === 'uv' && c.uvDoseMJcm2 === undefined) {
+      ctx.addIssue({ code: 'custom', path: ['uvDoseMJcm2'], message: 'a UV cure needs its dose in mJ/cm²' });
+    }
+    if (c.method !== 'uv' && c.uvDoseMJcm2 !== undefined) {
+      ctx.addIssue({ code: 'custom', path: ['uvDoseMJcm2'], message: 'only a UV cure has a dose' });
+    }
+    if (c.method !== 'ambient' && c.minTempC !== undefined) {
+      ctx.addIssue({ code: 'custom', path: ['minTempC'], message: 'only a room-temperature (ambient) cure has a minimum cure temperature' });
+    }
+    if (c.rhMinPct !== undefined && c.rhMaxPct !== undefined && c.rhMinPct >= c.rhMaxPct) {
+      ctx.addIssue({ code: 'custom', path: ['rhMaxPct'], message: 'must be above rhMinPct' });
     }
   });
 export type CureProfile = z.infer<typeof cureProfileSchema>;
@@ -203,6 +244,9 @@ export const materialSchema = z.object({
   cure: z.object({
     refTempC: z.number(), handlingMinutes: z.number(), fullCureMinutes: z.number(),
     factorPer10C: z.number().optional(), activationEnergyKJ: z.number().optional(),
+    method: z.enum(CURE_METHODS).optional(), minTempC: z.number().optional(),
+    schedule: z.array(z.object({ tempC: z.number(), minutes: z.number() })).optional(),
+    uvDoseMJcm2: z.number().optional(), rhMinPct: z.number().optional(), rhMaxPct: z.number().optional(),
   }).nullable(),
   requiresInspection: z.boolean(),
   hazards: z.object({

@@ -1,6 +1,10 @@
 import { z } from 'zod';
 import { idSchema, instantSchema } from './common';
 
+export const CURE_ENVIRONMENTS = ['area', 'own'] as const;
+export type CureEnvironment = (typeof CURE_ENVIRONMENTS)[number];
+const cureEnvironmentSchema = z.enum(CURE_ENVIRONMENTS, { error: "must be 'area' (the area's air) or 'own' (an oven or UV lamp with its own readings)" });
+
 const text = (max: number) => z.string().trim().min(1, 'is required').max(max, `is at most ${max} characters`);
 
 /** Station codes are scanned: letters, digits and - _ . only. */
@@ -19,6 +23,8 @@ export const stationSchema = z.object({
   kind: z.string(),
   /** Shop area; temperature readings are kept per area. */
   area: z.string(),
+  /** 'area': cures in the area's air; 'own': an oven or UV lamp with its own readings. */
+  cureEnvironment: z.enum(CURE_ENVIRONMENTS),
   active: z.boolean(),
   createdAt: instantSchema,
 });
@@ -30,6 +36,7 @@ export const stationInputSchema = z.object({
   name: text(120),
   kind: text(80),
   area: text(80),
+  cureEnvironment: cureEnvironmentSchema.default('area'),
 });
 export type StationInput = z.infer<typeof stationInputSchema>;
 
@@ -40,6 +47,7 @@ export const stationPatchSchema = z
     name: text(120).optional(),
     kind: text(80).optional(),
     area: text(80).optional(),
+    cureEnvironment: cureEnvironmentSchema.optional(),
     active: z.boolean().optional(),
   })
   .refine((v) => Object.values(v).some((x) => x !== undefined), { message: 'names no field to change' });

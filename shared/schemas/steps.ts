@@ -7,6 +7,8 @@ export const stepActionInputSchema = z.object({
   stationId: idSchema,
   /** Single-unit (rework) run: the driver's serial; it must belong to the batch. */
   serial: z.string().trim().min(1, 'is required').max(64, 'is at most 64 characters').optional(),
+  /** Finish of a UV step: the exposure time under the lamp, seconds (dose = irradiance × time). */
+  exposureSeconds: z.number().positive('must be more than 0 seconds').max(86400, 'must be at most a day (86,400 s)').optional(),
 });
 export type StepActionInput = z.infer<typeof stepActionInputSchema>;
 
@@ -60,7 +62,7 @@ export type StepRunResult = z.infer<typeof stepRunResultSchema>;
 
 /** Details of a 409 CURE_INCOMPLETE refusal. */
 export const cureIncompleteDetailsSchema = z.object({
-  cureCompleteAt: instantSchema,
+  cureCompleteAt: instantSchema.nullable(),
   handlingAt: instantSchema.nullable(),
   stepRunId: idSchema,
   stepId: idSchema,

@@ -57,6 +57,7 @@ describe('notification settings', () => {
       pot_life_exceeded: 'immediate', short_cure: 'immediate', expired_in_stock: 'immediate',
       expiring_soon: 'digest', quarantine_advised: 'digest', below_reorder_point: 'none',
       audit_chain_broken: 'immediate',
+      lamp_check_due: 'digest', humidity_out_of_window: 'digest',
     });
     expect(res.body.available).not.toContain('below_reorder_point');
     expect(res.body.whenResolved).toBe(false);
@@ -65,7 +66,7 @@ describe('notification settings', () => {
     const forAdmin = await api(app.baseUrl, admin.token).get('/api/me/notifications');
     // An administrator gets only what concerns admin by default: a broken audit trail, at once.
     expect(Object.entries(forAdmin.body.kinds).every(([k, m]) => m === (k === 'audit_chain_broken' ? 'immediate' : 'none'))).toBe(true);
-    expect(forAdmin.body.available).toHaveLength(7);
+    expect(forAdmin.body.available).toHaveLength(9);
   });
 
   it('refuse bad input naming the field, and change nothing', async () => {

@@ -128,11 +128,11 @@ export async function createLot(l: LotFixture) {
   return { ...lot, containers: rows };
 }
 
-export async function createStation(st: { kind?: string; area?: string; active?: boolean } = {}) {
+export async function createStation(st: { kind?: string; area?: string; active?: boolean; cureEnvironment?: 'area' | 'own' } = {}) {
   const s = sfx();
   const [row] = await db
     .insert(stations)
-    .values({ code: `ST-${s}`, name: `Test station ${s}`, kind: st.kind ?? `kind-${s}`, area: st.area ?? `area-${s}`, active: st.active ?? true })
+    .values({ code: `ST-${s}`, name: `Test station ${s}`, kind: st.kind ?? `kind-${s}`, area: st.area ?? `area-${s}`, active: st.active ?? true, cureEnvironment: st.cureEnvironment ?? 'area' })
     .returning();
   return row;
 }
@@ -206,6 +206,15 @@ export async function createStepRun(r: {
     );
   }
   return run;
+}
+
+/** A station's own reading (an oven's temperature, a UV lamp's radiometer irradiance). */
+export async function createStationReading(stationId: string, at: Date, r: { tempC?: number; irradianceMWcm2?: number }) {
+  const [row] = await db
+    .insert(readings)
+    .values({ stationId, at, tempC: r.tempC === undefined ? null : r.tempC.toFixed(2), irradianceMWcm2: r.irradianceMWcm2 === undefined ? null : r.irradianceMWcm2.toFixed(2), source: 'fixture' })
+    .returning();
+  return row;
 }
 
 export async function createReading(area: string, at: Date, tempC: number, rhPct?: number) {

@@ -10,6 +10,7 @@ describe('notification defaults by role', () => {
     expect(defaultModes(['assembler'])).toEqual({
       pot_life_exceeded: 'immediate', short_cure: 'none', expired_in_stock: 'immediate',
       expiring_soon: 'none', quarantine_advised: 'none', below_reorder_point: 'none', audit_chain_broken: 'none',
+      lamp_check_due: 'none', humidity_out_of_window: 'none',
     });
     expect(defaultModes(['purchasing'])).toMatchObject({ below_reorder_point: 'digest', expiring_soon: 'digest', pot_life_exceeded: 'none' });
     // Several roles: the widest default wins kind by kind.

@@ -26,8 +26,8 @@ const { useStationSessionStore } = await import('@/stores/station-session');
 const id = (n: number) => `00000000-0000-4000-8000-${String(n).padStart(12, '0')}`;
 const NOW = '2026-03-04T08:00:00.000Z';
 
-const magStation: Station = { id: id(1), code: 'ST-MAG-1', name: 'Magnet bond robot 1', kind: 'magnet_assembly', area: 'Line A', active: true, createdAt: NOW };
-const capStation: Station = { id: id(2), code: 'ST-CAP-1', name: 'Dust cap bench 1', kind: 'dust_cap', area: 'Line A', active: true, createdAt: NOW };
+const magStation: Station = { id: id(1), code: 'ST-MAG-1', name: 'Magnet bond robot 1', kind: 'magnet_assembly', area: 'Line A', cureEnvironment: 'area', active: true, createdAt: NOW };
+const capStation: Station = { id: id(2), code: 'ST-CAP-1', name: 'Dust cap bench 1', kind: 'dust_cap', area: 'Line A', cureEnvironment: 'area', active: true, createdAt: NOW };
 
 function step(n: number, name: string, kind: string, state: TravelerStep['state'], extra: Partial<TravelerStep> = {}): TravelerStep {
   return { id: id(100 + n), seq: n, name, stationKind: kind, waitForCure: false, materials: [], state, run: null, handlingAt: null, cureCompleteAt: null, ...extra };

@@ -11,6 +11,13 @@ export interface CureProfileJson {
   fullCureMinutes: number;
   factorPer10C?: number;
   activationEnergyKJ?: number;
+  /** 'ambient' (default), 'heat' (oven schedule) or 'uv' (dose); shared/cure-methods.ts */
+  method?: 'ambient' | 'heat' | 'uv';
+  minTempC?: number;
+  schedule?: { tempC: number; minutes: number }[];
+  uvDoseMJcm2?: number;
+  rhMinPct?: number;
+  rhMaxPct?: number;
 }
 
 export interface HazardsJson {
@@ -95,10 +102,16 @@ export const stations = pgTable(
     kind: text('kind').notNull(),
     /** Shop area; temperature readings are kept per area. */
     area: text('area').notNull(),
+    /** 'area': cures in the area's air; 'own': an oven or UV lamp with its own readings. */
+    cureEnvironment: text('cure_environment').notNull().default('area'),
     active: boolean('active').notNull().default(true),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [uniqueIndex('stations_code_uq').on(t.code), check('stations_kind_ck', sql`length(${t.kind}) > 0`)],
+  (t) => [
+    uniqueIndex('stations_code_uq').on(t.code),
+    check('stations_kind_ck', sql`length(${t.kind}) > 0`),
+    check('stations_cure_environment_ck', sql`${t.cureEnvironment} IN ('area', 'own')`),
+  ],
 );
 
 export const driverModels = pgTable(

@@ -157,18 +157,27 @@ export const readings = pgTable(
   'readings',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    area: text('area').notNull(),
+    /** The shop area read; null for a station's own reading (an oven, a UV lamp). */
+    area: text('area'),
+    stationId: uuid('station_id').references(() => stations.id),
     at: timestamp('at', { withTimezone: true }).notNull(),
-    tempC: numeric('temp_c', { precision: 5, scale: 2 }).notNull(),
+    /** Null only for a radiometer reading that gives irradiance alone. */
+    tempC: numeric('temp_c', { precision: 5, scale: 2 }),
     rhPct: numeric('rh_pct', { precision: 5, scale: 2 }),
+    /** A UV lamp's irradiance from a radiometer, mW/cm². */
+    irradianceMWcm2: numeric('irradiance_mw_cm2', { precision: 8, scale: 2 }),
     source: text('source').notNull().default('manual'),
     recordedBy: uuid('recorded_by').references(() => users.id),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [
     index('readings_area_at_idx').on(t.area, t.at),
-    check('readings_temp_ck', sql`${t.tempC} BETWEEN -60 AND 150`),
+    index('readings_station_at_idx').on(t.stationId, t.at),
+    check('readings_temp_ck', sql`${t.tempC} IS NULL OR ${t.tempC} BETWEEN -60 AND 400`),
     check('readings_rh_ck', sql`${t.rhPct} IS NULL OR ${t.rhPct} BETWEEN 0 AND 100`),
+    check('readings_irradiance_ck', sql`${t.irradianceMWcm2} IS NULL OR ${t.irradianceMWcm2} >= 0`),
+    check('readings_place_ck', sql`(${t.area} IS NULL) <> (${t.stationId} IS NULL)`),
+    check('readings_value_ck', sql`${t.tempC} IS NOT NULL OR ${t.irradianceMWcm2} IS NOT NULL`),
   ],
 );
 

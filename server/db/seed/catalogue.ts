@@ -75,7 +75,8 @@ export const DEMO_MATERIALS: DemoMaterial[] = [
   {
     code: 'ADH-CA-40', name: 'Cyanoacrylate, medium viscosity', kind: 'adhesive', unit: 'g', storageClass: 'refrigerated',
     supplier: 'SUP-CORV', shelfLifeDays: 300, openLifeHours: 720, outOfStorageAllowanceHours: 72, requiresInspection: true,
-    cure: { refTempC: 22, handlingMinutes: 1, fullCureMinutes: 1440, factorPer10C: 1.5 },
+    // Moisture-curing: a relative-humidity range as data sheets give it (40–60 % RH; from memory, common practice).
+    cure: { refTempC: 22, handlingMinutes: 1, fullCureMinutes: 1440, factorPer10C: 1.5, rhMinPct: 40, rhMaxPct: 60 },
     hazards: { signalWord: 'Warning', pictograms: ['GHS07'], statements: ['H315', 'H319', 'H335', 'EUH202'] },
     reorderPoint: 400, orderQuantity: 1000, leadTimeDays: 10, perContainer: 50,
   },
@@ -132,6 +133,20 @@ export const DEMO_MATERIALS: DemoMaterial[] = [
     code: 'FRM-12S', name: 'Stamped steel frame, 12 in', kind: 'frame', unit: 'pcs', storageClass: 'ambient',
     supplier: 'SUP-QUIL', requiresInspection: true, reorderPoint: 300, orderQuantity: 800, leadTimeDays: 28, perContainer: 40,
   },
+  {
+    // One-part heat-cure epoxy for magnet bonding: an oven schedule (invented data-sheet style values).
+    code: 'ADH-HC-150', name: 'One-part heat-cure epoxy, magnet bond', kind: 'adhesive', unit: 'g', storageClass: 'ambient',
+    supplier: 'SUP-CORV', shelfLifeDays: 180, openLifeHours: 720, requiresInspection: true,
+    cure: { method: 'heat', refTempC: 120, handlingMinutes: 20, fullCureMinutes: 30, schedule: [{ tempC: 120, minutes: 30 }, { tempC: 150, minutes: 15 }] },
+    hazards: SENSITISER, reorderPoint: 500, orderQuantity: 1000, leadTimeDays: 14, perContainer: 250,
+  },
+  {
+    // UV-curing acrylic for dust caps: a dose in mJ/cm² (invented data-sheet style value).
+    code: 'ADH-UV-30', name: 'UV-curing acrylic, dust cap', kind: 'adhesive', unit: 'g', storageClass: 'ambient',
+    supplier: 'SUP-CORV', shelfLifeDays: 365, openLifeHours: 2160, requiresInspection: true,
+    cure: { method: 'uv', refTempC: 23, handlingMinutes: 1, fullCureMinutes: 1, uvDoseMJcm2: 3000 },
+    hazards: SENSITISER, reorderPoint: 300, orderQuantity: 1000, leadTimeDays: 10, perContainer: 100,
+  },
 ];
 
 export const DEMO_STATIONS = [
@@ -142,6 +157,9 @@ export const DEMO_STATIONS = [
   { code: 'ST-CAP-1', name: 'Dust cap bench 1', kind: 'dust_cap', area: 'Line A' },
   { code: 'ST-MZT-1', name: 'Magnetizer and final test 1', kind: 'magnetize_test', area: 'Test bay' },
   { code: 'ST-RWK-1', name: 'Rework bench', kind: 'moving_parts', area: 'Rework' },
+  // Stations that cure with their own readings: an oven and a UV lamp (cautions on the station screen).
+  { code: 'ST-OVN-1', name: 'Magnet bond cure oven 1', kind: 'cure_oven', area: 'Line A', cureEnvironment: 'own' as const },
+  { code: 'ST-UV-1', name: 'Dust cap UV lamp 1', kind: 'uv_cure', area: 'Line A', cureEnvironment: 'own' as const },
 ];
 
 export interface DemoStep {

@@ -217,6 +217,20 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
     ),
   );
 
+  // The oven's own readings (held at 150 °C through the last shift) and the UV lamp's radiometer
+  // readings, the last one 9 days ago: its check is due (lampCheckDays, default 7).
+  const oven = stationRows.find((r) => r.code === 'ST-OVN-1');
+  const lamp = stationRows.find((r) => r.code === 'ST-UV-1');
+  if (oven && lamp) {
+    const ovenReadings = Array.from({ length: 17 }, (_, i) => ({
+      stationId: oven.id, at: iso(now.minus({ minutes: 480 - i * 30 })), tempC: String(i === 0 ? 25 : 150 - (i % 3)), source: 'oven controller', recordedBy: admin,
+    }));
+    const lampReadings = [23, 16, 9].map((days, i) => ({
+      stationId: lamp.id, at: iso(now.minus({ days })), irradianceMWcm2: String([104, 101, 97][i]), source: 'radiometer', recordedBy: admin,
+    }));
+    await tx.insert(s.readings).values([...ovenReadings, ...lampReadings]);
+  }
+
   await tx.insert(s.settings).values([
     // The plant's name as pages show it (its time zone is TACKLOG_PLANT_ZONE, a server setting).
     { key: 'plant', value: { name: 'Halvard Bay Driver Works' }, updatedBy: admin },

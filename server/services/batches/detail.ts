@@ -38,10 +38,10 @@ export async function getBatchDetail(id: string, now: Date = new Date()): Promis
     let cureCompleteAt: string | null = null;
     if (runRow && !runRow.finishedAt) state = 'running';
     if (runRow?.finishedAt) {
-      const cure = await cureOfRun(db, { finishedAt: runRow.finishedAt, area: areas.get(runRow.stationId) ?? '' }, profiles.get(runRow.id) ?? [], now);
+      const cure = await cureOfRun(db, { finishedAt: runRow.finishedAt, area: areas.get(runRow.stationId) ?? '', stationId: runRow.stationId }, profiles.get(runRow.id) ?? [], now);
       handlingAt = cure?.handlingAt ?? null;
       cureCompleteAt = cure?.cureCompleteAt ?? null;
-      state = cure && Date.parse(cure.cureCompleteAt) > now.getTime() ? 'curing' : 'done';
+      state = cure && (cure.cureCompleteAt === null || Date.parse(cure.cureCompleteAt) > now.getTime()) ? 'curing' : 'done';
     }
     steps.push({
       id: s.id,

@@ -3,10 +3,10 @@
  * one per subject that is in breach now. The watch turns new findings into alerts and resolves
  * alerts whose finding has gone.
  */
-import { and, eq, gt, gte, inArray, isNull, lte, notInArray, sql } from 'drizzle-orm';
+import { and, eq, gt, gte, inArray, isNotNull, isNull, lte, notInArray, sql } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import type { DbOrTx } from '../../db/client';
-import { containers, lots, materials, mixes, stationLoads, stations, stepRuns, buildBatches, recipeSteps } from '../../db/schema';
+import { containers, lots, materials, mixes, readings, stationLoads, stations, stepRuns, buildBatches, recipeSteps } from '../../db/schema';
 import { readSetting } from '../settings';
 import { auditChainBroken } from './audit-check';
 import type { AlertSeverity, Role } from '../../../shared/constants';
@@ -19,11 +19,12 @@ import { plantDateTime } from '../../plant-time';
 import { formatDate } from '../../../shared/plant-time';
 import { pChartLimits } from '../../../shared/stats';
 import { lotFailureDetail, lotFailureSentence } from '../../../shared/alert-words';
+import { humidityWindowCheck, type MethodCureProfile } from '../../../shared/cure-methods';
 
 export interface Finding {
   kind: string;
   severity: AlertSeverity;
-  subjectType: 'mix' | 'step_run' | 'container' | 'lot' | 'material' | 'audit_entry';
+  subjectType: 'mix' | 'step_run' | 'container' | 'lot' | 'material' | 'audit_entry' | 'station';
   subjectId: string;
   /** One sentence a person reads in one go. */
   message: string;
@@ -88,7 +89,7 @@ export async function shortCures(tx: DbOrTx, now: Date): Promise<Finding[]> {
   const prevIds = rows.flatMap((r) => (r.prevRunId ? [r.prevRunId] : []));
   const prevRuns = prevIds.length
     ? await tx
-        .select({ id: stepRuns.id, finishedAt: stepRuns.finishedAt, cureCompleteAt: stepRuns.cureCompleteAt, area: stations.area })
+        .select({ id: stepRuns.id, finishedAt: stepRuns.finishedAt, cureCompleteAt: stepRuns.cureCompleteAt, area: stations.area, stationId: stepRuns.stationId })
         .from(stepRuns)
         .innerJoin(stations, eq(stations.id, stepRuns.stationId))
         .where(inArray(stepRuns.id, prevIds))
@@ -101,9 +102,9 @@ export async function shortCures(tx: DbOrTx, now: Date): Promise<Finding[]> {
     // station and the cure board showed it; else the time computed at the previous finish.
     const prev = r.prevRunId ? prevById.get(r.prevRunId) : undefined;
     const seen = prev?.finishedAt
-      ? await cureOfRun(tx, { finishedAt: prev.finishedAt, area: prev.area }, profiles.get(prev.id) ?? [], r.startedAt)
+      ? await cureOfRun(tx, { finishedAt: prev.finishedAt, area: prev.area, stationId: prev.stationId }, profiles.get(prev.id) ?? [], r.startedAt)
       : null;
-    const cureAt = seen ? new Date(seen.cureCompleteAt) : (prev?.cureCompleteAt ?? null);
+    const cureAt = seen?.cureCompleteAt ? new Date(seen.cureCompleteAt) : (prev?.cureCompleteAt ?? null);
     const cure = cureAt
       ? `, before the previous step's adhesive was fully cured (full cure at ${when(cureAt)})`
       : ", before the previous step's adhesive was fully cured";
@@ -250,5 +251,82 @@ export async function belowReorderPoint(tx: DbOrTx): Promise<Finding[]> {
 
 export const ALL_CHECKS = [
   potLifeExceeded, shortCures, expiredInStock, expiringSoon, quarantineAdvised, (tx: DbOrTx) => belowReorderPoint(tx), auditChainBroken,
+  lampCheckDue, humidityOutOfWindow,
 ];
 
+
+/**
+ * A UV station (own cure environment) whose lamp has been measured at least once, or that ran a
+ * UV step, and whose last radiometer reading is older than `lampCheckDays`: the dose of every
+ * step there is computed from that reading, so it must be current.
+ */
+export async function lampCheckDue(tx: DbOrTx, now: Date): Promise<Finding[]> {
+  const days = await readSetting('lampCheckDays', tx);
+  const limit = new Date(now.getTime() - days * 86_400_000);
+  const rows = await tx
+    .select({ id: stations.id, code: stations.code, name: stations.name, last: sql<Date | string>`max(${readings.at})` })
+    .from(stations)
+    .innerJoin(readings, and(eq(readings.stationId, stations.id), isNotNull(readings.irradianceMWcm2)))
+    .where(and(eq(stations.active, true), eq(stations.cureEnvironment, 'own')))
+    .groupBy(stations.id, stations.code, stations.name);
+  return rows
+    .map((r) => ({ ...r, last: new Date(r.last) }))
+    .filter((r) => r.last < limit)
+    .map((r) => ({
+      kind: 'lamp_check_due',
+      severity: 'warning' as const,
+      subjectType: 'station' as const,
+      subjectId: r.id,
+      message: `The UV lamp of ${r.code} (${r.name}) was last measured with the radiometer at ${when(r.last)}, more than ${days} days ago; measure it before curing with it.`,
+      audience: ['quality'] as Role[],
+      data: { stationCode: r.code, lastReadingAt: r.last.toISOString(), lampCheckDays: days },
+    }));
+}
+
+/**
+ * A finished step whose adhesive has a humidity window (moisture-curing, from its data sheet)
+ * and cured, between the finish and full cure (or now), while the area's relative humidity was
+ * outside it. A compliance check, not a rate: no humidity formula is applied to the cure time.
+ */
+export async function humidityOutOfWindow(tx: DbOrTx, now: Date): Promise<Finding[]> {
+  const days = await readSetting('shortCureLookbackDays', tx);
+  const since = new Date(now.getTime() - days * 86_400_000);
+  const runs = await tx
+    .select({ id: stepRuns.id, finishedAt: stepRuns.finishedAt, cureCompleteAt: stepRuns.cureCompleteAt, area: stations.area, batch: buildBatches.code, step: recipeSteps.name })
+    .from(stepRuns)
+    .innerJoin(stations, eq(stations.id, stepRuns.stationId))
+    .innerJoin(buildBatches, eq(buildBatches.id, stepRuns.batchId))
+    .innerJoin(recipeSteps, eq(recipeSteps.id, stepRuns.stepId))
+    .where(and(isNotNull(stepRuns.finishedAt), gte(stepRuns.finishedAt, since)));
+  if (runs.length === 0) return [];
+  const profiles = await profilesForRuns(tx, runs.map((r) => r.id));
+  const out: Finding[] = [];
+  for (const r of runs) {
+    const windows = ((profiles.get(r.id) ?? []) as MethodCureProfile[]).filter((p) => typeof p.rhMinPct === 'number' || typeof p.rhMaxPct === 'number');
+    if (windows.length === 0 || !r.finishedAt) continue;
+    const to = r.cureCompleteAt && r.cureCompleteAt < now ? r.cureCompleteAt : now;
+    const rows = await tx
+      .select({ at: readings.at, rh: readings.rhPct })
+      .from(readings)
+      .where(and(eq(readings.area, r.area), isNotNull(readings.rhPct), lte(readings.at, to), gte(readings.at, new Date(r.finishedAt.getTime() - 4 * 3_600_000))))
+      .orderBy(readings.at);
+    const rh = rows.map((x) => ({ at: x.at.toISOString(), rhPct: Number(x.rh) }));
+    for (const w of windows) {
+      const check = humidityWindowCheck(w, r.finishedAt.toISOString(), to.toISOString(), rh);
+      if (check.ok) continue;
+      const first = check.outside[0];
+      const range = `${w.rhMinPct ?? 0}–${w.rhMaxPct ?? 100} % RH`;
+      out.push({
+        kind: 'humidity_out_of_window',
+        severity: 'warning',
+        subjectType: 'step_run',
+        subjectId: r.id,
+        message: `Batch ${r.batch}, step "${r.step}": the adhesive cured while ${r.area} was at ${first.rhPct} % RH (from ${when(new Date(first.from))}), outside its data sheet range of ${range}.`,
+        audience: ['quality'],
+        data: { batchCode: r.batch, step: r.step, area: r.area, outside: check.outside, rhMinPct: w.rhMinPct ?? null, rhMaxPct: w.rhMaxPct ?? null },
+      });
+      break;
+    }
+  }
+  return out;
+}

@@ -14,7 +14,7 @@ import { ALL_CHECKS, type Finding } from './findings';
 const WATCH_LOCK = 7226002;
 
 /** Kinds that clear by themselves when their condition goes; the others wait for a person. */
-const SELF_CLEARING = new Set(['pot_life_exceeded', 'expired_in_stock', 'expiring_soon', 'quarantine_advised', 'below_reorder_point']);
+const SELF_CLEARING = new Set(['pot_life_exceeded', 'expired_in_stock', 'expiring_soon', 'quarantine_advised', 'below_reorder_point', 'lamp_check_due']);
 
 const keyOf = (f: { kind: string; subjectType: string; subjectId: string }) => `${f.kind}|${f.subjectType}|${f.subjectId}`;
 

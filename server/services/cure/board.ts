@@ -45,13 +45,13 @@ async function cureItems(tx: DbOrTx, where: ReturnType<typeof and>, now: Date, i
 
   const items: CureItem[] = [];
   for (const r of rows) {
-    const cure = await cureOfRun(tx, { finishedAt: r.run.finishedAt!, area: r.area }, profiles.get(r.run.id) ?? [], now);
+    const cure = await cureOfRun(tx, { finishedAt: r.run.finishedAt!, area: r.area, stationId: r.run.stationId }, profiles.get(r.run.id) ?? [], now);
     if (!cure) continue;
     const next = allSteps.filter((s) => s.modelId === r.modelId && s.seq > r.step.seq).sort((a, b) => a.seq - b.seq)[0] ?? null;
     const nextStarted = next
       ? later.some((l) => l.batchId === r.run.batchId && l.stepId === next.id && l.driverId === r.run.driverId && l.startedAt >= r.run.finishedAt!)
       : true;
-    const ready = Date.parse(cure.cureCompleteAt) <= now.getTime();
+    const ready = cure.cureCompleteAt !== null && Date.parse(cure.cureCompleteAt) <= now.getTime();
     const waitedOn = r.step.waitForCure && !nextStarted && r.batchStatus !== 'cancelled';
     if (!includeAll && ready && !waitedOn) continue;
     items.push({
@@ -72,11 +72,14 @@ async function cureItems(tx: DbOrTx, where: ReturnType<typeof and>, now: Date, i
       handlingAt: cure.handlingAt,
       cureCompleteAt: cure.cureCompleteAt,
       progress: cure.progress,
+      cureEnvironment: cure.environment,
       ready,
       nextStep: next ? { id: next.id, seq: next.seq, name: next.name } : null,
     });
   }
-  return items.sort((a, b) => Date.parse(a.cureCompleteAt) - Date.parse(b.cureCompleteAt));
+  // A cure making no progress (null) sorts last.
+  const key = (i: CureItem) => (i.cureCompleteAt === null ? Number.POSITIVE_INFINITY : Date.parse(i.cureCompleteAt));
+  return items.sort((a, b) => key(a) - key(b));
 }
 
 /** GET /api/batches/:id/cure: every timed cure of the batch, recomputed now. */

@@ -11,9 +11,11 @@ function toReading(r: typeof readings.$inferSelect): Reading {
   return {
     id: r.id,
     area: r.area,
+    stationId: r.stationId,
     at: r.at.toISOString(),
-    tempC: Number(r.tempC),
+    tempC: r.tempC === null ? null : Number(r.tempC),
     rhPct: r.rhPct === null ? null : Number(r.rhPct),
+    irradianceMWcm2: r.irradianceMWcm2 === null ? null : Number(r.irradianceMWcm2),
     source: r.source,
     recordedBy: r.recordedBy,
     createdAt: r.createdAt.toISOString(),
@@ -30,23 +32,25 @@ export async function recordReadings(actor: Actor, items: ReadingInput[]): Promi
   const createdAt = new Date().toISOString();
   const out: Reading[] = items.map((r) => ({
     id: crypto.randomUUID(),
-    area: r.area,
+    area: r.area ?? null,
+    stationId: r.stationId ?? null,
     at: new Date(r.at).toISOString(),
-    tempC: Number(r.tempC.toFixed(2)),
+    tempC: r.tempC === undefined || r.tempC === null ? null : Number(r.tempC.toFixed(2)),
     rhPct: r.rhPct === undefined || r.rhPct === null ? null : Number(r.rhPct.toFixed(2)),
+    irradianceMWcm2: r.irradianceMWcm2 === undefined || r.irradianceMWcm2 === null ? null : Number(r.irradianceMWcm2.toFixed(2)),
     source: r.source ?? 'manual',
     recordedBy: actor.id,
     createdAt,
   }));
-  const input = JSON.stringify(out.map((r) => ({ id: r.id, area: r.area, at: r.at, temp_c: r.tempC, rh_pct: r.rhPct, source: r.source, audit_after: r })));
+  const input = JSON.stringify(out.map((r) => ({ id: r.id, area: r.area, station_id: r.stationId, at: r.at, temp_c: r.tempC, rh_pct: r.rhPct, irradiance: r.irradianceMWcm2, source: r.source, audit_after: r })));
   await runNamed(db, 'readings_record', sql`
     WITH input AS (
       SELECT * FROM json_to_recordset(${input}::json)
-        AS t(id uuid, area text, at timestamptz, temp_c numeric, rh_pct numeric, source text, audit_after jsonb)
+        AS t(id uuid, area text, station_id uuid, at timestamptz, temp_c numeric, rh_pct numeric, irradiance numeric, source text, audit_after jsonb)
     ),
     saved AS (
-      INSERT INTO readings (id, area, at, temp_c, rh_pct, source, recorded_by, created_at)
-      SELECT id, area, at, temp_c, rh_pct, source, ${actor.id}::uuid, ${createdAt}::timestamptz FROM input
+      INSERT INTO readings (id, area, station_id, at, temp_c, rh_pct, irradiance_mw_cm2, source, recorded_by, created_at)
+      SELECT id, area, station_id, at, temp_c, rh_pct, irradiance, source, ${actor.id}::uuid, ${createdAt}::timestamptz FROM input
       RETURNING id
     )
     INSERT INTO audit_log (actor_id, action, entity_type, entity_id, after)
@@ -63,6 +67,7 @@ export async function listReadings(query: ReadingQuery): Promise<{ items: Readin
     .where(
       and(
         query.area ? eq(readings.area, query.area) : undefined,
+        query.stationId ? eq(readings.stationId, query.stationId) : undefined,
         query.from ? gte(readings.at, new Date(query.from)) : undefined,
         query.to ? lte(readings.at, new Date(query.to)) : undefined,
       ),

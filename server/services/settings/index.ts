@@ -21,6 +21,8 @@ export const SETTING_DEFAULTS = {
   baselineWindowDays: 90,
   /** … when at least this many drivers were tested there (else the default above). */
   baselineMinTested: 200,
+  /** A UV lamp whose last radiometer reading is older than this many days raises "radiometer check due". */
+  lampCheckDays: 7,
 } as const;
 
 export type SettingKey = keyof typeof SETTING_DEFAULTS;

@@ -17,6 +17,7 @@ export function toStation(row: StationRow): Station {
     name: row.name,
     kind: row.kind,
     area: row.area,
+    cureEnvironment: row.cureEnvironment === 'own' ? 'own' : 'area',
     active: row.active,
     createdAt: row.createdAt.toISOString(),
   };

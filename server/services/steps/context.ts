@@ -16,6 +16,8 @@ export interface StepActionRequest {
   stepId: string;
   stationId: string;
   serial?: string;
+  /** Finish of a UV step: exposure under the lamp, seconds. */
+  exposureSeconds?: number;
 }
 
 export interface StepContext {
@@ -73,7 +75,7 @@ export async function recomputeCure(tx: Tx, run: StepRunRow, now: Date): Promise
   if (!run.finishedAt) return null;
   const [st] = await tx.select({ area: stations.area }).from(stations).where(eq(stations.id, run.stationId));
   const profiles = (await profilesForRuns(tx, [run.id])).get(run.id) ?? [];
-  return cureOfRun(tx, { finishedAt: run.finishedAt, area: st.area }, profiles, now);
+  return cureOfRun(tx, { finishedAt: run.finishedAt, area: st.area, stationId: run.stationId }, profiles, now);
 }
 
 /** The open (unfinished) run of this step for the batch or the unit, locked. */

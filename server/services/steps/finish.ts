@@ -1,7 +1,10 @@
-import { and, eq, isNull } from 'drizzle-orm';
+import { and, asc, desc, eq, isNotNull, isNull, lte } from 'drizzle-orm';
 import { db, type DbOrTx } from '../../db/client';
-import { stationLoads, stepRunMaterials, stepRuns } from '../../db/schema';
-import { conflict } from '../../errors';
+import { deviations, readings, stationLoads, stepRunMaterials, stepRuns } from '../../db/schema';
+import { conflict, fieldError } from '../../errors';
+import { uvDose, type MethodCureProfile } from '../../../shared/cure-methods';
+import type { CureProfile } from '../../../shared/cure';
+import type { Tx } from '../../db/client';
 import type { Actor } from '../auth/actor';
 import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
@@ -50,17 +53,19 @@ export async function finishStep(
 
     const units = ctx.driver ? 1 : ctx.batch.quantity;
     await consumeForRun(tx, actor, run.id, ctx.step, units, ctx.batch.code, now);
+    // After consumption (profiles come from what the run drew); a refusal rolls it all back.
+    const uv = await uvDoseCheck(tx, actor, ctx, run.id, input.exposureSeconds, now);
 
     const profiles = (await profilesForRuns(tx, [run.id])).get(run.id) ?? [];
-    const cure = await cureOfRun(tx, { finishedAt: now, area: ctx.station.area }, profiles, now);
+    const cure = await cureOfRun(tx, { finishedAt: now, area: ctx.station.area, stationId: ctx.station.id }, profiles, now);
     await tx
       .update(stepRuns)
       .set({
         finishedAt: now,
         finishedBy: actor.id,
         unitsDone: units,
-        handlingAt: cure ? new Date(cure.handlingAt) : null,
-        cureCompleteAt: cure ? new Date(cure.cureCompleteAt) : null,
+        handlingAt: cure?.handlingAt ? new Date(cure.handlingAt) : null,
+        cureCompleteAt: cure?.cureCompleteAt ? new Date(cure.cureCompleteAt) : null,
       })
       .where(eq(stepRuns.id, run.id));
     const stepRun = await describeRun(tx, run.id);
@@ -70,8 +75,62 @@ export async function finishStep(
       entityType: 'step_run',
       entityId: run.id,
       before: { finishedAt: null },
-      after: stepRun,
+      after: uv ? { ...stepRun, uv } : stepRun,
     });
     return { stepRun };
   });
+}
+
+interface UvRecord { exposureSeconds: number; irradianceMWcm2: number; irradianceAt: string; doseMJcm2: number; neededMJcm2: number; deviationId: string | null }
+
+/**
+ * A UV-curing adhesive is cured by its dose (shared/cure-methods.ts): irradiance from the
+ * station's latest radiometer reading × the exposure the assembler gives at the finish. Short of
+ * the adhesive's dose (or with no radiometer reading), the finish is refused (409 UV_DOSE_LOW)
+ * unless quality signed an unused 'uv_dose_low' deviation for this batch and step.
+ */
+async function uvDoseCheck(
+  tx: Tx, actor: Actor, ctx: Awaited<ReturnType<typeof stepContext>>, runId: string, exposureSeconds: number | undefined, now: Date,
+): Promise<UvRecord | null> {
+  const profiles = ((await profilesForRuns(tx, [runId])).get(runId) ?? []) as (CureProfile & MethodCureProfile)[];
+  const uvProfiles = profiles.filter((p) => p.method === 'uv' && typeof p.uvDoseMJcm2 === 'number');
+  if (uvProfiles.length === 0) return null;
+  if (exposureSeconds === undefined) throw fieldError('exposureSeconds', 'is required: the adhesive of this step cures under UV light, by dose');
+  const needed = Math.max(...uvProfiles.map((p) => p.uvDoseMJcm2 as number));
+  const [lamp] = await tx
+    .select({ at: readings.at, irr: readings.irradianceMWcm2 })
+    .from(readings)
+    .where(and(eq(readings.stationId, ctx.station.id), isNotNull(readings.irradianceMWcm2), lte(readings.at, now)))
+    .orderBy(desc(readings.at), desc(readings.createdAt))
+    .limit(1);
+  const irradiance = lamp ? Number(lamp.irr) : 0;
+  const dose = uvDose(irradiance, exposureSeconds);
+  const record: UvRecord = {
+    exposureSeconds, irradianceMWcm2: irradiance, irradianceAt: lamp ? lamp.at.toISOString() : '', doseMJcm2: dose, neededMJcm2: needed, deviationId: null,
+  };
+  if (lamp && dose >= needed) return record;
+
+  const [deviation] = await tx
+    .select()
+    .from(deviations)
+    .where(and(eq(deviations.batchId, ctx.batch.id), eq(deviations.stepId, ctx.step.id), eq(deviations.kind, 'uv_dose_low'), isNull(deviations.usedAt)))
+    .orderBy(asc(deviations.signedAt))
+    .limit(1)
+    .for('update');
+  if (!deviation) {
+    const fmt = (n: number) => String(Math.round(n)).replace(/\B(?=(\d{3})+(?!\d))/g, ',');
+    throw conflict(
+      'UV_DOSE_LOW',
+      lamp
+        ? `The UV dose reached is ${fmt(dose)} mJ/cm² (${irradiance} mW/cm² × ${exposureSeconds} s); the adhesive needs ${fmt(needed)} mJ/cm². Expose longer (at least ${Math.ceil(needed / irradiance)} s at this lamp), check the lamp, or ask quality to record a deviation.`
+        : `No radiometer reading is recorded for the lamp of station ${ctx.station.code}, so the dose reached is unknown (0 mJ/cm² counted); the adhesive needs ${fmt(needed)} mJ/cm². Measure the lamp and record its reading, or ask quality to record a deviation.`,
+      { doseMJcm2: dose, neededMJcm2: needed, irradianceMWcm2: lamp ? irradiance : null, exposureSeconds },
+    );
+  }
+  await tx.update(deviations).set({ usedAt: now }).where(eq(deviations.id, deviation.id));
+  await recordAudit(tx, {
+    actorId: actor.id, action: 'deviation.use', entityType: 'deviation', entityId: deviation.id,
+    before: { usedAt: null }, after: { usedAt: now.toISOString(), doseMJcm2: dose, neededMJcm2: needed },
+  });
+  return { ...record, deviationId: deviation.id };
 }

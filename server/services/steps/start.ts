@@ -51,7 +51,7 @@ async function cureGate(tx: Tx, ctx: StepContext, now: Date, actor: Actor): Prom
   const prevRun = await runToWaitFor(tx, ctx, prev);
   if (!prevRun) return { shortCure: false, deviationId: null };
   const cure = await recomputeCure(tx, prevRun, now);
-  if (!cure || Date.parse(cure.cureCompleteAt) <= now.getTime()) return { shortCure: false, deviationId: null };
+  if (!cure || (cure.cureCompleteAt !== null && Date.parse(cure.cureCompleteAt) <= now.getTime())) return { shortCure: false, deviationId: null };
 
   const [deviation] = await tx
     .select()
@@ -63,7 +63,9 @@ async function cureGate(tx: Tx, ctx: StepContext, now: Date, actor: Actor): Prom
   if (!deviation) {
     throw conflict(
       'CURE_INCOMPLETE',
-      `The adhesive of step "${prev.name}" is not fully cured until ${when(cure.cureCompleteAt, now)} (${Math.floor(cure.progress * 100)} % now). Wait, or ask quality to record a deviation to start early.`,
+      cure.cureCompleteAt === null
+        ? `The adhesive of step "${prev.name}" is making no cure progress at the temperature recorded ${cure.environment === 'own' ? 'for its station (no oven reading, or too cold)' : 'in the area (below its minimum cure temperature)'}; it is not fully cured. Wait, or ask quality to record a deviation to start early.`
+        : `The adhesive of step "${prev.name}" is not fully cured until ${when(cure.cureCompleteAt, now)} (${Math.floor(cure.progress * 100)} % now). Wait, or ask quality to record a deviation to start early.`,
       { cureCompleteAt: cure.cureCompleteAt, handlingAt: cure.handlingAt, stepRunId: prevRun.id, stepId: prev.id },
     );
   }

@@ -37,21 +37,22 @@ export async function missingSteps(tx: Tx, batchId: string, driverId: string): P
 /** When the adhesive of the recipe's last step (if it must cure) is fully cured for this driver; null if nothing to wait for. */
 async function lastStepCureCompleteAt(tx: Tx, batchId: string, driverId: string, now: Date): Promise<Date | null> {
   const res = await tx.execute(sql`
-    SELECT sr.id, sr.finished_at, st.area
+    SELECT sr.id, sr.finished_at, st.area, sr.station_id
     FROM build_batches b
     JOIN LATERAL (SELECT id, wait_for_cure FROM recipe_steps WHERE model_id = b.model_id ORDER BY seq DESC LIMIT 1) last ON true
     JOIN step_runs sr ON sr.step_id = last.id AND sr.finished_at IS NOT NULL
       AND ((sr.batch_id = b.id AND sr.driver_id IS NULL) OR sr.driver_id = ${driverId})
     JOIN stations st ON st.id = sr.station_id
     WHERE b.id = ${batchId} AND last.wait_for_cure`);
-  const runs = res.rows as { id: string; finished_at: Date | string; area: string }[];
+  const runs = res.rows as { id: string; finished_at: Date | string; area: string; station_id: string }[];
   // The same computation as the station's start gate and the cure board: recomputed from the
   // area's readings since the finish, not the estimate stored at finish.
   const profiles = await profilesForRuns(tx, runs.map((r) => r.id));
   let latest: Date | null = null;
   for (const r of runs) {
-    const cure = await cureOfRun(tx, { finishedAt: new Date(r.finished_at), area: r.area }, profiles.get(r.id) ?? [], now);
-    const at = cure ? new Date(cure.cureCompleteAt) : null;
+    const cure = await cureOfRun(tx, { finishedAt: new Date(r.finished_at), area: r.area, stationId: r.station_id }, profiles.get(r.id) ?? [], now);
+    // A cure making no progress (an oven with no reading) is not complete: it holds the test.
+    const at = cure ? (cure.cureCompleteAt ? new Date(cure.cureCompleteAt) : new Date(8.64e15)) : null;
     if (at && (!latest || at > latest)) latest = at;
   }
   return latest;

@@ -29,6 +29,13 @@ export interface MaterialDraft {
     model: 'factor' | 'arrhenius';
     factorPer10C: number | null;
     activationEnergyKJ: number | null;
+    /** ambient (room air), heat (oven schedule) or uv (dose): shared/cure-methods.ts */
+    method: 'ambient' | 'heat' | 'uv';
+    minTempC: number | null;
+    schedule: { tempC: number | null; minutes: number | null }[];
+    uvDoseMJcm2: number | null;
+    rhMinPct: number | null;
+    rhMaxPct: number | null;
   };
   requiresInspection: boolean;
   signalWord: 'Danger' | 'Warning' | null;
@@ -44,7 +51,7 @@ export interface MaterialDraft {
 export const MATERIAL_FIELDS = [
   'code', 'name', 'kind', 'unit', 'storageClass', 'shelfLifeDays', 'openLifeHours', 'thawedLifeHours',
   'outOfStorageAllowanceHours', 'potLifeMinutes', 'partnerMaterialId', 'mixRatio', 'cure', 'cure.refTempC',
-  'cure.handlingMinutes', 'cure.fullCureMinutes', 'cure.factorPer10C', 'cure.activationEnergyKJ', 'requiresInspection',
+  'cure.handlingMinutes', 'cure.fullCureMinutes', 'cure.factorPer10C', 'cure.activationEnergyKJ', 'cure.method', 'cure.minTempC', 'cure.schedule', 'cure.uvDoseMJcm2', 'cure.rhMinPct', 'cure.rhMaxPct', 'requiresInspection',
   'hazards.signalWord', 'hazards.pictograms', 'hazards.statements', 'gtin', 'reorderPoint', 'orderQuantity', 'leadTimeDays',
 ] as const;
 
@@ -54,7 +61,9 @@ export const MATERIAL_FIELD_LABELS: Readonly<Record<string, string>> = {
   openLifeHours: 'After-opening life', thawedLifeHours: 'Life after thawing', outOfStorageAllowanceHours: 'Out-of-storage allowance',
   potLifeMinutes: 'Pot life', partnerMaterialId: 'Mix partner', mixRatio: 'Mix ratio', cure: 'Cure profile',
   'cure.refTempC': 'Reference temperature', 'cure.handlingMinutes': 'Handling time', 'cure.fullCureMinutes': 'Full-cure time',
-  'cure.factorPer10C': 'Rate factor', 'cure.activationEnergyKJ': 'Activation energy', requiresInspection: 'Inspection',
+  'cure.factorPer10C': 'Rate factor', 'cure.activationEnergyKJ': 'Activation energy',
+  'cure.method': 'Cure method', 'cure.minTempC': 'Minimum cure temperature', 'cure.schedule': 'Oven schedule', 'cure.uvDoseMJcm2': 'UV dose',
+  'cure.rhMinPct': 'Lowest humidity', 'cure.rhMaxPct': 'Highest humidity', requiresInspection: 'Inspection',
   'hazards.signalWord': 'Signal word', 'hazards.pictograms': 'Pictograms', 'hazards.statements': 'Hazard statements',
   gtin: 'GTIN', reorderPoint: 'Reorder point', orderQuantity: 'Order quantity', leadTimeDays: 'Lead time',
 };
@@ -64,7 +73,8 @@ export function emptyDraft(): MaterialDraft {
     code: '', name: '', kind: null, unit: '', storageClass: 'ambient', shelfLifeDays: null, openLifeHours: null,
     thawedLifeHours: null, outOfStorageAllowanceHours: null, potLifeMinutes: null, partnerMaterialId: null, mixRatio: null,
     hasCure: false,
-    cure: { refTempC: 23, handlingMinutes: null, fullCureMinutes: null, model: 'factor', factorPer10C: 2, activationEnergyKJ: null },
+    cure: { refTempC: 23, handlingMinutes: null, fullCureMinutes: null, model: 'factor', factorPer10C: 2, activationEnergyKJ: null,
+      method: 'ambient', minTempC: null, schedule: [], uvDoseMJcm2: null, rhMinPct: null, rhMaxPct: null },
     requiresInspection: true, signalWord: null, pictograms: [], statements: [], gtin: '', reorderPoint: null,
     orderQuantity: null, leadTimeDays: null,
   };
@@ -83,6 +93,12 @@ export function draftFromMaterial(m: DeepReadonly<Material>): MaterialDraft {
       model: m.cure?.activationEnergyKJ !== undefined ? 'arrhenius' : 'factor',
       factorPer10C: m.cure?.factorPer10C ?? (m.cure?.activationEnergyKJ !== undefined ? null : 2),
       activationEnergyKJ: m.cure?.activationEnergyKJ ?? null,
+      method: m.cure?.method ?? 'ambient',
+      minTempC: m.cure?.minTempC ?? null,
+      schedule: (m.cure?.schedule ?? []).map((p) => ({ tempC: p.tempC, minutes: p.minutes })),
+      uvDoseMJcm2: m.cure?.uvDoseMJcm2 ?? null,
+      rhMinPct: m.cure?.rhMinPct ?? null,
+      rhMaxPct: m.cure?.rhMaxPct ?? null,
     },
     requiresInspection: m.requiresInspection,
     signalWord: m.hazards.signalWord ?? null,
@@ -117,6 +133,12 @@ export function draftToInput(d: MaterialDraft): MaterialInput {
         ...(d.cure.model === 'factor'
           ? { factorPer10C: required(d.cure.factorPer10C) }
           : { activationEnergyKJ: required(d.cure.activationEnergyKJ) as number }),
+        method: d.cure.method,
+        ...(d.cure.method === 'ambient' && num(d.cure.minTempC) !== null ? { minTempC: num(d.cure.minTempC) as number } : {}),
+        ...(d.cure.method === 'heat' ? { schedule: d.cure.schedule.map((p) => ({ tempC: required(p.tempC) as number, minutes: required(p.minutes) as number })) } : {}),
+        ...(d.cure.method === 'uv' ? { uvDoseMJcm2: required(d.cure.uvDoseMJcm2) as number } : {}),
+        ...(num(d.cure.rhMinPct) !== null ? { rhMinPct: num(d.cure.rhMinPct) as number } : {}),
+        ...(num(d.cure.rhMaxPct) !== null ? { rhMaxPct: num(d.cure.rhMaxPct) as number } : {}),
       }
     : null;
   return {
