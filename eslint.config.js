@@ -4,6 +4,8 @@ import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 import pluginVue from 'eslint-plugin-vue';
 import globals from 'globals';
+// Last: turns off the rules that only decide layout, which Prettier owns (`npm run format`).
+import prettier from 'eslint-config-prettier/flat';
 
 export default tseslint.config(
   {
@@ -46,4 +48,5 @@ export default tseslint.config(
       'vue/multi-word-component-names': ['error', { ignores: ['App'] }],
     },
   },
+  prettier,
 );

@@ -160,12 +160,22 @@ async function signIn(base: string, email: string, password: string): Promise<st
 }
 
 /** The initial route as a fresh browser gets it: JS + CSS it loads (gzip -6 sizes) and first contentful paint. */
-async function measureFirstPage(base: string): Promise<{ gzipKb: number; rawKb: number; sentCompressed: boolean; fcpMs: number | null; files: number }> {
+async function measureFirstPage(
+  base: string,
+): Promise<{ gzipKb: number; rawKb: number; sentCompressed: boolean; fcpMs: number | null; files: number }> {
   const { chromium } = await import('playwright-core');
   const browser = await chromium.launch({
     executablePath: '/usr/bin/chromium',
     headless: true,
-    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--no-first-run', '--disable-sync'],
+    args: [
+      '--headless',
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--no-first-run',
+      '--disable-sync',
+    ],
   });
   try {
     const page = await browser.newPage();
@@ -183,7 +193,13 @@ async function measureFirstPage(base: string): Promise<{ gzipKb: number; rawKb: 
       raw += body.length;
       gzip += zlib.gzipSync(body, { level: 6 }).length;
     }
-    return { gzipKb: gzip / 1024, rawKb: raw / 1024, sentCompressed: assets.length > 0 && assets.every((a) => a.encoding === 'gzip' || a.encoding === 'br'), fcpMs: fcp, files: assets.length };
+    return {
+      gzipKb: gzip / 1024,
+      rawKb: raw / 1024,
+      sentCompressed: assets.length > 0 && assets.every((a) => a.encoding === 'gzip' || a.encoding === 'br'),
+      fcpMs: fcp,
+      files: assets.length,
+    };
   } finally {
     await browser.close();
   }
@@ -208,7 +224,8 @@ runMain(async () => {
   const reuse = process.env.TACKLOG_BENCH_DATABASE;
   const keep = Boolean(reuse) || process.env.TACKLOG_BENCH_KEEP === '1';
   const dbName = reuse || `tacklog_bench_${crypto.randomBytes(4).toString('hex')}`;
-  if (reuse && !/^tacklog_bench_[a-z0-9_]+$/.test(reuse)) throw new Error('TACKLOG_BENCH_DATABASE must name a benchmark database (tacklog_bench_…)');
+  if (reuse && !/^tacklog_bench_[a-z0-9_]+$/.test(reuse))
+    throw new Error('TACKLOG_BENCH_DATABASE must name a benchmark database (tacklog_bench_…)');
   const url = await ensureDatabase(server, dbName);
   if (!keep) {
     onShutdown(async () => {
@@ -256,14 +273,18 @@ runMain(async () => {
   const seeded = { batches: sz.history_batches as number };
   shape.batchSize = sz.batch_size;
   shape.days = sz.days;
-  log(`${seedSeconds ? `seeded in ${seedSeconds.toFixed(1)} s` : 'history'}: ${sz.drivers} drivers, ${sz.batches} batches, ${sz.runs} step runs, ${sz.uses} material uses, ${sz.tests} final tests, ${sz.lots} lots, ${sz.containers} containers (${sz.size})`);
+  log(
+    `${seedSeconds ? `seeded in ${seedSeconds.toFixed(1)} s` : 'history'}: ${sz.drivers} drivers, ${sz.batches} batches, ${sz.runs} step runs, ${sz.uses} material uses, ${sz.tests} final tests, ${sz.lots} lots, ${sz.containers} containers (${sz.size})`,
+  );
 
   // ---------------------------------------------------------------- pgbench on the same server
   const pgbench = findPgbench();
   const pgbName = `${dbName}_pgbench`;
   const pgbUrl = await ensureDatabase(server, pgbName);
   onShutdown(() => dropDatabase(server, pgbName));
-  log(`pgbench: initializing scale ${clients} (one branch per client), then TPC-B-like and select-only, ${clients} clients, ${seconds} s each`);
+  log(
+    `pgbench: initializing scale ${clients} (one branch per client), then TPC-B-like and select-only, ${clients} clients, ${seconds} s each`,
+  );
   await pgbenchInit(pgbench, pgbUrl, clients);
   const tpcb = await pgbenchRun(pgbench, pgbUrl, { clients, seconds, select: false });
   const selectOnly = await pgbenchRun(pgbench, pgbUrl, { clients, seconds, select: true });
@@ -292,15 +313,30 @@ runMain(async () => {
       expect('resolve', 200, resolved);
       const batchId = station.batchIds[caller % station.batchIds.length];
       // The station screen sends each load with an Idempotency-Key (its offline queue retries with it).
-      const loaded = await http.request('POST', `/api/stations/${station.stationId}/load`, { batchId, containerCode: code }, { ...auth, 'idempotency-key': crypto.randomUUID() });
+      const loaded = await http.request(
+        'POST',
+        `/api/stations/${station.stationId}/load`,
+        { batchId, containerCode: code },
+        { ...auth, 'idempotency-key': crypto.randomUUID() },
+      );
       expect('load', 200, loaded);
     };
     const lookup = async () => {
-      const reply = await http.request('POST', '/api/scans/resolve', { code: knownCodes[Math.floor(Math.random() * knownCodes.length)] }, auth);
+      const reply = await http.request(
+        'POST',
+        '/api/scans/resolve',
+        { code: knownCodes[Math.floor(Math.random() * knownCodes.length)] },
+        auth,
+      );
       expect('resolve', 200, reply);
     };
     const reading = async (caller: number) => {
-      const reply = await http.request('POST', '/api/readings', { area: `bench hall ${caller % 4}`, at: new Date().toISOString(), tempC: 21.5, rhPct: 45 }, auth);
+      const reply = await http.request(
+        'POST',
+        '/api/readings',
+        { area: `bench hall ${caller % 4}`, at: new Date().toISOString(), tempC: 21.5, rhPct: 45 },
+        auth,
+      );
       expect('reading', 201, reply);
     };
     try {
@@ -353,7 +389,9 @@ runMain(async () => {
   // Sanity: the traces say what the seed built.
   const sample = JSON.parse(await apiGet(`/api/lots/${lotIds[0]}/trace`)) as { drivers: unknown[]; batches: unknown[] };
   const back = JSON.parse(await apiGet(`/api/drivers/${serials[0]}/trace`)) as { steps: { materials: unknown[] }[] };
-  log(`sample lot ${benchSupplierLot('CA', lotNumbers[0])} reaches ${sample.drivers.length} drivers in ${sample.batches.length} batches; sample driver ${serials[0]} has ${back.steps.length} step runs, ${back.steps.reduce((n, s) => n + s.materials.length, 0)} material entries`);
+  log(
+    `sample lot ${benchSupplierLot('CA', lotNumbers[0])} reaches ${sample.drivers.length} drivers in ${sample.batches.length} batches; sample driver ${serials[0]} has ${back.steps.length} step runs, ${back.steps.reduce((n, s) => n + s.materials.length, 0)} material entries`,
+  );
 
   log('traces: warming up');
   const warmSerials = serials.slice(0, 20);
@@ -372,7 +410,7 @@ runMain(async () => {
   const lotSql = await timeEach(lotIds, bareLot);
   const floor = summary(await timeEach(serials, () => apiGet('/api/auth/me')));
 
-  log('compliance sweep: three full sweeps (the first raises the history\'s alerts)');
+  log("compliance sweep: three full sweeps (the first raises the history's alerts)");
   const sweeps = await timeEach([1, 2, 3], async () => {
     const res = await fetch(`${one.base}/api/compliance/run`, { method: 'POST', headers });
     if (res.status !== 200) throw new Error(`compliance run: ${res.status} ${await res.text()}`);
@@ -383,7 +421,9 @@ runMain(async () => {
   log('first page: a fresh Chromium opens /');
   const firstPage = await measureFirstPage(one.base);
 
-  log(`load at ${clients} clients, TACKLOG_WORKERS=1: station scans, scan lookups, readings (${seconds} s each after ${warmupMs / 1000} s warm-up)`);
+  log(
+    `load at ${clients} clients, TACKLOG_WORKERS=1: station scans, scan lookups, readings (${seconds} s each after ${warmupMs / 1000} s warm-up)`,
+  );
   const at1 = await loadPhases(one, { assembler });
   await one.stop();
 
@@ -421,25 +461,41 @@ runMain(async () => {
   };
 
   console.log('');
-  console.log(`Tacklog benchmark${quick ? ' (--quick)' : ''} — ${sz.drivers.toLocaleString('en')} drivers over ${shape.days} days${seedSeconds ? `, seeded in ${seedSeconds.toFixed(1)} s` : ' (database reused)'};`);
-  console.log(`${os.cpus().length} × ${os.cpus()[0]?.model.trim() ?? 'CPU'}, ${(os.totalmem() / 2 ** 30).toFixed(0)} GiB, Node ${process.version}; load: ${clients} clients over loopback, ${seconds} s per phase.`);
+  console.log(
+    `Tacklog benchmark${quick ? ' (--quick)' : ''} — ${sz.drivers.toLocaleString('en')} drivers over ${shape.days} days${seedSeconds ? `, seeded in ${seedSeconds.toFixed(1)} s` : ' (database reused)'};`,
+  );
+  console.log(
+    `${os.cpus().length} × ${os.cpus()[0]?.model.trim() ?? 'CPU'}, ${(os.totalmem() / 2 ** 30).toFixed(0)} GiB, Node ${process.version}; load: ${clients} clients over loopback, ${seconds} s per phase.`,
+  );
   console.log('');
   const rows: string[][] = [['path', 'workers', 'per s', 'p50', 'p99', 'pgbench on the same server', 'ratio']];
   const loadRow = (label: string, w: number, r: LoadResult, base?: { name: string; tps: number }) =>
-    rows.push([label, String(w), r.perSec.toFixed(0), `${r.p50.toFixed(1)} ms`, `${r.p99.toFixed(1)} ms`, base ? `${base.name} ${base.tps.toFixed(0)} tps` : '', base ? (r.perSec / base.tps).toFixed(3) : '']);
+    rows.push([
+      label,
+      String(w),
+      r.perSec.toFixed(0),
+      `${r.p50.toFixed(1)} ms`,
+      `${r.p99.toFixed(1)} ms`,
+      base ? `${base.name} ${base.tps.toFixed(0)} tps` : '',
+      base ? (r.perSec / base.tps).toFixed(3) : '',
+    ]);
   for (const [w, r] of [[1, at1], ...(atN ? [[nWorkers, atN]] : [])] as [number, typeof at1][]) {
     loadRow('station scan (resolve + load, audited)', w, r.scan, { name: 'TPC-B-like', tps: tpcb.tps });
     loadRow('scan lookup (POST /api/scans/resolve)', w, r.lookup, { name: 'select-only', tps: selectOnly.tps });
     loadRow('a reading (POST /api/readings)', w, r.reading, { name: 'TPC-B-like', tps: tpcb.tps });
   }
   const widths = rows[0].map((_, c) => Math.max(...rows.map((r) => r[c].length)));
-  const fmt = (r: string[]) => `  ${r.map((cell, c) => (c === 0 || c === 5 ? cell.padEnd(widths[c]) : cell.padStart(widths[c]))).join('  ')}`;
+  const fmt = (r: string[]) =>
+    `  ${r.map((cell, c) => (c === 0 || c === 5 ? cell.padEnd(widths[c]) : cell.padStart(widths[c]))).join('  ')}`;
   console.log(fmt(rows[0]));
   console.log(`  ${widths.map((w) => '-'.repeat(w)).join('  ')}`);
   for (const r of rows.slice(1)) console.log(fmt(r));
   for (const [w, r] of [[1, at1], ...(atN ? [[nWorkers, atN]] : [])] as [number, typeof at1][]) {
     const errs = r.scan.errors + r.lookup.errors + r.reading.errors;
-    if (errs) console.log(`  ${errs} failed requests at ${w} worker(s); the first: ${r.scan.firstError ?? r.lookup.firstError ?? r.reading.firstError}`);
+    if (errs)
+      console.log(
+        `  ${errs} failed requests at ${w} worker(s); the first: ${r.scan.firstError ?? r.lookup.firstError ?? r.reading.firstError}`,
+      );
   }
   console.log('');
   console.log(`  forward traces reached ${Math.round(reached / lotIds.length).toLocaleString('en')} drivers per lot on average`);
@@ -457,21 +513,39 @@ runMain(async () => {
     checks,
   );
   const more: { what: string; ok: boolean; text: string }[] = [
-    { what: `station scans per s / pgbench TPC-B-like tps (${best.w} worker${best.w > 1 ? 's' : ''})`, ok: result.scanRatio >= 0.3, text: `${result.scanRatio} (target ≥ 0.30)` },
+    {
+      what: `station scans per s / pgbench TPC-B-like tps (${best.w} worker${best.w > 1 ? 's' : ''})`,
+      ok: result.scanRatio >= 0.3,
+      text: `${result.scanRatio} (target ≥ 0.30)`,
+    },
     { what: 'station scan p99', ok: result.scanP99Ms < 50, text: `${result.scanP99Ms} ms (target < 50 ms)` },
     { what: 'scan lookups per s / pgbench select-only tps', ok: result.lookupRatio >= 0.1, text: `${result.lookupRatio} (target ≥ 0.10)` },
     { what: 'scan lookup p99', ok: result.lookupP99Ms < 25, text: `${result.lookupP99Ms} ms (target < 25 ms)` },
-    { what: `full compliance sweep, slowest of 3 (${sweeps.map((s) => s.toFixed(0)).join(', ')} ms)`, ok: sweepMs < 2000, text: `${result.sweepMs} ms (target < 2,000 ms)` },
+    {
+      what: `full compliance sweep, slowest of 3 (${sweeps.map((s) => s.toFixed(0)).join(', ')} ms)`,
+      ok: sweepMs < 2000,
+      text: `${result.sweepMs} ms (target < 2,000 ms)`,
+    },
     { what: 'server RSS under load, all processes', ok: result.rssMb < 250, text: `${result.rssMb} MB (target < 250 MB)` },
-    { what: `initial route JS + CSS, gzip (${firstPage.files} files, ${firstPage.rawKb.toFixed(0)} KB raw)`, ok: result.initialRouteGzipKb <= 350, text: `${result.initialRouteGzipKb} KB (target ≤ 350 KB)` },
+    {
+      what: `initial route JS + CSS, gzip (${firstPage.files} files, ${firstPage.rawKb.toFixed(0)} KB raw)`,
+      ok: result.initialRouteGzipKb <= 350,
+      text: `${result.initialRouteGzipKb} KB (target ≤ 350 KB)`,
+    },
     { what: 'initial route sent compressed', ok: firstPage.sentCompressed, text: firstPage.sentCompressed ? 'yes' : 'no' },
-    { what: 'fresh page: first contentful paint', ok: firstPage.fcpMs !== null && firstPage.fcpMs < 1000, text: firstPage.fcpMs === null ? 'not reported' : `${firstPage.fcpMs.toFixed(0)} ms (target < 1,000 ms)` },
+    {
+      what: 'fresh page: first contentful paint',
+      ok: firstPage.fcpMs !== null && firstPage.fcpMs < 1000,
+      text: firstPage.fcpMs === null ? 'not reported' : `${firstPage.fcpMs.toFixed(0)} ms (target < 1,000 ms)`,
+    },
   ];
   for (const m of more) {
     met &&= m.ok;
     console.log(`  ${m.ok ? 'MET   ' : 'MISSED'}  ${m.what}: ${m.text}`);
   }
-  console.log(`  (for scale: GET /api/auth/me, the session check alone, p50 ${floor.p50.toFixed(1)} ms, p95 ${floor.p95.toFixed(1)} ms; server log in .tmp/bench-server-*.log)`);
+  console.log(
+    `  (for scale: GET /api/auth/me, the session check alone, p50 ${floor.p50.toFixed(1)} ms, p95 ${floor.p95.toFixed(1)} ms; server log in .tmp/bench-server-*.log)`,
+  );
   console.log('');
   console.log(JSON.stringify(result));
   return met ? 0 : 1;

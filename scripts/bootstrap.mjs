@@ -11,8 +11,13 @@ import { fileURLToPath } from 'node:url';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const COMMANDS = {
-  start: 'start.ts', test: 'test.ts', dev: 'dev.ts', bench: 'bench.ts',
-  backup: 'backup.ts', restore: 'restore.ts', 'audit-verify': 'audit-verify.ts',
+  start: 'start.ts',
+  test: 'test.ts',
+  dev: 'dev.ts',
+  bench: 'bench.ts',
+  backup: 'backup.ts',
+  restore: 'restore.ts',
+  'audit-verify': 'audit-verify.ts',
 };
 
 function fail(message, code = 1) {
@@ -49,8 +54,7 @@ function dependenciesStale() {
 function npm(npmArgs) {
   // Under `npm run`, npm_execpath is npm's own CLI: use the same npm that started us.
   const execPath = process.env.npm_execpath;
-  const [cmd, cmdArgs] =
-    execPath && /\.(c|m)?js$/.test(execPath) ? [process.execPath, [execPath, ...npmArgs]] : ['npm', npmArgs];
+  const [cmd, cmdArgs] = execPath && /\.(c|m)?js$/.test(execPath) ? [process.execPath, [execPath, ...npmArgs]] : ['npm', npmArgs];
   console.log(`[tacklog] npm ${npmArgs.join(' ')}`);
   const result = spawnSync(cmd, cmdArgs, { cwd: root, stdio: 'inherit', env: process.env });
   if (result.error) fail(`could not run npm: ${result.error.message}`);

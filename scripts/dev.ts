@@ -27,7 +27,12 @@ runMain(async () => {
     TACKLOG_WORKERS: process.env.TACKLOG_WORKERS || '1',
   };
   const children: ChildProcess[] = [
-    spawn(process.execPath, [bin('tsx'), 'watch', '--clear-screen=false', 'server/index.ts'], { cwd: root, stdio: CHILD_STDIO, detached: true, env }),
+    spawn(process.execPath, [bin('tsx'), 'watch', '--clear-screen=false', 'server/index.ts'], {
+      cwd: root,
+      stdio: CHILD_STDIO,
+      detached: true,
+      env,
+    }),
     spawn(process.execPath, [bin('vite')], { cwd: root, stdio: CHILD_STDIO, detached: true, env }),
   ];
   onShutdown(() => Promise.all(children.map((c) => stopChild(c))).then(() => undefined));

@@ -59,7 +59,11 @@ export async function ensurePostgresInstalled(): Promise<string> {
   const found = findPgBin();
   if (found) return found;
   // Not as root, this stops with the command to run: sudo apt-get install -y postgresql
-  await aptInstall(['postgresql'], `PostgreSQL is not installed (nothing under ${PG_ROOT})`, 'set DATABASE_URL to a PostgreSQL server you may use');
+  await aptInstall(
+    ['postgresql'],
+    `PostgreSQL is not installed (nothing under ${PG_ROOT})`,
+    'set DATABASE_URL to a PostgreSQL server you may use',
+  );
   const bin = findPgBin();
   if (!bin) throw new UserFacingError(`apt-get installed postgresql but no initdb/pg_ctl/postgres was found under ${PG_ROOT}.`);
   return bin;
@@ -68,7 +72,16 @@ export async function ensurePostgresInstalled(): Promise<string> {
 function ensurePostgresUser(): void {
   if (runCapture('id', ['-u', PG_USER]).ok) return;
   log(`creating the system user "${PG_USER}" to own the database cluster (PostgreSQL refuses to run as root)`);
-  const made = runCapture('useradd', ['--system', '--user-group', '--no-create-home', '--home-dir', '/nonexistent', '--shell', '/usr/sbin/nologin', PG_USER]);
+  const made = runCapture('useradd', [
+    '--system',
+    '--user-group',
+    '--no-create-home',
+    '--home-dir',
+    '/nonexistent',
+    '--shell',
+    '/usr/sbin/nologin',
+    PG_USER,
+  ]);
   if (!made.ok) throw new UserFacingError(`could not create the "${PG_USER}" user: ${made.output.trim()}`);
 }
 
@@ -258,7 +271,13 @@ export async function startLocalCluster(options: LocalClusterOptions): Promise<P
   } else {
     log(`initialising a PostgreSQL cluster in ${shown(dataDir)}`);
     const [cmd, args] = asPgUser(path.join(bin, 'initdb'), [
-      '-D', dataDir, `--username=${SUPERUSER}`, '--auth=trust', '--encoding=UTF8', '--no-locale', '--no-instructions',
+      '-D',
+      dataDir,
+      `--username=${SUPERUSER}`,
+      '--auth=trust',
+      '--encoding=UTF8',
+      '--no-locale',
+      '--no-instructions',
     ]);
     const made = runCapture(cmd, args);
     if (!made.ok) throw new UserFacingError(`initdb failed:\n${made.output}`);
@@ -439,7 +458,8 @@ export async function providePostgres(kind: 'persistent' | 'throwaway'): Promise
   }
   if (kind === 'persistent') {
     const port = Number(process.env.TACKLOG_PG_PORT || 54329);
-    if (!Number.isInteger(port) || port <= 0 || port > 65535) throw new UserFacingError(`TACKLOG_PG_PORT must be a port number, got "${process.env.TACKLOG_PG_PORT}"`);
+    if (!Number.isInteger(port) || port <= 0 || port > 65535)
+      throw new UserFacingError(`TACKLOG_PG_PORT must be a port number, got "${process.env.TACKLOG_PG_PORT}"`);
     return startLocalCluster({ dataDir: path.join(projectDataDir(), 'pg'), port });
   }
   const dataDir = path.join(root, '.tmp', `pg-test-${crypto.randomBytes(4).toString('hex')}`);

@@ -55,7 +55,10 @@ runMain(async () => {
   await withClient(db.adminUrl, async (admin) => {
     const exists = (await admin.query('SELECT 1 FROM pg_database WHERE datname = $1', [db.name])).rowCount === 1;
     if (exists && !force) {
-      const others = await admin.query<{ n: string }>('SELECT count(*) AS n FROM pg_stat_activity WHERE datname = $1 AND pid <> pg_backend_pid()', [db.name]);
+      const others = await admin.query<{ n: string }>(
+        'SELECT count(*) AS n FROM pg_stat_activity WHERE datname = $1 AND pid <> pg_backend_pid()',
+        [db.name],
+      );
       const n = Number(others.rows[0].n);
       if (n > 0) {
         throw new UserFacingError(
@@ -82,7 +85,10 @@ runMain(async () => {
       // No new sessions, then end the current ones, then swap by renaming.
       await admin.query(`ALTER DATABASE ${quoteIdent(db.name)} ALLOW_CONNECTIONS false`);
       try {
-        const ended = await admin.query('SELECT pg_terminate_backend(pid) FROM pg_stat_activity WHERE datname = $1 AND pid <> pg_backend_pid()', [db.name]);
+        const ended = await admin.query(
+          'SELECT pg_terminate_backend(pid) FROM pg_stat_activity WHERE datname = $1 AND pid <> pg_backend_pid()',
+          [db.name],
+        );
         if (ended.rowCount) log(`disconnected ${ended.rowCount} session(s) from ${db.name}`);
         await admin.query(`ALTER DATABASE ${quoteIdent(db.name)} RENAME TO ${quoteIdent(kept)}`);
       } catch (err) {

@@ -21,7 +21,12 @@ runMain(async () => {
   // TACKLOG_SERVE_CLIENT=0 serves the API only (no client build).
   const serveClient = process.env.TACKLOG_SERVE_CLIENT !== '0' && clientSourcesPresent();
   if (serveClient) await buildClientIfStale();
-  else log(clientSourcesPresent() ? 'TACKLOG_SERVE_CLIENT=0: serving the API only' : 'index.html is missing: there is no client to build; serving the API only');
+  else
+    log(
+      clientSourcesPresent()
+        ? 'TACKLOG_SERVE_CLIENT=0: serving the API only'
+        : 'index.html is missing: there is no client to build; serving the API only',
+    );
 
   // The server built to JS (esbuild), run by node itself: one process (with TACKLOG_WORKERS > 1,
   // the primary of its workers), which gets our SIGTERM itself.
@@ -48,7 +53,8 @@ runMain(async () => {
 async function waitForListening(port: number, child: ChildProcess): Promise<void> {
   const deadline = Date.now() + 60_000;
   while (Date.now() < deadline) {
-    if (child.exitCode !== null || child.signalCode !== null) throw new UserFacingError(`the server exited during start-up (${child.exitCode ?? child.signalCode})`);
+    if (child.exitCode !== null || child.signalCode !== null)
+      throw new UserFacingError(`the server exited during start-up (${child.exitCode ?? child.signalCode})`);
     try {
       const res = await fetch(`http://127.0.0.1:${port}/api/health`);
       if (res.ok || res.status === 503) return;

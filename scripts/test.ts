@@ -19,8 +19,25 @@ import { summarise } from './lib/summary';
 const CHROMIUM = '/usr/bin/chromium';
 /** vitest options that take a value as the next argument (so that value is not a file filter). */
 const VALUE_OPTIONS = new Set([
-  '--project', '--reporter', '-t', '--testNamePattern', '--outputFile', '--config', '-c', '--root', '-r', '--dir',
-  '--shard', '--bail', '--retry', '--maxWorkers', '--pool', '--environment', '--mode', '--testTimeout', '--exclude',
+  '--project',
+  '--reporter',
+  '-t',
+  '--testNamePattern',
+  '--outputFile',
+  '--config',
+  '-c',
+  '--root',
+  '-r',
+  '--dir',
+  '--shard',
+  '--bail',
+  '--retry',
+  '--maxWorkers',
+  '--pool',
+  '--environment',
+  '--mode',
+  '--testTimeout',
+  '--exclude',
 ]);
 
 /** Whether the e2e project will run: it has test files and the arguments do not leave it out. */
@@ -91,11 +108,20 @@ runMain(async () => {
     fs.rmSync(reportFile, { force: true });
     fs.rmSync(uploadDir, { recursive: true, force: true });
   });
-  log(`ready in ${((Date.now() - started) / 1000).toFixed(1)} s; running vitest${browser ? '' : ' (browser tests not selected or none yet)'}`);
+  log(
+    `ready in ${((Date.now() - started) / 1000).toFixed(1)} s; running vitest${browser ? '' : ' (browser tests not selected or none yet)'}`,
+  );
 
   const vitest = spawn(
     process.execPath,
-    [path.join(root, 'node_modules', '.bin', 'vitest'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${reportFile}`, ...args],
+    [
+      path.join(root, 'node_modules', '.bin', 'vitest'),
+      'run',
+      '--reporter=default',
+      '--reporter=json',
+      `--outputFile.json=${reportFile}`,
+      ...args,
+    ],
     {
       cwd: root,
       stdio: 'inherit',

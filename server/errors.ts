@@ -21,8 +21,7 @@ export class AppError extends Error {
   }
 }
 
-export const badRequest = (message: string, details?: FieldIssue[]) =>
-  new AppError('VALIDATION_FAILED', message, 400, details);
+export const badRequest = (message: string, details?: FieldIssue[]) => new AppError('VALIDATION_FAILED', message, 400, details);
 
 /** A 400 naming one field. */
 export const fieldError = (field: string, message: string) =>
@@ -38,4 +37,5 @@ export const notFound = (what: string) => new AppError('NOT_FOUND', `${what} was
  * A plant rule refuses the request (wrong material, on hold, expired, cure incomplete,
  * duplicate…): the code's status comes from the catalogue (409 for plant rules).
  */
-export const conflict = (code: RefusalCode, message: string, details?: unknown) => new AppError(code, message, REFUSALS[code].status, details);
+export const conflict = (code: RefusalCode, message: string, details?: unknown) =>
+  new AppError(code, message, REFUSALS[code].status, details);

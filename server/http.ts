@@ -84,7 +84,11 @@ export function checkAccess(access: Access, actor: Actor | undefined): void {
  * send its result as JSON. Handlers that stream or send files return `undefined`
  * after writing the response themselves.
  */
-export function endpoint<BS extends Schema | undefined = undefined, QS extends Schema | undefined = undefined, PS extends Schema | undefined = undefined>(
+export function endpoint<
+  BS extends Schema | undefined = undefined,
+  QS extends Schema | undefined = undefined,
+  PS extends Schema | undefined = undefined,
+>(
   options: EndpointOptions<BS, QS, PS>,
   handler: (ctx: EndpointContext<Out<BS>, Out<QS>, Out<PS>>) => Promise<unknown> | unknown,
 ): RequestHandler {

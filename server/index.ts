@@ -61,7 +61,9 @@ async function startWatch(): Promise<() => void> {
   // E-mail: the transport (a real SMTP server, or the local catcher), the outbox worker and the
   // daily digest run beside the watch, in one process of this machine.
   const mail = await mailJobs.startMailTransport();
-  logger.info(`mail: sending through the ${mail.transport.describe}${mail.catcher ? ' (no TACKLOG_SMTP_URL: messages stay here; read them on the Mailbox page)' : ''}`);
+  logger.info(
+    `mail: sending through the ${mail.transport.describe}${mail.catcher ? ' (no TACKLOG_SMTP_URL: messages stay here; read them on the Mailbox page)' : ''}`,
+  );
   const stopWorker = mailJobs.startOutboxWorker();
   const stopWatch = scheduleComplianceWatch(config.watchSchedule);
   let firstSweep: Promise<unknown> = Promise.resolve();

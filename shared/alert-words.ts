@@ -53,6 +53,8 @@ export function lotFailureSentence(f: LotFailureFigures): string {
 /** The figures behind the sentence, for the detail line. */
 export function lotFailureDetail(f: LotFailureFigures): string {
   const family = f.lotsCompared ? ` across ${f.lotsCompared} lots` : '';
-  return `Exact one-sided binomial test: p = ${probability(f.pValue)}; Benjamini–Hochberg q = ${probability(f.qValue)}${family}; `
-    + `p-chart upper limit for ${f.tested} drivers: ${percent(f.ucl)} (${f.aboveUcl ? 'above it' : 'within it'}).`;
+  return (
+    `Exact one-sided binomial test: p = ${probability(f.pValue)}; Benjamini–Hochberg q = ${probability(f.qValue)}${family}; ` +
+    `p-chart upper limit for ${f.tested} drivers: ${percent(f.ucl)} (${f.aboveUcl ? 'above it' : 'within it'}).`
+  );
 }

@@ -6,7 +6,16 @@ export const ROLES = ['admin', 'receiving', 'assembler', 'quality', 'purchasing'
 export type Role = (typeof ROLES)[number];
 
 export const MATERIAL_KINDS = [
-  'adhesive', 'activator', 'hardener', 'wire', 'magnet', 'cone', 'spider', 'dust_cap', 'frame', 'other',
+  'adhesive',
+  'activator',
+  'hardener',
+  'wire',
+  'magnet',
+  'cone',
+  'spider',
+  'dust_cap',
+  'frame',
+  'other',
 ] as const;
 export type MaterialKind = (typeof MATERIAL_KINDS)[number];
 
@@ -38,8 +47,15 @@ export const ALERT_STATES = ['open', 'acknowledged', 'resolved'] as const;
 export type AlertState = (typeof ALERT_STATES)[number];
 
 export const ALERT_KINDS = [
-  'pot_life_exceeded', 'short_cure', 'expired_in_stock', 'expiring_soon', 'quarantine_advised', 'below_reorder_point',
-  'audit_chain_broken', 'lamp_check_due', 'humidity_out_of_window',
+  'pot_life_exceeded',
+  'short_cure',
+  'expired_in_stock',
+  'expiring_soon',
+  'quarantine_advised',
+  'below_reorder_point',
+  'audit_chain_broken',
+  'lamp_check_due',
+  'humidity_out_of_window',
 ] as const;
 export type AlertKind = (typeof ALERT_KINDS)[number];
 

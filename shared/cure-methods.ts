@@ -39,7 +39,8 @@ export interface MethodCureProfile extends CureProfile {
 const MS_PER_MIN = 60_000;
 
 function checkSchedule(schedule: SchedulePoint[]): SchedulePoint[] {
-  if (!Array.isArray(schedule) || schedule.length === 0) throw new RangeError('a heat cure needs at least one schedule point (temperature, minutes)');
+  if (!Array.isArray(schedule) || schedule.length === 0)
+    throw new RangeError('a heat cure needs at least one schedule point (temperature, minutes)');
   const sorted = [...schedule].sort((a, b) => a.tempC - b.tempC);
   for (let i = 0; i < sorted.length; i++) {
     const p = sorted[i];
@@ -56,7 +57,11 @@ function checkSchedule(schedule: SchedulePoint[]): SchedulePoint[] {
  * 120 °C and 15 min at 150 °C is √(30 × 15) ≈ 21.2 min); outside the schedule the profile's rate
  * rule extends the nearest point.
  */
-export function scheduleMinutesAt(schedule: SchedulePoint[], tempC: number, rate: Pick<CureProfile, 'factorPer10C' | 'activationEnergyKJ'> = {}): number {
+export function scheduleMinutesAt(
+  schedule: SchedulePoint[],
+  tempC: number,
+  rate: Pick<CureProfile, 'factorPer10C' | 'activationEnergyKJ'> = {},
+): number {
   const pts = checkSchedule(schedule);
   const first = pts[0];
   const last = pts[pts.length - 1];
@@ -91,7 +96,11 @@ export function minutesNeededAt(profile: MethodCureProfile, tempC: number, which
   return refMinutes / rateFactor(profile, tempC);
 }
 
-interface Segment { from: number; to: number; value: number }
+interface Segment {
+  from: number;
+  to: number;
+  value: number;
+}
 
 /** Piecewise-constant segments of a reading series from `startMs` on; the last runs to +∞. */
 function stepSegments<T extends { at: string }>(startMs: number, readings: T[], value: (r: T) => number): Segment[] {
@@ -142,7 +151,12 @@ function crossing(segs: Segment[], needMsAt: (tempC: number) => number): number 
  * constant temperature or piecewise-constant readings (each holds until the next). Time below
  * the minimum cure temperature adds nothing.
  */
-export function methodCureTimes(profile: MethodCureProfile, start: string, readingsOrTemp: Reading[] | number, now?: string): MethodCureResult {
+export function methodCureTimes(
+  profile: MethodCureProfile,
+  start: string,
+  readingsOrTemp: Reading[] | number,
+  now?: string,
+): MethodCureResult {
   const startMs = ms(start, 'start');
   const segs = temperatureSegments(startMs, readingsOrTemp);
   const needMs = (which: 'handling' | 'full') => (t: number) => minutesNeededAt(profile, t, which) * MS_PER_MIN;
@@ -172,7 +186,10 @@ export function uvExposureSeconds(doseMJcm2: number, irradianceMWcm2: number): n
   return doseMJcm2 / irradianceMWcm2;
 }
 
-export interface HumidityReading { at: string; rhPct: number }
+export interface HumidityReading {
+  at: string;
+  rhPct: number;
+}
 
 export interface HumidityCheck {
   ok: boolean;
@@ -185,7 +202,12 @@ export interface HumidityCheck {
  * readings held until the next (the reading in force at `from` counts; with no reading at all
  * the check cannot be made and reports nothing outside).
  */
-export function humidityWindowCheck(window: { rhMinPct?: number | null; rhMaxPct?: number | null }, from: string, to: string, readings: HumidityReading[]): HumidityCheck {
+export function humidityWindowCheck(
+  window: { rhMinPct?: number | null; rhMaxPct?: number | null },
+  from: string,
+  to: string,
+  readings: HumidityReading[],
+): HumidityCheck {
   const min = window.rhMinPct ?? Number.NEGATIVE_INFINITY;
   const max = window.rhMaxPct ?? Number.POSITIVE_INFINITY;
   const fromMs = ms(from, 'from');

@@ -29,7 +29,10 @@ export interface CureProfile {
 
 export type RateProfile = Pick<CureProfile, 'refTempC' | 'factorPer10C' | 'activationEnergyKJ'>;
 
-export interface Reading { at: string; tempC: number }
+export interface Reading {
+  at: string;
+  tempC: number;
+}
 
 function checkTemp(tempC: number, what: string): number {
   if (typeof tempC !== 'number' || !Number.isFinite(tempC)) throw new RangeError(`${what} must be a finite temperature in °C`);
@@ -60,7 +63,11 @@ export function adjustedMinutes(refMinutes: number, profile: RateProfile, tempC:
   return nonNegative(refMinutes, 'minutes') / rateFactor(profile, tempC);
 }
 
-interface Segment { from: number; to: number; tempC: number }
+interface Segment {
+  from: number;
+  to: number;
+  tempC: number;
+}
 
 /** Piecewise-constant temperature segments from `start` on; the last one runs to +∞. */
 function segments(startMs: number, readingsOrTemp: Reading[] | number): Segment[] {
@@ -131,7 +138,11 @@ export function fractionDone(start: string, refMinutes: number, profile: RatePro
 }
 
 /** When the bond may be handled and when it is fully cured. */
-export function cureTimes(profile: CureProfile, start: string, readingsOrTemp: Reading[] | number): { handlingAt: string; fullCureAt: string } {
+export function cureTimes(
+  profile: CureProfile,
+  start: string,
+  readingsOrTemp: Reading[] | number,
+): { handlingAt: string; fullCureAt: string } {
   return {
     handlingAt: completionTime(start, profile.handlingMinutes, profile, readingsOrTemp),
     fullCureAt: completionTime(start, profile.fullCureMinutes, profile, readingsOrTemp),

@@ -53,7 +53,10 @@ export interface ExpiryContainer {
 
 export type ExpiryCause = 'supplier_expiry' | 'shelf_life' | 'open_life' | 'thawed_life' | 'out_of_storage' | 'pot_life';
 
-export interface ExpiryCandidate { cause: ExpiryCause; at: string }
+export interface ExpiryCandidate {
+  cause: ExpiryCause;
+  at: string;
+}
 
 export interface ExpiryResult {
   /** ISO instant of the earliest candidate, or null when nothing limits the material */
@@ -83,9 +86,7 @@ function lotCandidates(material: ExpiryMaterial, lot: ExpiryLot, zone: string): 
   }
   if (material.shelfLifeDays !== null && material.shelfLifeDays !== undefined) {
     const days = nonNegative(material.shelfLifeDays, 'shelfLifeDays');
-    const from = lot.manufacturedOn
-      ? startOfDate(lot.manufacturedOn, zone, 'manufacturedOn')
-      : received.setZone(zone);
+    const from = lot.manufacturedOn ? startOfDate(lot.manufacturedOn, zone, 'manufacturedOn') : received.setZone(zone);
     out.push({ cause: 'shelf_life', at: toIso(from.plus({ days })) });
   }
   return out;
@@ -161,7 +162,5 @@ export function expiresWithin(result: ExpiryResult, now: Date, days: number): bo
  */
 export function fefoOrder<T extends { expiry: string | null; receivedAt: string; seq: number }>(items: T[]): T[] {
   const key = (iso: string | null) => (iso === null ? Number.POSITIVE_INFINITY : Date.parse(iso));
-  return [...items].sort(
-    (a, b) => key(a.expiry) - key(b.expiry) || Date.parse(a.receivedAt) - Date.parse(b.receivedAt) || a.seq - b.seq,
-  );
+  return [...items].sort((a, b) => key(a.expiry) - key(b.expiry) || Date.parse(a.receivedAt) - Date.parse(b.receivedAt) || a.seq - b.seq);
 }

@@ -13,9 +13,26 @@
  */
 
 export type Gs1Field =
-  | 'input' | 'sscc' | 'gtin' | 'lot' | 'producedOn' | 'dueOn' | 'packedOn' | 'bestBefore' | 'sellBy'
-  | 'expiresOn' | 'variant' | 'serial' | 'additionalId' | 'customerPartNo' | 'secondarySerial'
-  | 'count' | 'netWeightKg' | 'purchaseOrder' | 'internal' | 'domain';
+  | 'input'
+  | 'sscc'
+  | 'gtin'
+  | 'lot'
+  | 'producedOn'
+  | 'dueOn'
+  | 'packedOn'
+  | 'bestBefore'
+  | 'sellBy'
+  | 'expiresOn'
+  | 'variant'
+  | 'serial'
+  | 'additionalId'
+  | 'customerPartNo'
+  | 'secondarySerial'
+  | 'count'
+  | 'netWeightKg'
+  | 'purchaseOrder'
+  | 'internal'
+  | 'domain';
 
 export class Gs1Error extends Error {
   readonly field: Gs1Field;
@@ -28,7 +45,10 @@ export class Gs1Error extends Error {
   }
 }
 
-export interface Gs1Element { ai: string; value: string }
+export interface Gs1Element {
+  ai: string;
+  value: string;
+}
 
 export interface Gs1Result {
   gtin?: string;
@@ -87,9 +107,28 @@ for (let ai = 91; ai <= 99; ai++) {
  * two digits have a fixed total length (AI + data) and need no separator after them.
  */
 const PREDEFINED_LENGTH: Record<string, number> = {
-  '00': 20, '01': 16, '02': 16, '03': 16, '04': 18, '11': 8, '12': 8, '13': 8, '14': 8, '15': 8,
-  '16': 8, '17': 8, '18': 8, '19': 8, '20': 4, '31': 10, '32': 10, '33': 10, '34': 10, '35': 10,
-  '36': 10, '41': 16,
+  '00': 20,
+  '01': 16,
+  '02': 16,
+  '03': 16,
+  '04': 18,
+  '11': 8,
+  '12': 8,
+  '13': 8,
+  '14': 8,
+  '15': 8,
+  '16': 8,
+  '17': 8,
+  '18': 8,
+  '19': 8,
+  '20': 4,
+  '31': 10,
+  '32': 10,
+  '33': 10,
+  '34': 10,
+  '35': 10,
+  '36': 10,
+  '41': 16,
 };
 
 const GS = '\u001d';
@@ -238,7 +277,10 @@ function parseRaw(s: string, now: Date): Gs1Element[] {
   const elements: Gs1Element[] = [];
   let at = 0;
   while (at < s.length) {
-    if (s[at] === GS) { at++; continue; }
+    if (s[at] === GS) {
+      at++;
+      continue;
+    }
     const ai = findAi(s, at);
     at += ai.length;
     const predefined = PREDEFINED_LENGTH[ai.slice(0, 2)];
@@ -363,7 +405,10 @@ function rawAiSequence(s: string): string[] | null {
   const ais: string[] = [];
   let at = 0;
   while (at < s.length) {
-    if (s[at] === GS) { at++; continue; }
+    if (s[at] === GS) {
+      at++;
+      continue;
+    }
     let ai: string;
     try {
       ai = findAi(s, at);

@@ -33,40 +33,67 @@ export interface AlertKindInfo {
 
 export const ALERT_KIND_INFO: Record<AlertKind, AlertKindInfo> = {
   pot_life_exceeded: {
-    words: 'Pot life passed', audience: ['assembler', 'quality'], canBeCritical: true, handling: true,
+    words: 'Pot life passed',
+    audience: ['assembler', 'quality'],
+    canBeCritical: true,
+    handling: true,
     todo: 'Unload the mix from the station and discard it as its SDS says; check the drivers glued with it after the pot life ended.',
   },
   short_cure: {
-    words: 'Next step before cure was complete', audience: ['quality'], canBeCritical: true, handling: false,
+    words: 'Next step before cure was complete',
+    audience: ['quality'],
+    canBeCritical: true,
+    handling: false,
     todo: 'Review the batch: decide whether its drivers need extra checks, and record a deviation if one is missing.',
   },
   expired_in_stock: {
-    words: 'Expired material in stock', audience: ['quality', 'receiving', 'assembler'], canBeCritical: true, handling: true,
+    words: 'Expired material in stock',
+    audience: ['quality', 'receiving', 'assembler'],
+    canBeCritical: true,
+    handling: true,
     todo: 'Take the container out of use: unload it if it is at a station, then scrap it or ask quality for a decision.',
   },
   expiring_soon: {
-    words: 'Lot expiring soon', audience: ['purchasing', 'quality'], canBeCritical: false, handling: false,
+    words: 'Lot expiring soon',
+    audience: ['purchasing', 'quality'],
+    canBeCritical: false,
+    handling: false,
     todo: 'Use this lot first, or plan its disposal before it expires.',
   },
   quarantine_advised: {
-    words: 'Quarantine advised', audience: ['quality'], canBeCritical: false, handling: false,
+    words: 'Quarantine advised',
+    audience: ['quality'],
+    canBeCritical: false,
+    handling: false,
     todo: 'Decide whether to quarantine the lot, and trace the drivers built with it.',
   },
   below_reorder_point: {
-    words: 'Below reorder point', audience: ['purchasing'], canBeCritical: false, handling: false,
+    words: 'Below reorder point',
+    audience: ['purchasing'],
+    canBeCritical: false,
+    handling: false,
     todo: 'Check the stock and order more if it is still needed.',
   },
   audit_chain_broken: {
-    words: 'Audit trail does not verify', audience: ['quality', 'admin'], canBeCritical: true, handling: false,
+    words: 'Audit trail does not verify',
+    audience: ['quality', 'admin'],
+    canBeCritical: true,
+    handling: false,
     todo: 'Find out who changed the database directly; keep a copy of it before anything else changes, and run the audit verification again.',
   },
   lamp_check_due: {
-    words: 'UV lamp radiometer check due', audience: ['quality'], canBeCritical: false, handling: false,
+    words: 'UV lamp radiometer check due',
+    audience: ['quality'],
+    canBeCritical: false,
+    handling: false,
     todo: 'Measure the lamp with the radiometer and record the reading for its station; the UV dose of each step is computed from it.',
   },
   humidity_out_of_window: {
-    words: 'Cured outside its humidity range', audience: ['quality'], canBeCritical: false, handling: false,
-    todo: 'Review the batch: the adhesive cured while the area\'s humidity was outside its data sheet range; decide whether its drivers need extra checks.',
+    words: 'Cured outside its humidity range',
+    audience: ['quality'],
+    canBeCritical: false,
+    handling: false,
+    todo: "Review the batch: the adhesive cured while the area's humidity was outside its data sheet range; decide whether its drivers need extra checks.",
   },
 };
 
@@ -101,7 +128,10 @@ export function defaultModes(roles: readonly Role[]): Record<AlertKind, Notifica
 }
 
 /** The modes in effect: the user's choices over the defaults of their roles. */
-export function effectiveModes(roles: readonly Role[], chosen: Partial<Record<string, NotificationMode>>): Record<AlertKind, NotificationMode> {
+export function effectiveModes(
+  roles: readonly Role[],
+  chosen: Partial<Record<string, NotificationMode>>,
+): Record<AlertKind, NotificationMode> {
   const modes = defaultModes(roles);
   for (const k of ALERT_KINDS) {
     const c = chosen[k];

@@ -127,7 +127,6 @@ export function plantGreeting(zone: string, now: InstantLike = Date.now()): stri
   return 'Hello'; // the night shift
 }
 
-
 /** An instant as a `datetime-local` field value in the plant's zone: "2026-12-02T07:25". */
 export function toPlantInput(value: InstantLike, zone: string): string {
   return toDateTime(value, zone).toFormat("yyyy-MM-dd'T'HH:mm");

@@ -144,11 +144,19 @@ export function reorderAdvice(a: AdviceInput): Advice {
   const now = Date.parse(a.now);
   const lead = a.leadTimeDays ?? 0;
   const belowReorderPoint = a.reorderPoint !== null && a.usableOnHand < a.reorderPoint;
-  const pack = a.packSize ? packWaste({ dailyUse: a.dailyUse, packSize: a.packSize, openLifeHours: a.openLifeHours, lifeAtArrivalDays: a.lifeAtArrivalDays }) : null;
+  const pack = a.packSize
+    ? packWaste({ dailyUse: a.dailyUse, packSize: a.packSize, openLifeHours: a.openLifeHours, lifeAtArrivalDays: a.lifeAtArrivalDays })
+    : null;
   if (!(a.dailyUse > 0)) {
     return {
-      action: belowReorderPoint ? 'order_soon' : 'not_used', orderBy: null, quantity: belowReorderPoint ? a.orderQuantity : null,
-      orderQuantities: belowReorderPoint && a.orderQuantity ? 1 : null, limitedByShelfLife: false, runOutInsideLeadTime: false, belowReorderPoint, pack,
+      action: belowReorderPoint ? 'order_soon' : 'not_used',
+      orderBy: null,
+      quantity: belowReorderPoint ? a.orderQuantity : null,
+      orderQuantities: belowReorderPoint && a.orderQuantity ? 1 : null,
+      limitedByShelfLife: false,
+      runOutInsideLeadTime: false,
+      belowReorderPoint,
+      pack,
     };
   }
   const runOut = a.runsOutAt === null ? null : Date.parse(a.runsOutAt);
@@ -156,7 +164,11 @@ export function reorderAdvice(a: AdviceInput): Advice {
   const runOutInsideLeadTime = runOut !== null && runOut < now + lead * DAY_MS;
   const soon = (a.soonDays ?? 14) * DAY_MS;
   const action: AdviceAction =
-    (orderBy !== null && orderBy <= now) || belowReorderPoint ? 'order_now' : orderBy !== null && orderBy <= now + soon ? 'order_soon' : 'enough';
+    (orderBy !== null && orderBy <= now) || belowReorderPoint
+      ? 'order_now'
+      : orderBy !== null && orderBy <= now + soon
+        ? 'order_soon'
+        : 'enough';
 
   let quantity: number | null = null;
   let orderQuantities: number | null = null;
@@ -179,8 +191,14 @@ export function reorderAdvice(a: AdviceInput): Advice {
     }
   }
   return {
-    action, orderBy: orderBy === null ? null : new Date(orderBy).toISOString(), quantity, orderQuantities,
-    limitedByShelfLife, runOutInsideLeadTime, belowReorderPoint, pack,
+    action,
+    orderBy: orderBy === null ? null : new Date(orderBy).toISOString(),
+    quantity,
+    orderQuantities,
+    limitedByShelfLife,
+    runOutInsideLeadTime,
+    belowReorderPoint,
+    pack,
   };
 }
 
@@ -190,11 +208,18 @@ export function qty(n: number): string {
 }
 
 /** The pack warning as a sentence: "at 0.4 kg/day a 5 kg tin opened for 7 days wastes 2.2 kg each time; …". */
-export function packWarningText(w: PackWarning, dailyUse: number, unit: string, openLifeHours: number | null, lifeAtArrivalDays: number | null): string {
+export function packWarningText(
+  w: PackWarning,
+  dailyUse: number,
+  unit: string,
+  openLifeHours: number | null,
+  lifeAtArrivalDays: number | null,
+): string {
   const limit =
     w.limitedBy === 'open_life' && openLifeHours !== null
       ? `open for ${qty(openLifeHours / 24)} days`
       : `with ${qty(lifeAtArrivalDays ?? 0)} days of shelf life left at arrival`;
-  const better = w.suggestedPackSize !== null ? `${qty(w.suggestedPackSize)} ${unit} packs would waste none` : 'no pack size would be used up in time';
+  const better =
+    w.suggestedPackSize !== null ? `${qty(w.suggestedPackSize)} ${unit} packs would waste none` : 'no pack size would be used up in time';
   return `At ${qty(dailyUse)} ${unit}/day a ${qty(w.packSize)} ${unit} pack ${limit} wastes ${qty(w.wastePerPack)} ${unit} each time; ${better}.`;
 }

@@ -31,7 +31,11 @@ function stirlerr(n: number): number {
     for (let i = 2; i <= n; i++) lf += Math.log(i);
     return lf - (n + 0.5) * Math.log(n) + n - 0.5 * LN_2PI;
   }
-  const S0 = 1 / 12, S1 = 1 / 360, S2 = 1 / 1260, S3 = 1 / 1680, S4 = 1 / 1188;
+  const S0 = 1 / 12,
+    S1 = 1 / 360,
+    S2 = 1 / 1260,
+    S3 = 1 / 1680,
+    S4 = 1 / 1188;
   const nn = n * n;
   if (n > 500) return (S0 - S1 / nn) / n;
   if (n > 80) return (S0 - (S1 - S2 / nn) / nn) / n;
@@ -150,10 +154,12 @@ export function binomialTestTwoSided(k: number, n: number, p: number): number {
 /** In [a, b], where ok(i) is false then true (pmf falling), count the i with ok(i). */
 function countFalling(a: number, b: number, ok: (i: number) => boolean): number {
   if (a > b) return 0;
-  let lo = a, hi = b + 1; // first ok index in [a, b+1]
+  let lo = a,
+    hi = b + 1; // first ok index in [a, b+1]
   while (lo < hi) {
     const mid = Math.floor((lo + hi) / 2);
-    if (ok(mid)) hi = mid; else lo = mid + 1;
+    if (ok(mid)) hi = mid;
+    else lo = mid + 1;
   }
   return b + 1 - lo;
 }
@@ -161,20 +167,24 @@ function countFalling(a: number, b: number, ok: (i: number) => boolean): number 
 /** In [a, b], where ok(i) is true then false (pmf rising), count the i with ok(i). */
 function countRising(a: number, b: number, ok: (i: number) => boolean): number {
   if (a > b) return 0;
-  let lo = a - 1, hi = b; // last ok index in [a−1, b]
+  let lo = a - 1,
+    hi = b; // last ok index in [a−1, b]
   while (lo < hi) {
     const mid = Math.ceil((lo + hi) / 2);
-    if (ok(mid)) lo = mid; else hi = mid - 1;
+    if (ok(mid)) lo = mid;
+    else hi = mid - 1;
   }
   return lo - a + 1;
 }
 
 /** Root of a monotone function on [0, 1] by bisection. */
 function bisect(f: (x: number) => number, increasing: boolean): number {
-  let lo = 0, hi = 1;
+  let lo = 0,
+    hi = 1;
   for (let i = 0; i < 200 && hi - lo > 1e-16; i++) {
     const mid = (lo + hi) / 2;
-    if ((f(mid) < 0) === increasing) lo = mid; else hi = mid;
+    if (f(mid) < 0 === increasing) lo = mid;
+    else hi = mid;
   }
   return (lo + hi) / 2;
 }
@@ -264,7 +274,10 @@ export function flagLots<T extends { defectives: number; inspected: number }>(
     tested.push(i);
     return binomialTestGreater(lot.defectives, lot.inspected, baseline);
   });
-  const bh = benjaminiHochberg(tested.map((i) => pValues[i]), q);
+  const bh = benjaminiHochberg(
+    tested.map((i) => pValues[i]),
+    q,
+  );
   const qValues = new Array<number>(lots.length).fill(1);
   const rejected = new Array<boolean>(lots.length).fill(false);
   tested.forEach((lotIndex, j) => {

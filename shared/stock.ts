@@ -140,7 +140,11 @@ export function simulateFefo(input: SimInput): SimResult {
       shelfExpiry: c.expiresAt ? parseInstant(c.expiresAt, `containers.${i}.expiresAt`) : Number.POSITIVE_INFINITY,
       openLifeMs: lifeMs(c.openLifeHours, `containers.${i}.openLifeHours`),
       openedAt: c.openedAt ? parseInstant(c.openedAt, `containers.${i}.openedAt`) : null,
-      used: 0, wasted: 0, left: 0, endedAt: null, endedBy: null,
+      used: 0,
+      wasted: 0,
+      left: 0,
+      endedAt: null,
+      endedBy: null,
     })),
     ...(input.incoming ?? []).map((c, i) => ({
       index: input.containers.length + i,
@@ -150,7 +154,11 @@ export function simulateFefo(input: SimInput): SimResult {
       shelfExpiry: c.expiresAt ? parseInstant(c.expiresAt, `incoming.${i}.expiresAt`) : Number.POSITIVE_INFINITY,
       openLifeMs: lifeMs(c.openLifeHours, `incoming.${i}.openLifeHours`),
       openedAt: null,
-      used: 0, wasted: 0, left: 0, endedAt: null, endedBy: null,
+      used: 0,
+      wasted: 0,
+      left: 0,
+      endedAt: null,
+      endedBy: null,
     })),
   ];
   for (const it of items) {

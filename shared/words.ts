@@ -7,8 +7,20 @@
  * the words live here so that both sides say the same thing.
  */
 import type {
-  AlertKind, AlertSeverity, AlertState, AttachmentKind, BatchStatus, ContainerStatus, DriverStatus, LotStatus,
-  MaterialKind, MixStatus, Role, StepRunKind, StorageClass, TestResult,
+  AlertKind,
+  AlertSeverity,
+  AlertState,
+  AttachmentKind,
+  BatchStatus,
+  ContainerStatus,
+  DriverStatus,
+  LotStatus,
+  MaterialKind,
+  MixStatus,
+  Role,
+  StepRunKind,
+  StorageClass,
+  TestResult,
 } from './constants';
 
 /** Any snake_case or kebab-case value as words: 'lead_termination' → 'Lead termination'. */

@@ -27,7 +27,10 @@ export function httpClient(base: string, maxSockets: number) {
             port: url.port,
             method,
             path,
-            headers: { ...headers, ...(payload ? { 'content-type': 'application/json', 'content-length': Buffer.byteLength(payload) } : {}) },
+            headers: {
+              ...headers,
+              ...(payload ? { 'content-type': 'application/json', 'content-length': Buffer.byteLength(payload) } : {}),
+            },
           },
           (res) => {
             const chunks: Buffer[] = [];
@@ -58,7 +61,12 @@ export interface LoadResult {
  * Runs `op` from `clients` callers for `warmupMs` (not counted), then `durationMs` (counted).
  * `op` throws on a wrong answer; errors are counted and the first is kept.
  */
-export async function closedLoop(clients: number, warmupMs: number, durationMs: number, op: (caller: number) => Promise<void>): Promise<LoadResult> {
+export async function closedLoop(
+  clients: number,
+  warmupMs: number,
+  durationMs: number,
+  op: (caller: number) => Promise<void>,
+): Promise<LoadResult> {
   const latencies: number[] = [];
   let errors = 0;
   let firstError: string | undefined;

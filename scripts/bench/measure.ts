@@ -43,7 +43,16 @@ export function printTable(rows: { label: string; n: number; api: number[]; sql:
   for (const r of rows) {
     const a = summary(r.api);
     const s = summary(r.sql);
-    lines.push([r.label, String(r.n), ms(a.p50), ms(a.p95), ms(s.p50), ms(s.p95), `${(a.p50 / s.p50).toFixed(2)}×`, `${(a.p95 / s.p95).toFixed(2)}×`]);
+    lines.push([
+      r.label,
+      String(r.n),
+      ms(a.p50),
+      ms(a.p95),
+      ms(s.p50),
+      ms(s.p95),
+      `${(a.p50 / s.p50).toFixed(2)}×`,
+      `${(a.p95 / s.p95).toFixed(2)}×`,
+    ]);
   }
   const widths = lines[0].map((_, c) => Math.max(...lines.map((l) => l[c].length)));
   const fmt = (l: string[]) => `  ${l.map((cell, c) => (c === 0 ? cell.padEnd(widths[c]) : cell.padStart(widths[c]))).join('  ')}`;

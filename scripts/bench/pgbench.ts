@@ -13,7 +13,7 @@ export function findPgbench(): string {
     const p = path.join('/usr/lib/postgresql', v, 'bin', 'pgbench');
     if (fs.existsSync(p)) return p;
   }
-  throw new Error('pgbench is not installed (it comes with Debian\'s postgresql package: apt-get install postgresql)');
+  throw new Error("pgbench is not installed (it comes with Debian's postgresql package: apt-get install postgresql)");
 }
 
 function libpqEnv(url: string): NodeJS.ProcessEnv {
@@ -35,7 +35,9 @@ function runPgbench(bin: string, url: string, args: string[]): Promise<string> {
     child.stdout.on('data', (c: Buffer) => (out += c.toString()));
     child.stderr.on('data', (c: Buffer) => (out += c.toString()));
     child.on('error', reject);
-    child.on('exit', (code) => (code === 0 ? resolve(out) : reject(new Error(`pgbench ${args.join(' ')} failed (${code}):\n${out.slice(-2000)}`))));
+    child.on('exit', (code) =>
+      code === 0 ? resolve(out) : reject(new Error(`pgbench ${args.join(' ')} failed (${code}):\n${out.slice(-2000)}`)),
+    );
   });
 }
 
@@ -53,9 +55,23 @@ export async function pgbenchInit(bin: string, url: string, scale: number): Prom
  * One pgbench run: `select` for the select-only script (-S), else TPC-B-like. Default (simple)
  * query protocol, one connection per client, two threads, no per-transaction log.
  */
-export async function pgbenchRun(bin: string, url: string, opts: { clients: number; seconds: number; select: boolean }): Promise<PgbenchResult> {
-  const out = await runPgbench(bin, url, [...(opts.select ? ['-S'] : []), '-n', '-c', String(opts.clients), '-j', '2', '-T', String(opts.seconds)]);
-  const tps = /tps = ([\d.]+) \((?:without initial connection time|excluding connections establishing)\)/.exec(out) ?? /tps = ([\d.]+)/.exec(out);
+export async function pgbenchRun(
+  bin: string,
+  url: string,
+  opts: { clients: number; seconds: number; select: boolean },
+): Promise<PgbenchResult> {
+  const out = await runPgbench(bin, url, [
+    ...(opts.select ? ['-S'] : []),
+    '-n',
+    '-c',
+    String(opts.clients),
+    '-j',
+    '2',
+    '-T',
+    String(opts.seconds),
+  ]);
+  const tps =
+    /tps = ([\d.]+) \((?:without initial connection time|excluding connections establishing)\)/.exec(out) ?? /tps = ([\d.]+)/.exec(out);
   if (!tps) throw new Error(`could not read pgbench's tps:\n${out}`);
   const avg = /latency average = ([\d.]+) ms/.exec(out);
   return { tps: Number(tps[1]), latencyAvgMs: avg ? Number(avg[1]) : null };

@@ -26,17 +26,25 @@ export interface StationFixture {
   codes: string[];
 }
 
-export async function seedStationFixture(client: pg.Client, passwordHash: string, containers: number, openBatches: number): Promise<StationFixture> {
+export async function seedStationFixture(
+  client: pg.Client,
+  passwordHash: string,
+  containers: number,
+  openBatches: number,
+): Promise<StationFixture> {
   const md5id = (t: string) => `overlay(overlay(md5('${t}') placing '4' from 13) placing '8' from 17)::uuid`;
-  await client.query(`INSERT INTO users (email, name, password_hash, roles) VALUES ($1, 'Bench assembler', $2, '{assembler}')
-    ON CONFLICT DO NOTHING`, [BENCH_ASSEMBLER, passwordHash]);
+  await client.query(
+    `INSERT INTO users (email, name, password_hash, roles) VALUES ($1, 'Bench assembler', $2, '{assembler}')
+    ON CONFLICT DO NOTHING`,
+    [BENCH_ASSEMBLER, passwordHash],
+  );
   await client.query(`UPDATE users SET password_hash = $1 WHERE email = $2`, [passwordHash, BENCH_ASSEMBLER]);
   const station = (await client.query<{ id: string }>(`SELECT ${md5id('st-2')} AS id`)).rows[0].id;
   const lot = await client.query<{ id: string }>(`
     INSERT INTO lots (material_id, supplier_id, supplier_lot, status, received_at)
     VALUES (${md5id('mat-CA')}, ${md5id('sup-1')}, 'CA-SCAN-' || to_char(now(), 'YYYYMMDDHH24MISS'), 'released', now() - interval '2 days')
     RETURNING id`);
-  const codes = Array.from({ length: containers }, (_, i) => benchContainerCode(Date.now() % 1_000_000 * 1000 + i));
+  const codes = Array.from({ length: containers }, (_, i) => benchContainerCode((Date.now() % 1_000_000) * 1000 + i));
   await client.query(
     `INSERT INTO containers (code, lot_id, seq, quantity, remaining, status)
      SELECT c, $1, n, 1000, 1000, 'sealed' FROM unnest($2::text[]) WITH ORDINALITY AS t(c, n)`,

@@ -23,7 +23,10 @@ function lockHolder(): string | null {
   for (const file of LOCK_FILES) {
     // fuser prints the process ids on stdout (and the file name and notes on stderr).
     const held = spawnSync('fuser', [file], { encoding: 'utf8' });
-    const pids = (held.stdout ?? '').trim().split(/\s+/).filter((p) => /^\d+/.test(p));
+    const pids = (held.stdout ?? '')
+      .trim()
+      .split(/\s+/)
+      .filter((p) => /^\d+/.test(p));
     if (held.status === 0 && pids.length > 0) return `${file} (process ${pids.join(', ')})`;
   }
   return null;
@@ -61,7 +64,9 @@ async function aptGet(args: string[], env: NodeJS.ProcessEnv): Promise<void> {
 export async function aptInstall(packages: string[], why: string, alternative = ''): Promise<void> {
   const list = packages.join(' ');
   if (!isRoot()) {
-    throw new UserFacingError(`${why}. Install Debian's package, then run this again:\n\n    sudo apt-get install -y ${list}\n\n(run "sudo apt-get update" first if apt cannot find it)${alternative ? `, or ${alternative}` : ''}.`);
+    throw new UserFacingError(
+      `${why}. Install Debian's package, then run this again:\n\n    sudo apt-get install -y ${list}\n\n(run "sudo apt-get update" first if apt cannot find it)${alternative ? `, or ${alternative}` : ''}.`,
+    );
   }
   log(`${why}; installing Debian's package:`);
   const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };

@@ -42,7 +42,8 @@ export function run(cmd: string, args: string[], options: SpawnOptions = {}): Pr
     child.on('error', reject);
     child.on('exit', (code, signal) => {
       if (code === 0) resolve();
-      else reject(new UserFacingError(`${path.basename(cmd)} ${args.join(' ')} failed (${signal ?? `exit ${code}`}); its output is above.`));
+      else
+        reject(new UserFacingError(`${path.basename(cmd)} ${args.join(' ')} failed (${signal ?? `exit ${code}`}); its output is above.`));
     });
   });
 }

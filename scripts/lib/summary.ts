@@ -26,7 +26,13 @@ export function summarise(reportFile: string): Summary {
     report = null;
   }
   if (!report) {
-    return { passed: 0, failed: 0, skipped: 0, line: 'tests: 0 passed, 0 failed', note: 'vitest wrote no JSON report (it stopped before running tests)' };
+    return {
+      passed: 0,
+      failed: 0,
+      skipped: 0,
+      line: 'tests: 0 passed, 0 failed',
+      note: 'vitest wrote no JSON report (it stopped before running tests)',
+    };
   }
   const passed = report.numPassedTests ?? 0;
   let failed = report.numFailedTests ?? 0;

@@ -12,8 +12,16 @@ export const DB_RETRY_AFTER_SECONDS = 5;
 
 /** Socket-level failures: nothing (or nothing alive) listens where the database should be. */
 const NETWORK_CODES = new Set([
-  'ECONNREFUSED', 'ECONNRESET', 'ECONNABORTED', 'ETIMEDOUT', 'EPIPE', 'ENOTFOUND', 'EAI_AGAIN',
-  'EHOSTUNREACH', 'ENETUNREACH', 'ENETDOWN',
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'ECONNABORTED',
+  'ETIMEDOUT',
+  'EPIPE',
+  'ENOTFOUND',
+  'EAI_AGAIN',
+  'EHOSTUNREACH',
+  'ENETUNREACH',
+  'ENETDOWN',
 ]);
 
 /**

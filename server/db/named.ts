@@ -25,6 +25,7 @@ export async function runNamed<R extends QueryResultRow>(tx: DbOrTx, name: strin
   // A drizzle transaction keeps its pg client in its session (drizzle-orm/node-postgres/session).
   const client = (tx as unknown as { session?: { client?: ClientBase } }).session?.client;
   const config = namedQuery(name, q);
-  const res = client && typeof (client as { release?: unknown }).release === 'function' ? await client.query<R>(config) : await pool.query<R>(config);
+  const res =
+    client && typeof (client as { release?: unknown }).release === 'function' ? await client.query<R>(config) : await pool.query<R>(config);
   return res.rows;
 }

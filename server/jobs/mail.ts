@@ -47,7 +47,10 @@ export function startOutboxWorker(pollMs = 5000): () => void {
       .then(
         (r) => {
           if (r.sent || r.failed || r.retried || r.recovered) {
-            logger.info({ job: 'mail', ...r }, `sent ${r.sent}, retry later ${r.retried}, failed ${r.failed}, found delivered ${r.recovered}`);
+            logger.info(
+              { job: 'mail', ...r },
+              `sent ${r.sent}, retry later ${r.retried}, failed ${r.failed}, found delivered ${r.recovered}`,
+            );
           }
         },
         (err: unknown) => logger.error({ job: 'mail', err }, 'outbox round failed'),
@@ -88,6 +91,6 @@ export function scheduleDigest(time = config.mail.digestTime, after: Promise<unk
   const [hh, mm] = time.split(':').map(Number);
   const plantNow = new Date().toLocaleString('en-GB', { timeZone: config.plantZone, hour: '2-digit', minute: '2-digit', hourCycle: 'h23' });
   const [nh, nm] = plantNow.split(':').map(Number);
-  if (nh * 60 + nm >= hh * 60 + mm) void after.finally(() => run('catching up on today\'s digest'));
+  if (nh * 60 + nm >= hh * 60 + mm) void after.finally(() => run("catching up on today's digest"));
   return () => void task.stop();
 }

@@ -26,14 +26,24 @@ interface HttpishError {
 }
 
 /** Sends the API's error shape with a code of the catalogue (and its status unless given). */
-export function sendError(res: Response, code: RefusalCode, message: string, details?: unknown, status: number = REFUSALS[code].status): void {
+export function sendError(
+  res: Response,
+  code: RefusalCode,
+  message: string,
+  details?: unknown,
+  status: number = REFUSALS[code].status,
+): void {
   if (status === 503) res.set('Retry-After', String(DB_RETRY_AFTER_SECONDS));
   res.status(status).json({ error: { code, message, details } });
 }
 
 /** 503 DB_UNAVAILABLE: the request could not reach PostgreSQL (down, restarting, refusing connections). */
 export function databaseUnavailable(): AppError {
-  return new AppError('DB_UNAVAILABLE', 'The database cannot be reached right now; Tacklog retries by itself. Try again in a few seconds.', 503);
+  return new AppError(
+    'DB_UNAVAILABLE',
+    'The database cannot be reached right now; Tacklog retries by itself. Try again in a few seconds.',
+    503,
+  );
 }
 
 interface PgError {
@@ -46,7 +56,11 @@ interface PgError {
 
 /** The PostgreSQL error in `err` or its causes (Drizzle wraps the driver's error). */
 function pgErrorOf(err: unknown): PgError | null {
-  for (let e = err as { code?: unknown; cause?: unknown; severity?: unknown } | undefined, i = 0; e && i < 5; e = e.cause as typeof e, i++) {
+  for (
+    let e = err as { code?: unknown; cause?: unknown; severity?: unknown } | undefined, i = 0;
+    e && i < 5;
+    e = e.cause as typeof e, i++
+  ) {
     if (typeof e.code === 'string' && /^[0-9A-Z]{5}$/.test(e.code) && 'severity' in e) return e as unknown as PgError;
   }
   return null;
@@ -59,12 +73,28 @@ const camel = (column: string) => column.replace(/_([a-z0-9])/g, (_m, c: string)
  * violation is 409 DUPLICATE naming the fields from PostgreSQL's detail ("Key (code)=…").
  */
 const UNIQUE_CONSTRAINTS: Record<string, { code: RefusalCode; fields: string[]; message: string }> = {
-  materials_code_uq: { code: 'DUPLICATE_CODE', fields: ['code'], message: 'A material with this code already exists; choose another code.' },
-  materials_gtin_uq: { code: 'DUPLICATE_GTIN', fields: ['gtin'], message: 'This GTIN already belongs to another material; one GTIN identifies one material.' },
-  suppliers_code_uq: { code: 'DUPLICATE_CODE', fields: ['code'], message: 'A supplier with this code already exists; choose another code.' },
+  materials_code_uq: {
+    code: 'DUPLICATE_CODE',
+    fields: ['code'],
+    message: 'A material with this code already exists; choose another code.',
+  },
+  materials_gtin_uq: {
+    code: 'DUPLICATE_GTIN',
+    fields: ['gtin'],
+    message: 'This GTIN already belongs to another material; one GTIN identifies one material.',
+  },
+  suppliers_code_uq: {
+    code: 'DUPLICATE_CODE',
+    fields: ['code'],
+    message: 'A supplier with this code already exists; choose another code.',
+  },
   suppliers_name_lower_uq: { code: 'DUPLICATE_NAME', fields: ['name'], message: 'A supplier with this name already exists.' },
   stations_code_uq: { code: 'DUPLICATE_CODE', fields: ['code'], message: 'A station with this code already exists; choose another code.' },
-  driver_models_code_revision_uq: { code: 'DUPLICATE_CODE', fields: ['code'], message: 'A driver model with this code already exists; choose another code.' },
+  driver_models_code_revision_uq: {
+    code: 'DUPLICATE_CODE',
+    fields: ['code'],
+    message: 'A driver model with this code already exists; choose another code.',
+  },
   users_email_lower_uq: { code: 'DUPLICATE_EMAIL', fields: ['email'], message: 'A user with this e-mail address already exists.' },
   defect_codes_pkey: { code: 'DUPLICATE', fields: ['code'], message: 'This defect code already exists; edit it instead.' },
   station_loads_active_mix_uq: {
@@ -83,7 +113,14 @@ const UNIQUE_CONSTRAINTS: Record<string, { code: RefusalCode; fields: string[]; 
 function fieldsFromDetail(detail: string | undefined): string[] {
   const m = /^Key \((.+?)\)=/.exec(detail ?? '');
   if (!m) return [];
-  return m[1].split(',').map((part) => camel(part.trim().replace(/^\w+\((.+)\)$/, '$1').replace(/::\w+$/, '')));
+  return m[1].split(',').map((part) =>
+    camel(
+      part
+        .trim()
+        .replace(/^\w+\((.+)\)$/, '$1')
+        .replace(/::\w+$/, ''),
+    ),
+  );
 }
 
 /** Maps a PostgreSQL error caused by the request's data to an answer; null for a server fault. */
@@ -105,7 +142,11 @@ export function appErrorFromPg(err: unknown): AppError | null {
     return new AppError('TRY_AGAIN', 'Another change to the same records happened at the same moment; send the request again.', 409);
   }
   if (pg.code === '23503') {
-    return new AppError('REFERENCE_CHANGED', 'A record this request refers to was changed or removed a moment ago; reload and try again.', 409);
+    return new AppError(
+      'REFERENCE_CHANGED',
+      'A record this request refers to was changed or removed a moment ago; reload and try again.',
+      409,
+    );
   }
   // Data exceptions (class 22) and check violations come from values the schemas let through.
   if (pg.code.startsWith('22') || pg.code === '23514' || pg.code === '23502') {

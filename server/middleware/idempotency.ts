@@ -28,16 +28,18 @@ function pruneNowAndThen(): void {
   if (now - lastPrune < 3600 * 1000) return;
   lastPrune = now;
   pruneKeys(new Date(now - KEEP_MS)).then(
-      () => undefined,
-      (err: unknown) => logger.error({ err }, 'pruning old idempotency keys failed'),
-    );
+    () => undefined,
+    (err: unknown) => logger.error({ err }, 'pruning old idempotency keys failed'),
+  );
 }
 
 /** JSON with object keys sorted, so {a,b} and {b,a} are one request. */
 function canonical(value: unknown): string {
   if (Array.isArray(value)) return `[${value.map(canonical).join(',')}]`;
   if (value && typeof value === 'object') {
-    const entries = Object.keys(value as Record<string, unknown>).sort().map((k) => `${JSON.stringify(k)}:${canonical((value as Record<string, unknown>)[k])}`);
+    const entries = Object.keys(value as Record<string, unknown>)
+      .sort()
+      .map((k) => `${JSON.stringify(k)}:${canonical((value as Record<string, unknown>)[k])}`);
     return `{${entries.join(',')}}`;
   }
   return JSON.stringify(value) ?? 'null';
@@ -49,8 +51,15 @@ function canonical(value: unknown): string {
  */
 function requestHash(req: Request): string | null {
   if (req.is('multipart/form-data')) return null;
-  const body: unknown = req.body === undefined || (typeof req.body === 'object' && req.body !== null && !Array.isArray(req.body) && Object.keys(req.body as object).length === 0) ? null : req.body;
-  return crypto.createHash('sha256').update(canonical({ query: req.query, body })).digest('hex');
+  const body: unknown =
+    req.body === undefined ||
+    (typeof req.body === 'object' && req.body !== null && !Array.isArray(req.body) && Object.keys(req.body as object).length === 0)
+      ? null
+      : req.body;
+  return crypto
+    .createHash('sha256')
+    .update(canonical({ query: req.query, body }))
+    .digest('hex');
 }
 
 function invalidKey(): AppError {
@@ -138,7 +147,11 @@ export const idempotency: RequestHandler = async (req, res, next) => {
       );
     }
     if (first.statusCode === null) {
-      throw new AppError('IDEMPOTENCY_IN_PROGRESS', 'The first request with this Idempotency-Key is still running; wait for it and retry.', 409);
+      throw new AppError(
+        'IDEMPOTENCY_IN_PROGRESS',
+        'The first request with this Idempotency-Key is still running; wait for it and retry.',
+        409,
+      );
     }
     res.set('Idempotent-Replayed', 'true');
     if (first.responseBody === null) res.status(first.statusCode).end();

@@ -6,11 +6,16 @@ import { runComplianceNow } from '../services/compliance';
 
 export const alertsRouter = Router();
 
-alertsRouter.get('/', endpoint({ access: 'signed-in', query: alertListQuerySchema }, ({ actor, query }) => listAlerts(actor, query)));
+alertsRouter.get(
+  '/',
+  endpoint({ access: 'signed-in', query: alertListQuerySchema }, ({ actor, query }) => listAlerts(actor, query)),
+);
 
 alertsRouter.post(
   '/:id/acknowledge',
-  endpoint({ access: 'alerts.acknowledge', params: alertParamsSchema }, async ({ actor, params }) => ({ alert: await acknowledgeAlert(actor, params.id) })),
+  endpoint({ access: 'alerts.acknowledge', params: alertParamsSchema }, async ({ actor, params }) => ({
+    alert: await acknowledgeAlert(actor, params.id),
+  })),
 );
 
 alertsRouter.post(
@@ -22,4 +27,7 @@ alertsRouter.post(
 
 export const complianceRouter = Router();
 
-complianceRouter.post('/run', endpoint({ access: 'compliance.run' }, ({ actor }) => runComplianceNow(actor)));
+complianceRouter.post(
+  '/run',
+  endpoint({ access: 'compliance.run' }, ({ actor }) => runComplianceNow(actor)),
+);

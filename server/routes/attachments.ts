@@ -36,21 +36,35 @@ export function acceptUpload(access: Access): RequestHandler {
       if (err instanceof multer.MulterError) {
         if (err.code === 'LIMIT_FILE_SIZE') {
           const mb = (config.maxUploadBytes / 1024 / 1024).toFixed(1);
-          next(new AppError('TOO_LARGE', `The file is larger than the limit of ${mb} MB.`, 413, [{ field: UPLOAD_FIELD, message: `is larger than ${config.maxUploadBytes} bytes` }]));
+          next(
+            new AppError('TOO_LARGE', `The file is larger than the limit of ${mb} MB.`, 413, [
+              { field: UPLOAD_FIELD, message: `is larger than ${config.maxUploadBytes} bytes` },
+            ]),
+          );
           return;
         }
         if (err.code === 'LIMIT_UNEXPECTED_FILE') {
-          next(fieldError(UPLOAD_FIELD, `is required: send one file in the field "${UPLOAD_FIELD}" (a file came in "${err.field ?? '?'}")`));
+          next(
+            fieldError(UPLOAD_FIELD, `is required: send one file in the field "${UPLOAD_FIELD}" (a file came in "${err.field ?? '?'}")`),
+          );
           return;
         }
-        next(new AppError('BAD_UPLOAD', `The upload was refused: ${err.message}.`, 400, [{ field: err.field ?? UPLOAD_FIELD, message: err.message }]));
+        next(
+          new AppError('BAD_UPLOAD', `The upload was refused: ${err.message}.`, 400, [
+            { field: err.field ?? UPLOAD_FIELD, message: err.message },
+          ]),
+        );
         return;
       }
       if (err) {
         // The multipart parser's own errors (no boundary, a broken part header, a body cut short)
         // are a malformed request, not a server fault.
         const message = err instanceof Error ? err.message : String(err);
-        next(new AppError('BAD_UPLOAD', `The upload could not be read (${message}); send it again as multipart/form-data.`, 400, [{ field: UPLOAD_FIELD, message: 'could not be read' }]));
+        next(
+          new AppError('BAD_UPLOAD', `The upload could not be read (${message}); send it again as multipart/form-data.`, 400, [
+            { field: UPLOAD_FIELD, message: 'could not be read' },
+          ]),
+        );
         return;
       }
       next();
@@ -67,13 +81,16 @@ attachmentsRouter.get(
 
 attachmentsRouter.get(
   '/:id',
-  endpoint({ access: 'signed-in', params: attachmentParamsSchema, query: attachmentDownloadQuerySchema }, async ({ actor, params, query, res }) => {
-    const { attachment, bytes } = await readAttachment(actor, params.id);
-    res.setHeader('Content-Type', attachment.mimeType);
-    res.setHeader('Content-Disposition', contentDisposition(attachment.filename, query.disposition === 'inline', attachment.mimeType));
-    res.setHeader('Cache-Control', 'private, no-store');
-    res.setHeader('X-Content-Type-Options', 'nosniff');
-    res.status(200).send(bytes);
-    return undefined;
-  }),
+  endpoint(
+    { access: 'signed-in', params: attachmentParamsSchema, query: attachmentDownloadQuerySchema },
+    async ({ actor, params, query, res }) => {
+      const { attachment, bytes } = await readAttachment(actor, params.id);
+      res.setHeader('Content-Type', attachment.mimeType);
+      res.setHeader('Content-Disposition', contentDisposition(attachment.filename, query.disposition === 'inline', attachment.mimeType));
+      res.setHeader('Cache-Control', 'private, no-store');
+      res.setHeader('X-Content-Type-Options', 'nosniff');
+      res.status(200).send(bytes);
+      return undefined;
+    },
+  ),
 );

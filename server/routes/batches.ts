@@ -7,13 +7,22 @@ import { batchCure } from '../services/cure';
 
 export const batchesRouter = Router();
 
-batchesRouter.get('/', endpoint({ access: 'signed-in', query: batchListQuerySchema }, ({ query }) => listBatches(query)));
+batchesRouter.get(
+  '/',
+  endpoint({ access: 'signed-in', query: batchListQuerySchema }, ({ query }) => listBatches(query)),
+);
 
 batchesRouter.post(
   '/',
   endpoint({ access: 'batches.create', body: batchInputSchema, status: 201 }, ({ actor, body }) => createBatch(actor, body)),
 );
 
-batchesRouter.get('/:id', endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => getBatchDetail(params.id)));
+batchesRouter.get(
+  '/:id',
+  endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => getBatchDetail(params.id)),
+);
 
-batchesRouter.get('/:id/cure', endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => batchCure(params.id)));
+batchesRouter.get(
+  '/:id/cure',
+  endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => batchCure(params.id)),
+);

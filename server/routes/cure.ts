@@ -5,6 +5,12 @@ import { cureBoard, estimateCure } from '../services/cure';
 
 export const cureRouter = Router();
 
-cureRouter.post('/estimate', endpoint({ access: 'signed-in', body: cureEstimateInputSchema }, ({ body }) => estimateCure(body)));
+cureRouter.post(
+  '/estimate',
+  endpoint({ access: 'signed-in', body: cureEstimateInputSchema }, ({ body }) => estimateCure(body)),
+);
 
-cureRouter.get('/board', endpoint({ access: 'signed-in', query: cureBoardQuerySchema }, ({ query }) => cureBoard(query)));
+cureRouter.get(
+  '/board',
+  endpoint({ access: 'signed-in', query: cureBoardQuerySchema }, ({ query }) => cureBoard(query)),
+);

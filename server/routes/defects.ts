@@ -1,6 +1,9 @@
 import { Router } from 'express';
 import {
-  defectCodeCreateSchema, defectCodeListQuerySchema, defectCodeParamsSchema, defectCodeUpdateSchema,
+  defectCodeCreateSchema,
+  defectCodeListQuerySchema,
+  defectCodeParamsSchema,
+  defectCodeUpdateSchema,
 } from '../../shared/schemas/defects';
 import { endpoint } from '../http';
 import { createDefectCode, listDefectCodes, updateDefectCode } from '../services/defects';
@@ -8,7 +11,10 @@ import { createDefectCode, listDefectCodes, updateDefectCode } from '../services
 /** /api/defect-codes — the editable list of final-test defect codes. */
 export const defectsRouter = Router();
 
-defectsRouter.get('/', endpoint({ access: 'signed-in', query: defectCodeListQuerySchema }, ({ query }) => listDefectCodes(query)));
+defectsRouter.get(
+  '/',
+  endpoint({ access: 'signed-in', query: defectCodeListQuerySchema }, ({ query }) => listDefectCodes(query)),
+);
 
 defectsRouter.post(
   '/',

@@ -5,7 +5,10 @@ import { listDeviations, recordDeviation } from '../services/deviations';
 
 export const deviationsRouter = Router();
 
-deviationsRouter.get('/', endpoint({ access: 'signed-in', query: deviationListQuerySchema }, ({ query }) => listDeviations(query)));
+deviationsRouter.get(
+  '/',
+  endpoint({ access: 'signed-in', query: deviationListQuerySchema }, ({ query }) => listDeviations(query)),
+);
 
 deviationsRouter.post(
   '/',

@@ -6,7 +6,10 @@ import { finishRework, getDriver, scrapDriver, startRework } from '../services/d
 /** /api/drivers/:serial — one unit, its history, rework and scrap. */
 export const driversRouter = Router();
 
-driversRouter.get('/:serial', endpoint({ access: 'signed-in', params: serialParamsSchema }, ({ params }) => getDriver(params.serial)));
+driversRouter.get(
+  '/:serial',
+  endpoint({ access: 'signed-in', params: serialParamsSchema }, ({ params }) => getDriver(params.serial)),
+);
 
 driversRouter.post(
   '/:serial/scrap',

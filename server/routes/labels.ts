@@ -5,7 +5,10 @@ import { labelRenderQuerySchema, stationLabelQuerySchema } from '../../shared/sc
 
 export const labelsRouter = Router();
 
-labelsRouter.get('/layouts', endpoint({ access: 'signed-in' }, () => listLabelLayouts()));
+labelsRouter.get(
+  '/layouts',
+  endpoint({ access: 'signed-in' }, () => listLabelLayouts()),
+);
 
 /** text/html to open in a browser tab and print at 100 %. */
 labelsRouter.get(

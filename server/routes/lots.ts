@@ -8,24 +8,38 @@ import { acceptUpload } from './attachments';
 
 export const lotsRouter = Router();
 
-lotsRouter.get('/', endpoint({ access: 'signed-in', query: lotListQuerySchema }, ({ query }) => listLots(query)));
+lotsRouter.get(
+  '/',
+  endpoint({ access: 'signed-in', query: lotListQuerySchema }, ({ query }) => listLots(query)),
+);
 
 lotsRouter.post(
   '/',
   endpoint({ access: 'lots.receive', body: receiveLotInputSchema, status: 201 }, ({ actor, body }) => receiveLot(actor, body)),
 );
 
-lotsRouter.get('/:id', endpoint({ access: 'signed-in', params: lotParamsSchema }, ({ params }) => getLotDetail(params.id)));
+lotsRouter.get(
+  '/:id',
+  endpoint({ access: 'signed-in', params: lotParamsSchema }, ({ params }) => getLotDetail(params.id)),
+);
 
 /** The full audit trail of a lot and its containers (names, old and new values): quality and admin. */
-lotsRouter.get('/:id/history', endpoint({ access: 'lots.readHistory', params: lotParamsSchema }, ({ actor, params }) => getLotHistory(actor, params.id)));
+lotsRouter.get(
+  '/:id/history',
+  endpoint({ access: 'lots.readHistory', params: lotParamsSchema }, ({ actor, params }) => getLotHistory(actor, params.id)),
+);
 
 /** How the lot's status moved, when and why: anyone signed in. */
-lotsRouter.get('/:id/status-changes', endpoint({ access: 'signed-in', params: lotParamsSchema }, ({ params }) => getLotStatusChanges(params.id)));
+lotsRouter.get(
+  '/:id/status-changes',
+  endpoint({ access: 'signed-in', params: lotParamsSchema }, ({ params }) => getLotStatusChanges(params.id)),
+);
 
 lotsRouter.post(
   '/:id/status',
-  endpoint({ access: 'lots.release', params: lotParamsSchema, body: lotStatusChangeSchema }, ({ actor, params, body }) => changeLotStatus(actor, params.id, body)),
+  endpoint({ access: 'lots.release', params: lotParamsSchema, body: lotStatusChangeSchema }, ({ actor, params, body }) =>
+    changeLotStatus(actor, params.id, body),
+  ),
 );
 
 /** Certificate of analysis: multipart/form-data, PDF/PNG/JPEG in `file`, optional `expiresOn`. */

@@ -6,4 +6,7 @@ import { getMix } from '../services/mixes';
 /** Mixes are made at a station (POST /api/stations/:id/mixes); read here. */
 export const mixesRouter = Router();
 
-mixesRouter.get('/:id', endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => getMix(params.id)));
+mixesRouter.get(
+  '/:id',
+  endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => getMix(params.id)),
+);

@@ -6,14 +6,20 @@ import { createModel, createRevision, getModel, listModels, makeRevisionCurrent,
 
 export const modelsRouter = Router();
 
-modelsRouter.get('/', endpoint({ access: 'signed-in', query: modelListQuerySchema }, ({ query }) => listModels(query)));
+modelsRouter.get(
+  '/',
+  endpoint({ access: 'signed-in', query: modelListQuerySchema }, ({ query }) => listModels(query)),
+);
 
 modelsRouter.post(
   '/',
   endpoint({ access: 'models.edit', body: driverModelInputSchema, status: 201 }, ({ actor, body }) => createModel(actor, body)),
 );
 
-modelsRouter.get('/:id', endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => getModel(params.id)));
+modelsRouter.get(
+  '/:id',
+  endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => getModel(params.id)),
+);
 
 modelsRouter.patch(
   '/:id',

@@ -6,5 +6,11 @@ import { qualityOverview } from '../services/quality/overview';
 
 export const qualityRouter = Router();
 
-qualityRouter.get('/overview', endpoint({ access: 'quality.overview', query: qualityOverviewQuerySchema }, ({ actor, query }) => qualityOverview(actor, query)));
-qualityRouter.post('/baseline', endpoint({ access: 'quality.overrideBaseline', body: baselineOverrideInputSchema }, ({ actor, body }) => overrideBaseline(actor, body)));
+qualityRouter.get(
+  '/overview',
+  endpoint({ access: 'quality.overview', query: qualityOverviewQuerySchema }, ({ actor, query }) => qualityOverview(actor, query)),
+);
+qualityRouter.post(
+  '/baseline',
+  endpoint({ access: 'quality.overrideBaseline', body: baselineOverrideInputSchema }, ({ actor, body }) => overrideBaseline(actor, body)),
+);

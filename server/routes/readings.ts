@@ -5,7 +5,10 @@ import { listReadings, recordReadings } from '../services/readings';
 
 export const readingsRouter = Router();
 
-readingsRouter.get('/', endpoint({ access: 'signed-in', query: readingQuerySchema }, ({ query }) => listReadings(query)));
+readingsRouter.get(
+  '/',
+  endpoint({ access: 'signed-in', query: readingQuerySchema }, ({ query }) => listReadings(query)),
+);
 
 /** One reading answers with the Reading; `{readings: [...]}` answers `{items}`. */
 readingsRouter.post(

@@ -5,4 +5,7 @@ import { scanInputSchema } from '../../shared/schemas/scans';
 
 export const scansRouter = Router();
 
-scansRouter.post('/resolve', endpoint({ access: 'signed-in', body: scanInputSchema }, ({ actor, body }) => resolveScan(actor, body.code)));
+scansRouter.post(
+  '/resolve',
+  endpoint({ access: 'signed-in', body: scanInputSchema }, ({ actor, body }) => resolveScan(actor, body.code)),
+);

@@ -1,8 +1,6 @@
 import { Router } from 'express';
 import { endpoint } from '../http';
-import {
-  idParamsSchema, stationInputSchema, stationListQuerySchema, stationPatchSchema,
-} from '../../shared/schemas/stations';
+import { idParamsSchema, stationInputSchema, stationListQuerySchema, stationPatchSchema } from '../../shared/schemas/stations';
 import { loadInputSchema, stationLoadedQuerySchema, unloadInputSchema } from '../../shared/schemas/station-loads';
 import { mixInputSchema } from '../../shared/schemas/mixes';
 import { createStation, getStation, listStations, retireStation, updateStation } from '../services/stations';
@@ -11,14 +9,20 @@ import { createMix } from '../services/mixes';
 
 export const stationsRouter = Router();
 
-stationsRouter.get('/', endpoint({ access: 'signed-in', query: stationListQuerySchema }, ({ query }) => listStations(query)));
+stationsRouter.get(
+  '/',
+  endpoint({ access: 'signed-in', query: stationListQuerySchema }, ({ query }) => listStations(query)),
+);
 
 stationsRouter.post(
   '/',
   endpoint({ access: 'stations.edit', body: stationInputSchema, status: 201 }, ({ actor, body }) => createStation(actor, body)),
 );
 
-stationsRouter.get('/:id', endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => getStation(params.id)));
+stationsRouter.get(
+  '/:id',
+  endpoint({ access: 'signed-in', params: idParamsSchema }, ({ params }) => getStation(params.id)),
+);
 
 stationsRouter.patch(
   '/:id',

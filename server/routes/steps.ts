@@ -16,6 +16,12 @@ stepsRouter.post(
 stepsRouter.post(
   '/:id/steps/:stepId/finish',
   endpoint({ access: 'steps.run', params: stepParamsSchema, body: stepActionInputSchema }, ({ actor, params, body }) =>
-    finishStep(actor, { batchId: params.id, stepId: params.stepId, stationId: body.stationId, serial: body.serial, exposureSeconds: body.exposureSeconds }),
+    finishStep(actor, {
+      batchId: params.id,
+      stepId: params.stepId,
+      stationId: body.stationId,
+      serial: body.serial,
+      exposureSeconds: body.exposureSeconds,
+    }),
   ),
 );

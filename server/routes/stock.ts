@@ -18,7 +18,10 @@ stockRouter.get(
   ),
 );
 
-stockRouter.post('/simulate', endpoint({ access: 'stock.read', body: simulateInputSchema }, ({ actor, body }) => simulateStock(actor, body)));
+stockRouter.post(
+  '/simulate',
+  endpoint({ access: 'stock.read', body: simulateInputSchema }, ({ actor, body }) => simulateStock(actor, body)),
+);
 
 stockRouter.get(
   '/outlook',
@@ -27,6 +30,12 @@ stockRouter.get(
   ),
 );
 
-stockRouter.get('/today', endpoint({ access: 'stock.read' }, ({ actor }) => stockToday(actor)));
+stockRouter.get(
+  '/today',
+  endpoint({ access: 'stock.read' }, ({ actor }) => stockToday(actor)),
+);
 
-stockRouter.get('/materials/:id', endpoint({ access: 'stock.read', params: stockMaterialParamsSchema }, ({ actor, params }) => materialStock(actor, params.id)));
+stockRouter.get(
+  '/materials/:id',
+  endpoint({ access: 'stock.read', params: stockMaterialParamsSchema }, ({ actor, params }) => materialStock(actor, params.id)),
+);

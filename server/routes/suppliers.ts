@@ -1,15 +1,19 @@
 import { Router } from 'express';
 import { endpoint } from '../http';
 import { createSupplier, getSupplier, listSuppliers, retireSupplier, updateSupplier } from '../services/catalogue';
-import {
-  supplierInputSchema, supplierListQuerySchema, supplierParamsSchema, supplierPatchSchema,
-} from '../../shared/schemas/suppliers';
+import { supplierInputSchema, supplierListQuerySchema, supplierParamsSchema, supplierPatchSchema } from '../../shared/schemas/suppliers';
 
 export const suppliersRouter = Router();
 
-suppliersRouter.get('/', endpoint({ access: 'signed-in', query: supplierListQuerySchema }, ({ query }) => listSuppliers(query)));
+suppliersRouter.get(
+  '/',
+  endpoint({ access: 'signed-in', query: supplierListQuerySchema }, ({ query }) => listSuppliers(query)),
+);
 
-suppliersRouter.get('/:id', endpoint({ access: 'signed-in', params: supplierParamsSchema }, ({ params }) => getSupplier(params.id)));
+suppliersRouter.get(
+  '/:id',
+  endpoint({ access: 'signed-in', params: supplierParamsSchema }, ({ params }) => getSupplier(params.id)),
+);
 
 suppliersRouter.post(
   '/',
@@ -18,7 +22,9 @@ suppliersRouter.post(
 
 suppliersRouter.patch(
   '/:id',
-  endpoint({ access: 'suppliers.edit', params: supplierParamsSchema, body: supplierPatchSchema }, ({ actor, params, body }) => updateSupplier(actor, params.id, body)),
+  endpoint({ access: 'suppliers.edit', params: supplierParamsSchema, body: supplierPatchSchema }, ({ actor, params, body }) =>
+    updateSupplier(actor, params.id, body),
+  ),
 );
 
 suppliersRouter.post(

@@ -16,9 +16,15 @@ traceRouter.get(
 );
 
 // Before the lots router's /lots/:id.
-traceRouter.get('/lots/stats', endpoint({ access: 'signed-in', query: lotStatsQuerySchema }, ({ query }) => lotStats(query)));
+traceRouter.get(
+  '/lots/stats',
+  endpoint({ access: 'signed-in', query: lotStatsQuerySchema }, ({ query }) => lotStats(query)),
+);
 
-traceRouter.get('/lots/:id/trace', endpoint({ access: 'signed-in', params: lotTraceParamsSchema }, ({ params }) => traceLot(params.id)));
+traceRouter.get(
+  '/lots/:id/trace',
+  endpoint({ access: 'signed-in', params: lotTraceParamsSchema }, ({ params }) => traceLot(params.id)),
+);
 
 traceRouter.get(
   '/lots/:id/trace.csv',

@@ -7,10 +7,13 @@ export const idSchema = z.string().uuid({ message: 'must be an id (UUID)' });
 export const instantSchema = z.string().datetime({ offset: true, message: 'must be an ISO 8601 timestamp with offset' });
 
 /** Calendar date YYYY-MM-DD. */
-export const dateSchema = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: 'must be a date as YYYY-MM-DD', abort: true }).refine((s) => {
-  const d = new Date(`${s}T00:00:00Z`);
-  return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
-}, 'is not a real calendar date');
+export const dateSchema = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}$/, { message: 'must be a date as YYYY-MM-DD', abort: true })
+  .refine((s) => {
+    const d = new Date(`${s}T00:00:00Z`);
+    return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
+  }, 'is not a real calendar date');
 
 export const paginationQuerySchema = z.object({
   limit: z.coerce.number().int().min(1).max(500).default(50),

@@ -104,13 +104,21 @@ export type Container = z.infer<typeof containerSchema>;
 
 /** POST /api/containers/:id/location */
 export const containerLocationInputSchema = z.object({
-  location: z.string({ error: (i) => (i.input === undefined ? 'is required' : 'must be text') }).trim().min(1, 'is required').max(80, 'must be at most 80 characters'),
+  location: z
+    .string({ error: (i) => (i.input === undefined ? 'is required' : 'must be text') })
+    .trim()
+    .min(1, 'is required')
+    .max(80, 'must be at most 80 characters'),
 });
 export type ContainerLocationInput = z.input<typeof containerLocationInputSchema>;
 
 /** POST /api/containers/:id/scrap */
 export const containerScrapInputSchema = z.object({
-  reason: z.string({ error: (i) => (i.input === undefined ? 'is required' : 'must be text') }).trim().min(3, 'is required (at least 3 characters)').max(500, 'must be at most 500 characters'),
+  reason: z
+    .string({ error: (i) => (i.input === undefined ? 'is required' : 'must be text') })
+    .trim()
+    .min(3, 'is required (at least 3 characters)')
+    .max(500, 'must be at most 500 characters'),
 });
 export type ContainerScrapInput = z.input<typeof containerScrapInputSchema>;
 

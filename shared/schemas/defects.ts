@@ -24,7 +24,10 @@ export type DefectCodeList = z.infer<typeof defectCodeListSchema>;
 
 export const defectCodeListQuerySchema = z.object({
   /** `true` lists only the codes a tester may pick. */
-  active: z.enum(['true', 'false']).optional().transform((v) => (v === undefined ? undefined : v === 'true')),
+  active: z
+    .enum(['true', 'false'])
+    .optional()
+    .transform((v) => (v === undefined ? undefined : v === 'true')),
 });
 export type DefectCodeListQuery = z.infer<typeof defectCodeListQuerySchema>;
 

@@ -9,8 +9,15 @@ import { idSchema } from './common';
  */
 
 export const LABEL_FIELDS = [
-  'materialName', 'materialCode', 'supplierLot', 'containerOfTotal', 'receivedOn',
-  'effectiveExpiry', 'storageClass', 'quantity', 'supplierName',
+  'materialName',
+  'materialCode',
+  'supplierLot',
+  'containerOfTotal',
+  'receivedOn',
+  'effectiveExpiry',
+  'storageClass',
+  'quantity',
+  'supplierName',
 ] as const;
 export type LabelField = (typeof LABEL_FIELDS)[number];
 
@@ -55,15 +62,29 @@ export const labelLayoutListSchema = z.object({ items: z.array(labelLayoutSchema
  */
 export const labelRenderQuerySchema = z
   .object({
-    layout: z.string({ error: (i) => (i.input === undefined ? 'is required' : 'must be a layout id') }).min(1, 'is required').max(60),
+    layout: z
+      .string({ error: (i) => (i.input === undefined ? 'is required' : 'must be a layout id') })
+      .min(1, 'is required')
+      .max(60),
     lotId: idSchema.optional(),
     containerIds: z
       .preprocess(
-        (v) => (typeof v === 'string' ? v.split(',').map((s) => s.trim()).filter(Boolean) : v),
+        (v) =>
+          typeof v === 'string'
+            ? v
+                .split(',')
+                .map((s) => s.trim())
+                .filter(Boolean)
+            : v,
         z.array(idSchema).min(1, 'must list at least one container').max(500, 'must list at most 500 containers'),
       )
       .optional(),
-    skip: z.coerce.number({ error: 'must be a number' }).int('must be a whole number').min(0, 'must not be negative').max(500, 'is too large').default(0),
+    skip: z.coerce
+      .number({ error: 'must be a number' })
+      .int('must be a whole number')
+      .min(0, 'must not be negative')
+      .max(500, 'is too large')
+      .default(0),
   })
   .superRefine((q, ctx) => {
     if (!q.lotId && !q.containerIds) ctx.addIssue({ code: 'custom', path: ['lotId'], message: 'or containerIds is required' });
@@ -76,9 +97,22 @@ export type LabelRenderQuery = z.output<typeof labelRenderQuerySchema>;
  * container label layouts. `skip` as for container labels; `copies` prints the same label again.
  */
 export const stationLabelQuerySchema = z.object({
-  layout: z.string({ error: (i) => (i.input === undefined ? 'is required' : 'must be a layout id') }).min(1, 'is required').max(60),
+  layout: z
+    .string({ error: (i) => (i.input === undefined ? 'is required' : 'must be a layout id') })
+    .min(1, 'is required')
+    .max(60),
   stationId: idSchema,
-  copies: z.coerce.number({ error: 'must be a number' }).int('must be a whole number').min(1, 'must be at least 1').max(100, 'must be at most 100').default(1),
-  skip: z.coerce.number({ error: 'must be a number' }).int('must be a whole number').min(0, 'must not be negative').max(500, 'is too large').default(0),
+  copies: z.coerce
+    .number({ error: 'must be a number' })
+    .int('must be a whole number')
+    .min(1, 'must be at least 1')
+    .max(100, 'must be at most 100')
+    .default(1),
+  skip: z.coerce
+    .number({ error: 'must be a number' })
+    .int('must be a whole number')
+    .min(0, 'must not be negative')
+    .max(500, 'is too large')
+    .default(0),
 });
 export type StationLabelQuery = z.output<typeof stationLabelQuerySchema>;

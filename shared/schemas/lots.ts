@@ -34,24 +34,39 @@ export const LOT_TRANSITIONS: Record<(typeof LOT_STATUSES)[number], readonly (ty
 export const RECEIVED_AT_TOLERANCE_MINUTES = 5;
 export const MAX_CONTAINERS_PER_RECEIPT = 500;
 
-
 /** POST /api/lots body. */
 export const receiveLotInputSchema = z
   .object({
     materialId: requiredIdSchema,
     supplierId: requiredIdSchema,
     supplierLot: z.string(orRequired('must be text')).trim().min(1, 'is required').max(60, 'must be at most 60 characters'),
-    containers: z.number(orRequired('must be a whole number of containers')).int('must be a whole number of containers')
-      .min(1, 'must be at least 1').max(MAX_CONTAINERS_PER_RECEIPT, `must be at most ${MAX_CONTAINERS_PER_RECEIPT}`),
-    quantityPerContainer: fitsColumn(z.number(orRequired('must be a number')).positive('must be more than 0').max(1e9, 'is too large'), QUANTITY_COLUMN),
+    containers: z
+      .number(orRequired('must be a whole number of containers'))
+      .int('must be a whole number of containers')
+      .min(1, 'must be at least 1')
+      .max(MAX_CONTAINERS_PER_RECEIPT, `must be at most ${MAX_CONTAINERS_PER_RECEIPT}`),
+    quantityPerContainer: fitsColumn(
+      z.number(orRequired('must be a number')).positive('must be more than 0').max(1e9, 'is too large'),
+      QUANTITY_COLUMN,
+    ),
     manufacturedOn: dateSchema.nullish(),
     expiresOn: dateSchema.nullish(),
     receivedAt: instantSchema.nullish(),
     /** GTIN from the supplier's barcode; must match the material's GTIN when the material has one. */
     gtin: gtinSchema.nullish(),
     /** Storage location for every container of the receipt (each can be moved later). */
-    location: z.string().trim().max(80, 'must be at most 80 characters').nullish().transform((v) => (v ? v : null)),
-    notes: z.string().trim().max(2000, 'must be at most 2000 characters').nullish().transform((v) => (v ? v : null)),
+    location: z
+      .string()
+      .trim()
+      .max(80, 'must be at most 80 characters')
+      .nullish()
+      .transform((v) => (v ? v : null)),
+    notes: z
+      .string()
+      .trim()
+      .max(2000, 'must be at most 2000 characters')
+      .nullish()
+      .transform((v) => (v ? v : null)),
     /** Receive although the same supplier lot of this material was received before. */
     confirmDuplicate: z.boolean(orRequired('must be true or false')).default(false),
   })
@@ -76,7 +91,12 @@ export type ReceiveLotValues = z.output<typeof receiveLotInputSchema>;
 export const lotStatusChangeSchema = z
   .object({
     status: z.enum(['released', 'quarantined', 'rejected'], orRequired('must be released, quarantined or rejected')),
-    reason: z.string().trim().max(1000, 'must be at most 1000 characters').nullish().transform((v) => (v ? v : null)),
+    reason: z
+      .string()
+      .trim()
+      .max(1000, 'must be at most 1000 characters')
+      .nullish()
+      .transform((v) => (v ? v : null)),
   })
   .superRefine((v, ctx) => {
     if ((v.status === 'quarantined' || v.status === 'rejected') && !v.reason) {
@@ -89,13 +109,28 @@ export const LOT_SORTS = ['receivedAt', 'effectiveExpiry', 'supplierLot', 'statu
 
 const commaList = <T extends z.ZodTypeAny>(item: T) =>
   z.preprocess(
-    (v) => (typeof v === 'string' ? v.split(',').map((s) => s.trim()).filter(Boolean) : Array.isArray(v) ? v : v === undefined ? undefined : [v]),
+    (v) =>
+      typeof v === 'string'
+        ? v
+            .split(',')
+            .map((s) => s.trim())
+            .filter(Boolean)
+        : Array.isArray(v)
+          ? v
+          : v === undefined
+            ? undefined
+            : [v],
     z.array(item).min(1).optional(),
   );
 
 /** GET /api/lots query: paging, sorting, filters. `status` may list several, comma-separated. */
 export const lotListQuerySchema = z.object({
-  limit: z.coerce.number({ error: 'must be a number' }).int('must be a whole number').min(1, 'must be at least 1').max(500, 'must be at most 500').default(50),
+  limit: z.coerce
+    .number({ error: 'must be a number' })
+    .int('must be a whole number')
+    .min(1, 'must be at least 1')
+    .max(500, 'must be at most 500')
+    .default(50),
   offset: z.coerce.number({ error: 'must be a number' }).int('must be a whole number').min(0, 'must not be negative').default(0),
   sort: z.enum(LOT_SORTS, { error: `must be one of: ${LOT_SORTS.join(', ')}` }).default('receivedAt'),
   dir: z.enum(['asc', 'desc'], { error: 'must be asc or desc' }).default('desc'),
@@ -103,9 +138,19 @@ export const lotListQuerySchema = z.object({
   materialId: idSchema.optional(),
   supplierId: idSchema.optional(),
   /** Lots whose effective expiry is within this many days from now (already expired ones included). */
-  expiringWithinDays: z.coerce.number({ error: 'must be a number of days' }).int('must be a whole number of days').min(0, 'must not be negative').max(3650, 'must be at most 3650').optional(),
+  expiringWithinDays: z.coerce
+    .number({ error: 'must be a number of days' })
+    .int('must be a whole number of days')
+    .min(0, 'must not be negative')
+    .max(3650, 'must be at most 3650')
+    .optional(),
   /** Text search in supplier lot numbers and container codes. */
-  q: z.string().trim().max(100, 'must be at most 100 characters').optional().transform((v) => (v ? v : undefined)),
+  q: z
+    .string()
+    .trim()
+    .max(100, 'must be at most 100 characters')
+    .optional()
+    .transform((v) => (v ? v : undefined)),
 });
 export type LotListQuery = z.output<typeof lotListQuerySchema>;
 
@@ -153,8 +198,13 @@ export const receiveLotResultSchema = z.object({ lot: lotSchema, containers: z.a
 export type ReceiveLotResult = z.infer<typeof receiveLotResultSchema>;
 
 const existingLotSchema = z.object({
-  id: idSchema, supplierLot: z.string(), supplierId: idSchema, supplierName: z.string(),
-  receivedAt: instantSchema, status: lotStatusSchema, containerCount: z.number().int(),
+  id: idSchema,
+  supplierLot: z.string(),
+  supplierId: idSchema,
+  supplierName: z.string(),
+  receivedAt: instantSchema,
+  status: lotStatusSchema,
+  containerCount: z.number().int(),
 });
 
 /** 409 DUPLICATE_LOT `details`: the most recent lot with this supplier lot number, and all of them. */

@@ -52,7 +52,12 @@ const statementSchema = z
   .string()
   .trim()
   // Prefixes are upper case; suffix letters keep their case (H360Fd: F and d mean different things).
-  .transform((s) => s.split('+').map((part) => part.trim().replace(/^(euh|h)/i, (p) => p.toUpperCase())).join('+'))
+  .transform((s) =>
+    s
+      .split('+')
+      .map((part) => part.trim().replace(/^(euh|h)/i, (p) => p.toUpperCase()))
+      .join('+'),
+  )
   .pipe(z.string().regex(HAZARD_STATEMENT_RE, 'must be a hazard statement code like H317 or EUH202'));
 
 function unique<T>(list: T[]): boolean {
@@ -67,7 +72,10 @@ export const hazardsSchema = z.object({
 export type Hazards = z.infer<typeof hazardsSchema>;
 
 const positiveInt = (what: string) =>
-  z.number(orRequired(`must be a whole number of ${what}`)).int(`must be a whole number of ${what}`).positive('must be more than 0');
+  z
+    .number(orRequired(`must be a whole number of ${what}`))
+    .int(`must be a whole number of ${what}`)
+    .positive('must be more than 0');
 
 const schedulePointSchema = z.object({
   tempC: z.number(orRequired('must be a temperature in °C')).min(20, 'must be at least 20 °C').max(300, 'must be at most 300 °C'),
@@ -79,18 +87,43 @@ export const cureProfileSchema = z
     /** How it cures: in the room's air, in an oven by a schedule, or under a UV lamp by dose (shared/cure-methods.ts). */
     method: z.enum(CURE_METHODS, { error: 'must be one of: ' + CURE_METHODS.join(', ') }).default('ambient'),
     refTempC: z.number(orRequired('must be a temperature in °C')).min(-40, 'must be at least -40 °C').max(200, 'must be at most 200 °C'),
-    handlingMinutes: z.number(orRequired('must be a number of minutes')).positive('must be more than 0').max(525600, 'must be at most a year'),
-    fullCureMinutes: z.number(orRequired('must be a number of minutes')).positive('must be more than 0').max(525600, 'must be at most a year'),
+    handlingMinutes: z
+      .number(orRequired('must be a number of minutes'))
+      .positive('must be more than 0')
+      .max(525600, 'must be at most a year'),
+    fullCureMinutes: z
+      .number(orRequired('must be a number of minutes'))
+      .positive('must be more than 0')
+      .max(525600, 'must be at most a year'),
     /** Rate factor per +10 °C (default 2: the rate roughly doubles every 10 °C, common practice). */
-    factorPer10C: z.number(orRequired('must be a number')).gt(1, 'must be more than 1 (the reaction speeds up when warmer)').max(10, 'must be at most 10').optional(),
+    factorPer10C: z
+      .number(orRequired('must be a number'))
+      .gt(1, 'must be more than 1 (the reaction speeds up when warmer)')
+      .max(10, 'must be at most 10')
+      .optional(),
     /** Arrhenius activation energy, kJ/mol; used instead of factorPer10C when given. */
-    activationEnergyKJ: z.number(orRequired('must be a number of kJ/mol')).positive('must be more than 0').max(500, 'must be at most 500 kJ/mol').optional(),
+    activationEnergyKJ: z
+      .number(orRequired('must be a number of kJ/mol'))
+      .positive('must be more than 0')
+      .max(500, 'must be at most 500 kJ/mol')
+      .optional(),
     /** ambient: no cure progress below this temperature (data sheets: "do not cure below 10 °C"). */
-    minTempC: z.number(orRequired('must be a temperature in °C')).min(-40, 'must be at least -40 °C').max(100, 'must be at most 100 °C').optional(),
+    minTempC: z
+      .number(orRequired('must be a temperature in °C'))
+      .min(-40, 'must be at least -40 °C')
+      .max(100, 'must be at most 100 °C')
+      .optional(),
     /** heat: the data sheet's cure schedule, (oven temperature, minutes) points. */
-    schedule: z.array(schedulePointSchema, { error: 'must be a list of {tempC, minutes} points' }).max(12, 'has at most 12 points').optional(),
+    schedule: z
+      .array(schedulePointSchema, { error: 'must be a list of {tempC, minutes} points' })
+      .max(12, 'has at most 12 points')
+      .optional(),
     /** uv: the dose the adhesive needs, mJ/cm². */
-    uvDoseMJcm2: z.number(orRequired('must be a dose in mJ/cm²')).positive('must be more than 0').max(1e6, 'must be at most 1,000,000 mJ/cm²').optional(),
+    uvDoseMJcm2: z
+      .number(orRequired('must be a dose in mJ/cm²'))
+      .positive('must be more than 0')
+      .max(1e6, 'must be at most 1,000,000 mJ/cm²')
+      .optional(),
     /** Relative-humidity window from the data sheet (moisture-curing adhesives), %. */
     rhMinPct: z.number(orRequired('must be a percentage')).min(0, 'must be at least 0 %').max(100, 'must be at most 100 %').optional(),
     rhMaxPct: z.number(orRequired('must be a percentage')).min(0, 'must be at least 0 %').max(100, 'must be at most 100 %').optional(),
@@ -104,7 +137,11 @@ export const cureProfileSchema = z
     }
     if (c.method === 'heat') {
       if (!c.schedule || c.schedule.length === 0) {
-        ctx.addIssue({ code: 'custom', path: ['schedule'], message: 'a heat cure needs at least one schedule point (temperature, minutes)' });
+        ctx.addIssue({
+          code: 'custom',
+          path: ['schedule'],
+          message: 'a heat cure needs at least one schedule point (temperature, minutes)',
+        });
       } else {
         const temps = c.schedule.map((p) => p.tempC);
         temps.forEach((t, i) => {
@@ -121,7 +158,11 @@ export const cureProfileSchema = z
       ctx.addIssue({ code: 'custom', path: ['uvDoseMJcm2'], message: 'only a UV cure has a dose' });
     }
     if (c.method !== 'ambient' && c.minTempC !== undefined) {
-      ctx.addIssue({ code: 'custom', path: ['minTempC'], message: 'only a room-temperature (ambient) cure has a minimum cure temperature' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['minTempC'],
+        message: 'only a room-temperature (ambient) cure has a minimum cure temperature',
+      });
     }
     if (c.rhMinPct !== undefined && c.rhMaxPct !== undefined && c.rhMinPct >= c.rhMaxPct) {
       ctx.addIssue({ code: 'custom', path: ['rhMaxPct'], message: 'must be above rhMinPct' });
@@ -137,11 +178,16 @@ export const gtinSchema = z
   .refine(isValidGtin, 'has a wrong check digit')
   .transform((g) => g.padStart(14, '0'));
 
-const quantity = (msg: string) => fitsColumn(z.number(orRequired(msg)).min(0, 'must not be negative').max(1e9, 'is too large'), QUANTITY_COLUMN);
+const quantity = (msg: string) =>
+  fitsColumn(z.number(orRequired(msg)).min(0, 'must not be negative').max(1e9, 'is too large'), QUANTITY_COLUMN);
 
 /** Every editable field of a material; nullable fields accept null (cleared) or absence. */
 export const materialFieldsSchema = z.object({
-  code: z.string(orRequired('must be text')).trim().min(1, 'is required').max(40, 'must be at most 40 characters')
+  code: z
+    .string(orRequired('must be text'))
+    .trim()
+    .min(1, 'is required')
+    .max(40, 'must be at most 40 characters')
     .regex(/^[A-Za-z0-9][A-Za-z0-9._\-/]*$/, 'may contain letters, digits and . _ - / only'),
   name: z.string(orRequired('must be text')).trim().min(1, 'is required').max(200, 'must be at most 200 characters'),
   kind: materialKindSchema,
@@ -154,14 +200,24 @@ export const materialFieldsSchema = z.object({
   potLifeMinutes: positiveInt('minutes').max(525600, 'must be at most a year').nullish(),
   partnerMaterialId: idSchema.nullish(),
   /** Parts by weight of this component per 1 part of the partner. */
-  mixRatio: fitsColumn(z.number(orRequired('must be a number')).positive('must be more than 0').max(1000, 'must be at most 1000'), MIX_RATIO_COLUMN).nullish(),
+  mixRatio: fitsColumn(
+    z.number(orRequired('must be a number')).positive('must be more than 0').max(1000, 'must be at most 1000'),
+    MIX_RATIO_COLUMN,
+  ).nullish(),
   cure: cureProfileSchema.nullish(),
   requiresInspection: z.boolean(orRequired('must be true or false')).default(true),
   hazards: hazardsSchema.default({ signalWord: undefined, pictograms: [], statements: [] }),
   gtin: gtinSchema.nullish(),
   reorderPoint: quantity('must be a quantity').nullish(),
-  orderQuantity: quantity('must be a quantity').refine((n) => n > 0, 'must be more than 0').nullish(),
-  leadTimeDays: z.number(orRequired('must be a whole number of days')).int('must be a whole number of days').min(0, 'must not be negative').max(3650, 'must be at most 10 years').nullish(),
+  orderQuantity: quantity('must be a quantity')
+    .refine((n) => n > 0, 'must be more than 0')
+    .nullish(),
+  leadTimeDays: z
+    .number(orRequired('must be a whole number of days'))
+    .int('must be a whole number of days')
+    .min(0, 'must not be negative')
+    .max(3650, 'must be at most 10 years')
+    .nullish(),
 });
 
 type MaterialFields = z.infer<typeof materialFieldsSchema>;
@@ -175,12 +231,16 @@ export function checkMaterialRules(m: MaterialFields, ctx: z.RefinementCtx): voi
     if (m.potLifeMinutes) issue('potLifeMinutes', 'only adhesives, hardeners and activators have a pot life');
     if (m.cure) issue('cure', 'only adhesives, hardeners and activators have a cure profile');
   }
-  if (m.potLifeMinutes && !m.partnerMaterialId) issue('partnerMaterialId', 'is required when a pot life is given (pot life is for two-part mixes)');
-  if (m.potLifeMinutes && !m.cure) issue('cure', 'is required when a pot life is given (pot life is given at the cure reference temperature)');
+  if (m.potLifeMinutes && !m.partnerMaterialId)
+    issue('partnerMaterialId', 'is required when a pot life is given (pot life is for two-part mixes)');
+  if (m.potLifeMinutes && !m.cure)
+    issue('cure', 'is required when a pot life is given (pot life is given at the cure reference temperature)');
   if (m.mixRatio && !m.partnerMaterialId) issue('mixRatio', 'needs a mix partner');
-  if (m.storageClass === 'frozen' && !m.thawedLifeHours) issue('thawedLifeHours', 'is required for frozen material (usable time after the thaw)');
+  if (m.storageClass === 'frozen' && !m.thawedLifeHours)
+    issue('thawedLifeHours', 'is required for frozen material (usable time after the thaw)');
   if (m.storageClass !== 'frozen' && m.thawedLifeHours) issue('thawedLifeHours', 'applies to frozen material only');
-  if (m.storageClass !== 'refrigerated' && m.outOfStorageAllowanceHours) issue('outOfStorageAllowanceHours', 'applies to refrigerated material only');
+  if (m.storageClass !== 'refrigerated' && m.outOfStorageAllowanceHours)
+    issue('outOfStorageAllowanceHours', 'applies to refrigerated material only');
 }
 
 /** POST /api/materials body. */
@@ -222,7 +282,10 @@ export type MaterialPatch = z.input<typeof materialPatchSchema>;
 
 /** GET /api/materials query. */
 export const materialListQuerySchema = z.object({
-  active: z.enum(['true', 'false'], { error: 'must be true or false' }).transform((v) => v === 'true').optional(),
+  active: z
+    .enum(['true', 'false'], { error: 'must be true or false' })
+    .transform((v) => v === 'true')
+    .optional(),
   kind: materialKindSchema.optional(),
 });
 export type MaterialListQuery = z.output<typeof materialListQuerySchema>;
@@ -241,13 +304,21 @@ export const materialSchema = z.object({
   potLifeMinutes: z.number().nullable(),
   partnerMaterialId: idSchema.nullable(),
   mixRatio: z.number().nullable(),
-  cure: z.object({
-    refTempC: z.number(), handlingMinutes: z.number(), fullCureMinutes: z.number(),
-    factorPer10C: z.number().optional(), activationEnergyKJ: z.number().optional(),
-    method: z.enum(CURE_METHODS).optional(), minTempC: z.number().optional(),
-    schedule: z.array(z.object({ tempC: z.number(), minutes: z.number() })).optional(),
-    uvDoseMJcm2: z.number().optional(), rhMinPct: z.number().optional(), rhMaxPct: z.number().optional(),
-  }).nullable(),
+  cure: z
+    .object({
+      refTempC: z.number(),
+      handlingMinutes: z.number(),
+      fullCureMinutes: z.number(),
+      factorPer10C: z.number().optional(),
+      activationEnergyKJ: z.number().optional(),
+      method: z.enum(CURE_METHODS).optional(),
+      minTempC: z.number().optional(),
+      schedule: z.array(z.object({ tempC: z.number(), minutes: z.number() })).optional(),
+      uvDoseMJcm2: z.number().optional(),
+      rhMinPct: z.number().optional(),
+      rhMaxPct: z.number().optional(),
+    })
+    .nullable(),
   requiresInspection: z.boolean(),
   hazards: z.object({
     signalWord: signalWordSchema.optional(),

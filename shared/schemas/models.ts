@@ -68,7 +68,7 @@ const stepsInputSchema = z
     const seen = new Set<number>();
     steps.forEach((s, i) => {
       if (s.seq !== undefined) {
-        if (seen.has(s.seq)) ctx.addIssue({ code: 'custom', message: 'repeats another step\'s seq', path: [i, 'seq'] });
+        if (seen.has(s.seq)) ctx.addIssue({ code: 'custom', message: "repeats another step's seq", path: [i, 'seq'] });
         seen.add(s.seq);
       }
       const ids = new Set<string>();

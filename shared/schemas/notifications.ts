@@ -5,7 +5,10 @@ import { idSchema } from './common';
 
 export const notificationModeSchema = z.enum(NOTIFICATION_MODES, { message: `must be one of ${NOTIFICATION_MODES.join(', ')}` });
 
-const modesByKind = z.partialRecord(z.enum(ALERT_KINDS, { message: `must be an alert kind (${ALERT_KINDS.join(', ')})` }), notificationModeSchema);
+const modesByKind = z.partialRecord(
+  z.enum(ALERT_KINDS, { message: `must be an alert kind (${ALERT_KINDS.join(', ')})` }),
+  notificationModeSchema,
+);
 
 /**
  * GET /api/me/notifications (and /api/users/:id/notifications for an administrator):

@@ -44,7 +44,12 @@ export const pChartPointSchema = z.object({
   flagged: z.boolean(),
 });
 
-export const paretoBarSchema = z.object({ defectCode: z.string(), description: z.string(), count: z.number().int(), cumulativePct: z.number() });
+export const paretoBarSchema = z.object({
+  defectCode: z.string(),
+  description: z.string(),
+  count: z.number().int(),
+  cumulativePct: z.number(),
+});
 
 export const fpyRowSchema = z.object({
   modelId: idSchema,
@@ -64,10 +69,24 @@ export const qualityOverviewSchema = z.object({
   pareto: z.array(paretoBarSchema),
   firstPassYield: z.array(fpyRowSchema),
   shortCures: z.array(
-    z.object({ stepRunId: idSchema, batchId: idSchema, batchCode: z.string(), step: z.string(), startedAt: instantSchema, deviation: z.string().nullable() }),
+    z.object({
+      stepRunId: idSchema,
+      batchId: idSchema,
+      batchCode: z.string(),
+      step: z.string(),
+      startedAt: instantSchema,
+      deviation: z.string().nullable(),
+    }),
   ),
   openDeviations: z.array(
-    z.object({ id: idSchema, kind: z.string(), batchCode: z.string().nullable(), reason: z.string(), signedBy: z.string(), signedAt: instantSchema }),
+    z.object({
+      id: idSchema,
+      kind: z.string(),
+      batchCode: z.string().nullable(),
+      reason: z.string(),
+      signedBy: z.string(),
+      signedAt: instantSchema,
+    }),
   ),
   lotsAwaitingInspection: z.array(
     z.object({ lotId: idSchema, supplierLot: z.string(), materialName: z.string(), receivedAt: instantSchema, ageHours: z.number() }),

@@ -11,7 +11,10 @@ const atSchema = instantSchema.refine(
   'is in the future (more than 5 minutes ahead of the server clock)',
 );
 const tempSchema = fitsColumn(z.number().min(-60, 'must be at least -60 °C').max(400, 'must be at most 400 °C'), READING_COLUMN);
-const irradianceSchema = fitsColumn(z.number().min(0, 'must not be negative').max(100000, 'must be at most 100,000 mW/cm²'), READING_COLUMN);
+const irradianceSchema = fitsColumn(
+  z.number().min(0, 'must not be negative').max(100000, 'must be at most 100,000 mW/cm²'),
+  READING_COLUMN,
+);
 /** An area's air is read up to 150 °C; an oven's own readings up to 400 °C. */
 const AREA_MAX_TEMP_C = 150;
 
@@ -20,13 +23,17 @@ type PlaceFields = { area?: string | null; stationId?: string | null; tempC?: nu
 function checkPlace(v: PlaceFields, ctx: z.RefinementCtx, prefix: (string | number)[] = []): void {
   const hasArea = v.area !== undefined && v.area !== null;
   const hasStation = v.stationId !== undefined && v.stationId !== null;
-  if (hasArea && hasStation) ctx.addIssue({ code: 'custom', path: [...prefix, 'stationId'], message: 'give either area or stationId, not both' });
-  if (!hasArea && !hasStation) ctx.addIssue({ code: 'custom', path: [...prefix, 'area'], message: 'is required (or stationId for a station\'s own reading)' });
+  if (hasArea && hasStation)
+    ctx.addIssue({ code: 'custom', path: [...prefix, 'stationId'], message: 'give either area or stationId, not both' });
+  if (!hasArea && !hasStation)
+    ctx.addIssue({ code: 'custom', path: [...prefix, 'area'], message: "is required (or stationId for a station's own reading)" });
   const hasTemp = v.tempC !== undefined && v.tempC !== null;
   const hasIrr = v.irradianceMWcm2 !== undefined && v.irradianceMWcm2 !== null;
   if (!hasTemp && !(hasStation && hasIrr)) ctx.addIssue({ code: 'custom', path: [...prefix, 'tempC'], message: 'is required' });
-  if (hasIrr && !hasStation) ctx.addIssue({ code: 'custom', path: [...prefix, 'irradianceMWcm2'], message: 'is a UV lamp reading: give stationId, not area' });
-  if (hasArea && hasTemp && (v.tempC as number) > AREA_MAX_TEMP_C) ctx.addIssue({ code: 'custom', path: [...prefix, 'tempC'], message: `must be at most ${AREA_MAX_TEMP_C} °C for an area` });
+  if (hasIrr && !hasStation)
+    ctx.addIssue({ code: 'custom', path: [...prefix, 'irradianceMWcm2'], message: 'is a UV lamp reading: give stationId, not area' });
+  if (hasArea && hasTemp && (v.tempC as number) > AREA_MAX_TEMP_C)
+    ctx.addIssue({ code: 'custom', path: [...prefix, 'tempC'], message: `must be at most ${AREA_MAX_TEMP_C} °C for an area` });
 }
 const rhSchema = fitsColumn(z.number().min(0, 'must be at least 0 %').max(100, 'must be at most 100 %'), READING_COLUMN);
 const sourceSchema = z.string().trim().min(1).max(60);
@@ -71,7 +78,15 @@ export const readingsPostSchema = z
   .transform((v) => ({
     single: !v.readings,
     items: (v.readings ?? [
-      { area: v.area, stationId: v.stationId, at: v.at as string, tempC: v.tempC, rhPct: v.rhPct, irradianceMWcm2: v.irradianceMWcm2, source: v.source },
+      {
+        area: v.area,
+        stationId: v.stationId,
+        at: v.at as string,
+        tempC: v.tempC,
+        rhPct: v.rhPct,
+        irradianceMWcm2: v.irradianceMWcm2,
+        source: v.source,
+      },
     ]) as ReadingInput[],
   }));
 export type ReadingsPost = z.infer<typeof readingsPostSchema>;

@@ -33,9 +33,19 @@ export type LoadInput = z.infer<typeof loadInputSchema>;
  * The same checks guard mixing (POST /api/stations/:id/mixes) and step start.
  */
 export const LOAD_REFUSALS = [
-  'WRONG_MATERIAL', 'WRONG_STATION', 'LOT_ON_HOLD', 'LOT_QUARANTINED', 'LOT_REJECTED', 'EXPIRED',
-  'OPEN_LIFE_EXCEEDED', 'POT_LIFE_EXCEEDED', 'CONTAINER_EMPTY', 'CONTAINER_SCRAPPED', 'STATION_RETIRED',
-  'BATCH_CLOSED', 'MIX_DISCARDED',
+  'WRONG_MATERIAL',
+  'WRONG_STATION',
+  'LOT_ON_HOLD',
+  'LOT_QUARANTINED',
+  'LOT_REJECTED',
+  'EXPIRED',
+  'OPEN_LIFE_EXCEEDED',
+  'POT_LIFE_EXCEEDED',
+  'CONTAINER_EMPTY',
+  'CONTAINER_SCRAPPED',
+  'STATION_RETIRED',
+  'BATCH_CLOSED',
+  'MIX_DISCARDED',
 ] as const;
 export type LoadRefusal = (typeof LOAD_REFUSALS)[number];
 

@@ -3,7 +3,9 @@ import { idSchema, instantSchema } from './common';
 
 export const CURE_ENVIRONMENTS = ['area', 'own'] as const;
 export type CureEnvironment = (typeof CURE_ENVIRONMENTS)[number];
-const cureEnvironmentSchema = z.enum(CURE_ENVIRONMENTS, { error: "must be 'area' (the area's air) or 'own' (an oven or UV lamp with its own readings)" });
+const cureEnvironmentSchema = z.enum(CURE_ENVIRONMENTS, {
+  error: "must be 'area' (the area's air) or 'own' (an oven or UV lamp with its own readings)",
+});
 
 const text = (max: number) => z.string().trim().min(1, 'is required').max(max, `is at most ${max} characters`);
 

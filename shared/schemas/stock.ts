@@ -202,7 +202,12 @@ export type StockMaterial = z.infer<typeof stockMaterialSchema>;
 // --- GET /api/stock/outlook -----------------------------------------------------------------
 
 export const outlookQuerySchema = z.object({
-  weeks: z.coerce.number({ message: 'must be a number' }).int('must be a whole number').min(1, 'must be 1 or more').max(52, 'at most 52').default(12),
+  weeks: z.coerce
+    .number({ message: 'must be a number' })
+    .int('must be a whole number')
+    .min(1, 'must be 1 or more')
+    .max(52, 'at most 52')
+    .default(12),
   format: z.enum(['json', 'csv'], { message: 'must be json or csv' }).default('json'),
 });
 
@@ -261,8 +266,13 @@ export const stockTodaySchema = z.object({
   zone: z.string(),
   runOuts: z.array(
     z.object({
-      materialId: idSchema, code: z.string(), name: z.string(), unit: z.string(),
-      runsOutAt: instantSchema.nullable(), leadTimeDays: z.number().int().nullable(), adviceText: z.string(),
+      materialId: idSchema,
+      code: z.string(),
+      name: z.string(),
+      unit: z.string(),
+      runsOutAt: instantSchema.nullable(),
+      leadTimeDays: z.number().int().nullable(),
+      adviceText: z.string(),
     }),
   ),
   wasteThisMonth: z.object({
@@ -273,8 +283,14 @@ export const stockTodaySchema = z.object({
     days: z.number().int(),
     items: z.array(
       z.object({
-        lotId: idSchema, supplierLot: z.string(), lotStatus: z.enum(LOT_STATUSES), materialCode: z.string(), materialName: z.string(),
-        unit: z.string(), expiresAt: instantSchema, remaining: z.number(),
+        lotId: idSchema,
+        supplierLot: z.string(),
+        lotStatus: z.enum(LOT_STATUSES),
+        materialCode: z.string(),
+        materialName: z.string(),
+        unit: z.string(),
+        expiresAt: instantSchema,
+        remaining: z.number(),
       }),
     ),
   }),

@@ -12,16 +12,29 @@ import { orRequired } from './materials';
 export const supplierParamsSchema = z.object({ id: idSchema });
 
 const optionalText = (max: number) =>
-  z.string().trim().max(max, `must be at most ${max} characters`).nullish().transform((v) => (v === '' ? null : v));
+  z
+    .string()
+    .trim()
+    .max(max, `must be at most ${max} characters`)
+    .nullish()
+    .transform((v) => (v === '' ? null : v));
 
-export const supplierCodeSchema = z.string().trim().min(1, 'is required').max(40, 'must be at most 40 characters')
+export const supplierCodeSchema = z
+  .string()
+  .trim()
+  .min(1, 'is required')
+  .max(40, 'must be at most 40 characters')
   .regex(/^[A-Za-z0-9][A-Za-z0-9._\-/]*$/, 'may contain letters, digits and . _ - / only');
 
 export const supplierFieldsSchema = z.object({
   name: z.string(orRequired('must be text')).trim().min(1, 'is required').max(200, 'must be at most 200 characters'),
   code: supplierCodeSchema.optional(),
   contactName: optionalText(200),
-  email: z.string().trim().max(254, 'is too long').nullish()
+  email: z
+    .string()
+    .trim()
+    .max(254, 'is too long')
+    .nullish()
     .transform((v) => (v === '' ? null : v))
     .refine((v) => v == null || z.email().safeParse(v).success, 'must be an e-mail address'),
   phone: optionalText(60),
@@ -43,7 +56,10 @@ export type SupplierPatch = z.input<typeof supplierPatchSchema>;
 
 /** GET /api/suppliers query. */
 export const supplierListQuerySchema = z.object({
-  active: z.enum(['true', 'false'], { error: 'must be true or false' }).transform((v) => v === 'true').optional(),
+  active: z
+    .enum(['true', 'false'], { error: 'must be true or false' })
+    .transform((v) => v === 'true')
+    .optional(),
 });
 
 export const supplierSchema = z.object({

@@ -142,7 +142,15 @@ export type LotTrace = z.infer<typeof lotTraceSchema>;
 
 /** Columns of GET /api/lots/:id/trace.csv, in order. */
 export const CONTAINMENT_CSV_COLUMNS = [
-  'serial', 'status', 'batch_code', 'model', 'step', 'station', 'finished_at', 'container_code', 'mix_code',
+  'serial',
+  'status',
+  'batch_code',
+  'model',
+  'step',
+  'station',
+  'finished_at',
+  'container_code',
+  'mix_code',
 ] as const;
 
 /** GET /api/lots/stats — which lots' drivers fail final test more than the baseline explains. */
@@ -151,7 +159,10 @@ export const lotStatsQuerySchema = z.object({
   days: z.coerce.number().int('must be a whole number').min(1, 'must be at least 1').max(3660, 'is at most 3660').default(90),
   materialId: idSchema.optional(),
   /** `true` lists only flagged lots (the correction still runs over every lot in the window). */
-  flaggedOnly: z.enum(['true', 'false']).optional().transform((v) => v === 'true'),
+  flaggedOnly: z
+    .enum(['true', 'false'])
+    .optional()
+    .transform((v) => v === 'true'),
 });
 export type LotStatsQuery = z.infer<typeof lotStatsQuerySchema>;
 

@@ -1,11 +1,5 @@
 import { z } from 'zod';
-import {
-  alertListSchema,
-  alertSchema,
-  complianceRunResultSchema,
-  type Alert,
-  type ComplianceRunResult,
-} from '@shared/schemas/alerts';
+import { alertListSchema, alertSchema, complianceRunResultSchema, type Alert, type ComplianceRunResult } from '@shared/schemas/alerts';
 import { apiFetch } from './http';
 
 export type AlertStateFilter = 'live' | 'open' | 'acknowledged' | 'resolved';
@@ -37,7 +31,11 @@ export async function acknowledgeAlert(id: string): Promise<Alert> {
 
 /** POST /api/alerts/:id/resolve (admin, quality, purchasing): `resolution` says what was done. */
 export async function resolveAlert(id: string, input: { resolution: string }): Promise<Alert> {
-  const result = await apiFetch(`/api/alerts/${encodeURIComponent(id)}/resolve`, { method: 'POST', body: input, schema: alertResultSchema });
+  const result = await apiFetch(`/api/alerts/${encodeURIComponent(id)}/resolve`, {
+    method: 'POST',
+    body: input,
+    schema: alertResultSchema,
+  });
   return result.alert;
 }
 

@@ -1,6 +1,11 @@
 import {
-  batchCreatedSchema, batchDetailSchema, batchPageSchema,
-  type BatchCreated, type BatchDetail, type BatchInput, type BatchPage,
+  batchCreatedSchema,
+  batchDetailSchema,
+  batchPageSchema,
+  type BatchCreated,
+  type BatchDetail,
+  type BatchInput,
+  type BatchPage,
 } from '@shared/schemas/batches';
 import type { BatchStatus } from '@shared/constants';
 import { cureListSchema, type CureList } from '@shared/schemas/cure';

@@ -1,9 +1,4 @@
-import {
-  containerResultSchema,
-  type Container,
-  type ContainerLocationInput,
-  type ContainerScrapInput,
-} from '@shared/schemas/containers';
+import { containerResultSchema, type Container, type ContainerLocationInput, type ContainerScrapInput } from '@shared/schemas/containers';
 import { apiFetch } from './http';
 
 /** The actions a person takes on one container; each answers with the container as it is now. */

@@ -1,6 +1,4 @@
-import {
-  cureEstimateSchema, cureListSchema, type CureEstimate, type CureEstimateInput, type CureList,
-} from '@shared/schemas/cure';
+import { cureEstimateSchema, cureListSchema, type CureEstimate, type CureEstimateInput, type CureList } from '@shared/schemas/cure';
 import { apiFetch } from './http';
 
 /** GET /api/cure/board: every cure being timed, recomputed from the readings. */

@@ -1,5 +1,9 @@
 import {
-  defectCodeListSchema, defectCodeSchema, type DefectCode, type DefectCodeCreate, type DefectCodeUpdate,
+  defectCodeListSchema,
+  defectCodeSchema,
+  type DefectCode,
+  type DefectCodeCreate,
+  type DefectCodeUpdate,
 } from '@shared/schemas/defects';
 import { apiFetch } from './http';
 

@@ -1,6 +1,4 @@
-import {
-  deviationListSchema, deviationResultSchema, type Deviation, type DeviationInput,
-} from '@shared/schemas/deviations';
+import { deviationListSchema, deviationResultSchema, type Deviation, type DeviationInput } from '@shared/schemas/deviations';
 import { apiFetch } from './http';
 
 /** POST /api/deviations (quality): a signed decision to go on despite a rule (e.g. early start before full cure). */

@@ -1,6 +1,12 @@
 import {
-  driverDetailSchema, driverResultSchema, reworkResultSchema,
-  type DriverDetail, type DriverResult, type ReworkInput, type ReworkResult, type ScrapInput,
+  driverDetailSchema,
+  driverResultSchema,
+  reworkResultSchema,
+  type DriverDetail,
+  type DriverResult,
+  type ReworkInput,
+  type ReworkResult,
+  type ScrapInput,
 } from '@shared/schemas/drivers';
 import { apiFetch } from './http';
 

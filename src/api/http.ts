@@ -181,7 +181,11 @@ export async function apiFetch<S extends z.ZodTypeAny>(path: string, request: Ap
     const delay = retryDelayMs(response.headers.get('Retry-After'));
     reportDatabaseDown(delay);
     if (!retry) {
-      throw new ApiError(503, 'DB_UNAVAILABLE', 'The database could not be reached, so this may not have been saved. Tacklog is reconnecting by itself; try again in a moment.');
+      throw new ApiError(
+        503,
+        'DB_UNAVAILABLE',
+        'The database could not be reached, so this may not have been saved. Tacklog is reconnecting by itself; try again in a moment.',
+      );
     }
     await wait(delay, request.signal);
   }

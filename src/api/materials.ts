@@ -46,7 +46,6 @@ export function retireMaterial(id: string): Promise<Material> {
   return apiFetch(`/api/materials/${encodeURIComponent(id)}/retire`, { method: 'POST', schema: materialResultSchema });
 }
 
-
 /** POST /api/materials/:id/sds (admin) → 201: uploads the safety data sheet (PDF, PNG or JPEG). */
 export async function uploadSds(id: string, file: File): Promise<Material> {
   const result = await uploadFile(`/api/materials/${encodeURIComponent(id)}/sds`, file, {}, sdsUploadResultSchema);

@@ -4,7 +4,10 @@ import { apiFetch } from './http';
 /** POST /api/stations/:id/mixes (assembler): a two-part mix from a resin and a hardener container; pot life starts now. */
 export function createMix(stationId: string, input: MixInput, idempotencyKey?: string): Promise<MixResult> {
   return apiFetch(`/api/stations/${encodeURIComponent(stationId)}/mixes`, {
-    method: 'POST', body: input, schema: mixResultSchema, idempotencyKey,
+    method: 'POST',
+    body: input,
+    schema: mixResultSchema,
+    idempotencyKey,
   });
 }
 

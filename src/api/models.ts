@@ -1,5 +1,9 @@
 import {
-  driverModelListSchema, driverModelSchema, type DriverModel, type DriverModelInput, type DriverModelPatch,
+  driverModelListSchema,
+  driverModelSchema,
+  type DriverModel,
+  type DriverModelInput,
+  type DriverModelPatch,
 } from '@shared/schemas/models';
 import { apiFetch } from './http';
 

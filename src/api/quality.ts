@@ -1,5 +1,10 @@
 import {
-  baselineSchema, qualityOverviewSchema, type Baseline, type BaselineOverrideInput, type QualityOverview, type QualityOverviewQuery,
+  baselineSchema,
+  qualityOverviewSchema,
+  type Baseline,
+  type BaselineOverrideInput,
+  type QualityOverview,
+  type QualityOverviewQuery,
 } from '@shared/schemas/quality';
 import { apiFetch } from './http';
 

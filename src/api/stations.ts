@@ -1,9 +1,13 @@
+import { stationListSchema, stationSchema, type Station, type StationInput, type StationPatch } from '@shared/schemas/stations';
 import {
-  stationListSchema, stationSchema, type Station, type StationInput, type StationPatch,
-} from '@shared/schemas/stations';
-import {
-  loadResultSchema, stationLoadedSchema, unloadResultSchema,
-  type LoadInput, type LoadResult, type StationLoaded, type UnloadInput, type UnloadResult,
+  loadResultSchema,
+  stationLoadedSchema,
+  unloadResultSchema,
+  type LoadInput,
+  type LoadResult,
+  type StationLoaded,
+  type UnloadInput,
+  type UnloadResult,
 } from '@shared/schemas/station-loads';
 import { apiFetch } from './http';
 
@@ -39,7 +43,10 @@ export function retireStation(id: string): Promise<Station> {
 /** POST /api/stations/:id/load (assembler): 200 accepted, or an ApiError 409 with the refusal code and reason. */
 export function loadAtStation(stationId: string, input: LoadInput, idempotencyKey?: string): Promise<LoadResult> {
   return apiFetch(`/api/stations/${encodeURIComponent(stationId)}/load`, {
-    method: 'POST', body: input, schema: loadResultSchema, idempotencyKey,
+    method: 'POST',
+    body: input,
+    schema: loadResultSchema,
+    idempotencyKey,
   });
 }
 
@@ -51,6 +58,9 @@ export function listLoaded(stationId: string, batchId?: string): Promise<Station
 /** POST /api/stations/:id/unload (assembler): one load by id or by scanned code. */
 export function unloadAtStation(stationId: string, input: UnloadInput, idempotencyKey?: string): Promise<UnloadResult> {
   return apiFetch(`/api/stations/${encodeURIComponent(stationId)}/unload`, {
-    method: 'POST', body: input, schema: unloadResultSchema, idempotencyKey,
+    method: 'POST',
+    body: input,
+    schema: unloadResultSchema,
+    idempotencyKey,
   });
 }

@@ -1,6 +1,14 @@
 import {
-  outlookSchema, stockListSchema, stockMaterialSchema, stockTodaySchema,
-  type Outlook, type StockList, type StockMaterial, type StockSort, type StockToday, type StockView,
+  outlookSchema,
+  stockListSchema,
+  stockMaterialSchema,
+  stockTodaySchema,
+  type Outlook,
+  type StockList,
+  type StockMaterial,
+  type StockSort,
+  type StockToday,
+  type StockView,
 } from '@shared/schemas/stock';
 import { apiFetch } from './http';
 

@@ -1,5 +1,12 @@
 import {
-  formatDate, formatDateTime, formatDuration, formatRelative, formatTime, formatWhen, plantGreeting, type InstantLike,
+  formatDate,
+  formatDateTime,
+  formatDuration,
+  formatRelative,
+  formatTime,
+  formatWhen,
+  plantGreeting,
+  type InstantLike,
 } from '@shared/plant-time';
 import { usePlantStore } from '@/stores/plant';
 import { useNow } from './useNow';
@@ -12,8 +19,10 @@ import { useNow } from './useNow';
 export function usePlantTime() {
   const plant = usePlantStore();
   const { now, refresh } = useNow();
-  const guard = (fn: (v: InstantLike) => string) => (value: InstantLike | null | undefined): string =>
-    value === null || value === undefined || value === '' ? '' : fn(value);
+  const guard =
+    (fn: (v: InstantLike) => string) =>
+    (value: InstantLike | null | undefined): string =>
+      value === null || value === undefined || value === '' ? '' : fn(value);
   return {
     now,
     refresh,

@@ -17,8 +17,7 @@ export function useTrace<T>(key: () => string, read: (key: string) => Promise<T>
     try {
       trace.value = await read(k);
     } catch (err) {
-      error.value =
-        err instanceof ApiError && err.status === 404 ? notFound(k) : `The trace could not be read: ${errorText(err)}`;
+      error.value = err instanceof ApiError && err.status === 404 ? notFound(k) : `The trace could not be read: ${errorText(err)}`;
     } finally {
       loading.value = false;
     }

@@ -2,7 +2,16 @@ import { readonly, ref } from 'vue';
 import { defineStore } from 'pinia';
 import type { Container } from '@shared/schemas/containers';
 import type { Attachment } from '@shared/schemas/attachments';
-import type { HistoryEntry, Lot, LotDetail, LotListItem, LotStatusChange, ReceiveLotInput, ReceiveLotResult, StatusChangeEntry } from '@shared/schemas/lots';
+import type {
+  HistoryEntry,
+  Lot,
+  LotDetail,
+  LotListItem,
+  LotStatusChange,
+  ReceiveLotInput,
+  ReceiveLotResult,
+  StatusChangeEntry,
+} from '@shared/schemas/lots';
 import * as lotsApi from '@/api/lots';
 import * as containersApi from '@/api/containers';
 import type { ContainerAction } from '@/api/containers';

@@ -5,10 +5,28 @@ import * as mixesApi from '@/api/mixes';
 import type { QueuedAction } from '@/composables/useOfflineQueue';
 
 /** What each queued station action carries (persisted with the queue, so plain data only). */
-export interface LoadPayload { stationId: string; batchId: string; containerCode?: string; mixCode?: string; retried?: boolean }
-export interface StepPayload { stationId: string; batchId: string; stepId: string; stepName: string }
-export interface UnloadPayload { stationId: string; loadId: string; code: string }
-export interface MixPayload extends MixInput { stationId: string; batchId: string | null }
+export interface LoadPayload {
+  stationId: string;
+  batchId: string;
+  containerCode?: string;
+  mixCode?: string;
+  retried?: boolean;
+}
+export interface StepPayload {
+  stationId: string;
+  batchId: string;
+  stepId: string;
+  stepName: string;
+}
+export interface UnloadPayload {
+  stationId: string;
+  loadId: string;
+  code: string;
+}
+export interface MixPayload extends MixInput {
+  stationId: string;
+  batchId: string | null;
+}
 
 /** Sends one queued station action to the API with its Idempotency-Key. */
 export function sendStationAction(action: QueuedAction): Promise<unknown> {

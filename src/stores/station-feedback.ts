@@ -21,7 +21,13 @@ export interface StationFeedback {
 
 let nextId = 1;
 
-export function feedback(kind: FeedbackKind, title: string, message: string, code: RefusalCode | null = null, at = new Date()): StationFeedback {
+export function feedback(
+  kind: FeedbackKind,
+  title: string,
+  message: string,
+  code: RefusalCode | null = null,
+  at = new Date(),
+): StationFeedback {
   return { id: nextId++, kind, title, message, code, at: at.toISOString() };
 }
 

@@ -22,8 +22,12 @@ import { sendStationAction, type LoadPayload, type MixPayload, type StepPayload,
 
 export type { StationFeedback };
 
-
-const KEYS = { station: 'tacklog.station.current', stations: 'tacklog.station.stations', traveler: 'tacklog.station.traveler', queue: 'tacklog.station.queue' };
+const KEYS = {
+  station: 'tacklog.station.current',
+  stations: 'tacklog.station.stations',
+  traveler: 'tacklog.station.traveler',
+  queue: 'tacklog.station.queue',
+};
 
 /**
  * One assembler's session at one station: the station (remembered on this device), the build
@@ -85,14 +89,25 @@ export const useStationSessionStore = defineStore('station-session', () => {
       }
       if (error.code === 'NOT_FOUND') {
         const code = p.containerCode ?? p.mixCode ?? '';
-        say(feedback('refuse', 'Refused: unknown code', `No container or mix has the code "${code}". Check the label and scan again.`, 'NOT_FOUND'));
+        say(
+          feedback(
+            'refuse',
+            'Refused: unknown code',
+            `No container or mix has the code "${code}". Check the label and scan again.`,
+            'NOT_FOUND',
+          ),
+        );
         return;
       }
     }
     if (action.kind === 'start' && error.code === 'CURE_INCOMPLETE') {
       const p = action.payload as StepPayload;
       const gate = cureGateBefore(traveler.value, traveler.value?.steps.find((s) => s.id === p.stepId) ?? null);
-      cureBlock.value = { stepName: gate?.name ?? 'the previous step', cureCompleteAt: gate?.cureCompleteAt ?? null, handlingAt: gate?.handlingAt ?? null };
+      cureBlock.value = {
+        stepName: gate?.name ?? 'the previous step',
+        cureCompleteAt: gate?.cureCompleteAt ?? null,
+        handlingAt: gate?.handlingAt ?? null,
+      };
     }
     say(refusalFeedback(error, action.label));
   }
@@ -103,7 +118,13 @@ export const useStationSessionStore = defineStore('station-session', () => {
       loads.value = [...loads.value.filter((l) => l.id !== r.id), r];
       const what = r.container ? `container ${r.container.code}` : `mix ${r.mix?.code ?? ''}`;
       const notes = [r.alreadyLoaded ? 'It was already loaded.' : '', r.opened ? 'Opened now: its after-opening life starts.' : ''];
-      say(feedback('accept', `Accepted: ${r.material.name}`, `${what}, lot ${r.lot.supplierLot}, for step "${r.step.name}". ${notes.join(' ')}`.trim()));
+      say(
+        feedback(
+          'accept',
+          `Accepted: ${r.material.name}`,
+          `${what}, lot ${r.lot.supplierLot}, for step "${r.step.name}". ${notes.join(' ')}`.trim(),
+        ),
+      );
     } else if (action.kind === 'start' || action.kind === 'finish') {
       const run = (value as StepRunResult).stepRun;
       const name = (action.payload as StepPayload).stepName;
@@ -139,9 +160,11 @@ export const useStationSessionStore = defineStore('station-session', () => {
       if (station.value) setStation(list.find((s) => s.id === station.value?.id) ?? null);
     })();
     stationsLoading = loading;
-    void loading.finally(() => {
-      if (stationsLoading === loading) stationsLoading = null;
-    }).catch(() => undefined);
+    void loading
+      .finally(() => {
+        if (stationsLoading === loading) stationsLoading = null;
+      })
+      .catch(() => undefined);
     return loading;
   }
 
@@ -178,7 +201,11 @@ export const useStationSessionStore = defineStore('station-session', () => {
     setStation(next);
     cureBlock.value = null;
     const step = stepAtStation(traveler.value, next.kind);
-    const hint = traveler.value ? (step ? ` Next step here: "${step.name}".` : ' The batch has no step left at this station.') : ' Scan the build batch next.';
+    const hint = traveler.value
+      ? step
+        ? ` Next step here: "${step.name}".`
+        : ' The batch has no step left at this station.'
+      : ' Scan the build batch next.';
     say(feedback('info', `Station ${next.code}`, `${next.name} (${next.kind}, ${next.area}).${hint}`));
     void refresh().catch((err: unknown) => console.error('[station] refresh failed', err));
   }
@@ -191,20 +218,49 @@ export const useStationSessionStore = defineStore('station-session', () => {
       if (match) found = await batchesApi.getBatch(match.id);
     } catch (err) {
       if (err instanceof ApiError && err.status === 0) {
-        say(feedback('refuse', 'Offline: batch not looked up', `Batch ${code} cannot be looked up without the network. The current batch stays selected.`, 'OFFLINE'));
+        say(
+          feedback(
+            'refuse',
+            'Offline: batch not looked up',
+            `Batch ${code} cannot be looked up without the network. The current batch stays selected.`,
+            'OFFLINE',
+          ),
+        );
         return;
       }
       throw err;
     }
     if (!found) {
-      say(feedback('refuse', 'Not a build batch', `"${code}" is not a known build batch code. Scan the batch's traveler label.`, 'UNKNOWN_BATCH'));
+      say(
+        feedback(
+          'refuse',
+          'Not a build batch',
+          `"${code}" is not a known build batch code. Scan the batch's traveler label.`,
+          'UNKNOWN_BATCH',
+        ),
+      );
       return;
     }
     setTraveler(found);
     cureBlock.value = null;
     const step = stepAtStation(found, station.value?.kind);
-    if (step) say(feedback('info', `Batch ${found.batch.code}`, `${found.batch.modelName}, ${found.batch.quantity} units. Step here: "${step.name}". Scan each container or mix to load.`));
-    else say(feedback('refuse', `Batch ${found.batch.code}: nothing to do here`, `The batch has no step left at a ${stationKindWords(station.value?.kind).toLowerCase()} station.`, 'WRONG_STATION'));
+    if (step)
+      say(
+        feedback(
+          'info',
+          `Batch ${found.batch.code}`,
+          `${found.batch.modelName}, ${found.batch.quantity} units. Step here: "${step.name}". Scan each container or mix to load.`,
+        ),
+      );
+    else
+      say(
+        feedback(
+          'refuse',
+          `Batch ${found.batch.code}: nothing to do here`,
+          `The batch has no step left at a ${stationKindWords(station.value?.kind).toLowerCase()} station.`,
+          'WRONG_STATION',
+        ),
+      );
     await refresh();
   }
 
@@ -215,21 +271,39 @@ export const useStationSessionStore = defineStore('station-session', () => {
     const meaning = interpretScan(code, stations.value, traveler.value !== null);
     if (meaning.type === 'station') return selectStation(meaning.station);
     if (!station.value) {
-      say(feedback('refuse', 'Scan the station first', `"${code}" is not a station code. Scan the code on the station (or pick the station).`, 'NO_STATION'));
+      say(
+        feedback(
+          'refuse',
+          'Scan the station first',
+          `"${code}" is not a station code. Scan the code on the station (or pick the station).`,
+          'NO_STATION',
+        ),
+      );
       return;
     }
     if (meaning.type === 'batch') return selectBatch(meaning.code);
     const batch = traveler.value!.batch;
-    const payload: LoadPayload = { stationId: station.value.id, batchId: batch.id, [meaning.type === 'mix' ? 'mixCode' : 'containerCode']: meaning.code };
+    const payload: LoadPayload = {
+      stationId: station.value.id,
+      batchId: batch.id,
+      [meaning.type === 'mix' ? 'mixCode' : 'containerCode']: meaning.code,
+    };
     act('load', payload, `Load ${meaning.code}`);
   }
 
   function stepAction(kind: 'start' | 'finish') {
     const step = stepHere.value;
     if (!station.value || !traveler.value || !step) return;
-    act(kind, { stationId: station.value.id, batchId: traveler.value.batch.id, stepId: step.id, stepName: step.name }, `${kind === 'start' ? 'Start' : 'Finish'} "${step.name}"`);
+    act(
+      kind,
+      { stationId: station.value.id, batchId: traveler.value.batch.id, stepId: step.id, stepName: step.name },
+      `${kind === 'start' ? 'Start' : 'Finish'} "${step.name}"`,
+    );
     // Shown at once, corrected by the server's answer (or refusal) when it comes.
-    setTraveler({ ...traveler.value, steps: traveler.value.steps.map((s) => (s.id === step.id ? { ...s, state: kind === 'start' ? 'running' : 'done' } : s)) });
+    setTraveler({
+      ...traveler.value,
+      steps: traveler.value.steps.map((s) => (s.id === step.id ? { ...s, state: kind === 'start' ? 'running' : 'done' } : s)),
+    });
   }
 
   function unload(load: StationLoad) {
@@ -240,7 +314,11 @@ export const useStationSessionStore = defineStore('station-session', () => {
 
   function recordMix(input: MixInput) {
     if (!station.value) return;
-    act('mix', { ...input, stationId: station.value.id, batchId: traveler.value?.batch.id ?? null }, `Mix ${input.resinCode} + ${input.hardenerCode}`);
+    act(
+      'mix',
+      { ...input, stationId: station.value.id, batchId: traveler.value?.batch.id ?? null },
+      `Mix ${input.resinCode} + ${input.hardenerCode}`,
+    );
   }
 
   function leaveBatch() {

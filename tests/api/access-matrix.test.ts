@@ -167,8 +167,13 @@ describe('access matrix', () => {
   it('every registered route is in the expected table with the same access, and every expected route exists', () => {
     const registered = new Map(routes.map((r) => [key(r), r.access]));
     expect(routes.filter((r) => !(key(r) in EXPECTED)).map(key), 'routes missing from EXPECTED').toEqual([]);
-    expect(Object.keys(EXPECTED).filter((k) => !registered.has(k)), 'EXPECTED routes the app does not register').toEqual([]);
-    const differ = routes.filter((r) => EXPECTED[key(r)] !== r.access).map((r) => `${key(r)}: app ${String(r.access)}, expected ${EXPECTED[key(r)]}`);
+    expect(
+      Object.keys(EXPECTED).filter((k) => !registered.has(k)),
+      'EXPECTED routes the app does not register',
+    ).toEqual([]);
+    const differ = routes
+      .filter((r) => EXPECTED[key(r)] !== r.access)
+      .map((r) => `${key(r)}: app ${String(r.access)}, expected ${EXPECTED[key(r)]}`);
     expect(differ).toEqual([]);
   });
 
@@ -191,7 +196,8 @@ describe('access matrix', () => {
         const may = allowed === null || allowed.includes(role);
         if (may && (res.status === 401 || res.status === 403)) wrong.push(`${key(route)} as ${role} (allowed) → ${res.status}`);
         if (!may && res.status !== 403) wrong.push(`${key(route)} as ${role} (refused) → ${res.status}`);
-        if (!may && res.status === 403 && (res.body as { error?: { code?: string } } | null)?.error?.code !== 'FORBIDDEN') wrong.push(`${key(route)} as ${role} → 403 without FORBIDDEN`);
+        if (!may && res.status === 403 && (res.body as { error?: { code?: string } } | null)?.error?.code !== 'FORBIDDEN')
+          wrong.push(`${key(route)} as ${role} → 403 without FORBIDDEN`);
         if (res.status >= 500) wrong.push(`${key(route)} as ${role} → ${res.status}`);
       }
     }

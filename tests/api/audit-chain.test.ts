@@ -56,7 +56,11 @@ describe('audit chain', () => {
   });
 
   it('stays linear when many transactions write at once', async () => {
-    await Promise.all(Array.from({ length: 30 }, (_, i) => db.execute(sql`INSERT INTO audit_log (action, entity_type, entity_id) VALUES ('test.parallel', 'test', ${`p${i}`})`)));
+    await Promise.all(
+      Array.from({ length: 30 }, (_, i) =>
+        db.execute(sql`INSERT INTO audit_log (action, entity_type, entity_id) VALUES ('test.parallel', 'test', ${`p${i}`})`),
+      ),
+    );
     const result = await verifyAuditChain();
     expect(result).toMatchObject({ ok: true, firstBroken: null });
   });
@@ -95,7 +99,11 @@ describe('audit chain', () => {
       // The watch raises a critical alert for it (it verifies when its last check is a day old).
       await db.execute(sql`DELETE FROM settings WHERE key = 'auditChainLastCheck'`);
       await sweep();
-      const alert = (await db.execute<{ severity: string; subject_id: string }>(sql`SELECT severity, subject_id FROM alerts WHERE kind = 'audit_chain_broken' AND state <> 'resolved'`)).rows;
+      const alert = (
+        await db.execute<{ severity: string; subject_id: string }>(
+          sql`SELECT severity, subject_id FROM alerts WHERE kind = 'audit_chain_broken' AND state <> 'resolved'`,
+        )
+      ).rows;
       expect(alert).toEqual([{ severity: 'critical', subject_id: String(target) }]);
     } finally {
       // Put the row back as it was: the chain verifies again.

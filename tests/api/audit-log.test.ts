@@ -32,7 +32,8 @@ describe('audit log is append-only', () => {
   });
 
   it.each(['UPDATE', 'DELETE'])('refuses %s', async (op) => {
-    const stmt = op === 'UPDATE' ? sql`UPDATE audit_log SET action = 'changed' WHERE id = ${id}` : sql`DELETE FROM audit_log WHERE id = ${id}`;
+    const stmt =
+      op === 'UPDATE' ? sql`UPDATE audit_log SET action = 'changed' WHERE id = ${id}` : sql`DELETE FROM audit_log WHERE id = ${id}`;
     expect(await refusal(db.execute(stmt))).toMatch(/append-only/);
     const res = await db.execute(sql`SELECT action FROM audit_log WHERE id = ${id}`);
     expect(res.rows[0]).toEqual({ action: 'test.append' });

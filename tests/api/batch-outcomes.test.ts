@@ -48,7 +48,14 @@ describe('batch outcomes', () => {
     const model = await createModel({ steps: [{ stationKind: station.kind }] });
     const batch = await createBatch({ modelId: model.id, quantity: 1 });
     const [row] = await db.insert(testResults).values({ driverId: batch.drivers[0].id, result: 'pass' }).returning();
-    const err = await db.update(testResults).set({ result: 'fail', defectCode: 'TBO' }).where(eq(testResults.id, row.id)).then(() => null, (e: Error) => e);
+    const err = await db
+      .update(testResults)
+      .set({ result: 'fail', defectCode: 'TBO' })
+      .where(eq(testResults.id, row.id))
+      .then(
+        () => null,
+        (e: Error) => e,
+      );
     expect(String((err?.cause as Error | undefined)?.message)).toMatch(/would leave batch_outcomes wrong/);
   });
 });

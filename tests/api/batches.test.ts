@@ -4,11 +4,24 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '../../server/db/client';
 import { auditLog, drivers } from '../../server/db/schema';
 import {
-  batchCreatedSchema, batchDetailSchema, batchPageSchema, batchScanResultSchema, driverScanResultSchema,
+  batchCreatedSchema,
+  batchDetailSchema,
+  batchPageSchema,
+  batchScanResultSchema,
+  driverScanResultSchema,
 } from '../../shared/schemas/batches';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
-import { createBatch, createLot, createMaterial, createModel, createStation, createStepRun, createTwoPart, hoursAgo } from '../helpers/fixtures';
+import {
+  createBatch,
+  createLot,
+  createMaterial,
+  createModel,
+  createStation,
+  createStepRun,
+  createTwoPart,
+  hoursAgo,
+} from '../helpers/fixtures';
 
 let app: TestApp;
 let assembler: TestUser;
@@ -67,7 +80,9 @@ describe('build batches', () => {
   });
 
   it('opens batches concurrently without a code clash', async () => {
-    const results = await Promise.all(Array.from({ length: 5 }, () => as(assembler).post('/api/batches', { modelId: model.id, quantity: 3 })));
+    const results = await Promise.all(
+      Array.from({ length: 5 }, () => as(assembler).post('/api/batches', { modelId: model.id, quantity: 3 })),
+    );
     expect(results.map((r) => r.status)).toEqual([201, 201, 201, 201, 201]);
     expect(new Set(results.map((r) => r.body.batch.code)).size).toBe(5);
   });
@@ -86,13 +101,23 @@ describe('build batches', () => {
     const epoxy = await createTwoPart();
     const mixing = await createModel({
       steps: [
-        { name: 'Bond', stationKind: station.kind, materials: [{ materialId: epoxy.resin.id, amountPerUnit: 2 }, { materialId: epoxy.hardener.id, amountPerUnit: 2 }] },
+        {
+          name: 'Bond',
+          stationKind: station.kind,
+          materials: [
+            { materialId: epoxy.resin.id, amountPerUnit: 2 },
+            { materialId: epoxy.hardener.id, amountPerUnit: 2 },
+          ],
+        },
         { name: 'Cap', stationKind: station.kind, materials: [{ materialId: glue.id, amountPerUnit: 1 }] },
       ],
     });
     const batch = await createBatch({ modelId: mixing.id, quantity: 1 });
     const detail = batchDetailSchema.parse((await as(assembler).get(`/api/batches/${batch.id}`)).body);
-    expect(detail.steps[0].materials.map((m) => [m.materialId, m.twoPart])).toEqual([[epoxy.resin.id, true], [epoxy.hardener.id, true]]);
+    expect(detail.steps[0].materials.map((m) => [m.materialId, m.twoPart])).toEqual([
+      [epoxy.resin.id, true],
+      [epoxy.hardener.id, true],
+    ]);
     expect(detail.steps[1].materials.map((m) => m.twoPart)).toEqual([false]);
   });
 
@@ -105,7 +130,13 @@ describe('build batches', () => {
 
     const lot = await createLot({ materialId: glue.id, containerStatus: 'open', openedAt: hoursAgo(3) });
     const finishedAt = hoursAgo(2);
-    await createStepRun({ batchId: batch.id, stepId: model.steps[0].id, stationId: station.id, finishedAt, used: [{ containerId: lot.containers[0].id, quantity: 2 }] });
+    await createStepRun({
+      batchId: batch.id,
+      stepId: model.steps[0].id,
+      stationId: station.id,
+      finishedAt,
+      used: [{ containerId: lot.containers[0].id, quantity: 2 }],
+    });
     detail = batchDetailSchema.parse((await as(receiving).get(`/api/batches/${batch.id}`)).body);
     expect(detail.steps[0].state).toBe('curing');
     // No reading in the area: the reference temperature holds, so 24 h from the finish (cure profile of the fixture).
@@ -114,7 +145,13 @@ describe('build batches', () => {
     expect(detail.currentStepId).toBe(model.steps[1].id);
 
     const old = await createBatch({ modelId: model.id, quantity: 1 });
-    await createStepRun({ batchId: old.id, stepId: model.steps[0].id, stationId: station.id, finishedAt: hoursAgo(30), used: [{ containerId: lot.containers[0].id, quantity: 1 }] });
+    await createStepRun({
+      batchId: old.id,
+      stepId: model.steps[0].id,
+      stationId: station.id,
+      finishedAt: hoursAgo(30),
+      used: [{ containerId: lot.containers[0].id, quantity: 1 }],
+    });
     await createStepRun({ batchId: old.id, stepId: model.steps[1].id, stationId: station.id, finishedAt: null, startedAt: hoursAgo(1) });
     detail = batchDetailSchema.parse((await as(receiving).get(`/api/batches/${old.id}`)).body);
     expect(detail.steps.map((s) => s.state)).toEqual(['done', 'running']);

@@ -8,11 +8,30 @@ import { sweep } from '../../server/services/compliance';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, pinBaseline, testDatabaseUrl, type TestUser } from '../helpers/db';
 import {
-  createBatch, createLot, createMaterial, createMix, createModel, createStation, createStationLoad, createStepRun, createTwoPart,
-  daysAgo, hoursAgo, minutesAgo, ymd,
+  createBatch,
+  createLot,
+  createMaterial,
+  createMix,
+  createModel,
+  createStation,
+  createStationLoad,
+  createStepRun,
+  createTwoPart,
+  daysAgo,
+  hoursAgo,
+  minutesAgo,
+  ymd,
 } from '../helpers/fixtures';
 
-interface AlertBody { id: string; kind: string; subjectId: string; state: string; severity: string; message: string; data: Record<string, number> | null }
+interface AlertBody {
+  id: string;
+  kind: string;
+  subjectId: string;
+  state: string;
+  severity: string;
+  message: string;
+  data: Record<string, number> | null;
+}
 
 async function liveAlertsFor(subjectId: string) {
   return db.select().from(alerts).where(eq(alerts.subjectId, subjectId));
@@ -40,14 +59,23 @@ describe('compliance watch', () => {
     const model = await createModel({ steps: [{ stationKind: 'moving_parts' }, { stationKind: 'dust_cap' }] });
     const batch = await createBatch({ modelId: model.id, quantity: 100 });
     const mix = await createMix({
-      stationId: station.id, resinContainerId: resinLot.containers[0].id, hardenerContainerId: hardLot.containers[0].id,
-      mixedAt: minutesAgo(50), potLifeEndsAt: minutesAgo(20),
+      stationId: station.id,
+      resinContainerId: resinLot.containers[0].id,
+      hardenerContainerId: hardLot.containers[0].id,
+      mixedAt: minutesAgo(50),
+      potLifeEndsAt: minutesAgo(20),
     });
     await createStationLoad({ stationId: station.id, batchId: batch.id, mixId: mix.id });
     ids.mix = mix.id;
 
     // A step started before the previous cure was complete.
-    const run = await createStepRun({ batchId: batch.id, stepId: model.steps[1].id, stationId: station.id, startedAt: hoursAgo(3), finishedAt: hoursAgo(2) });
+    const run = await createStepRun({
+      batchId: batch.id,
+      stepId: model.steps[1].id,
+      stationId: station.id,
+      startedAt: hoursAgo(3),
+      finishedAt: hoursAgo(2),
+    });
     await db.update(stepRuns).set({ shortCure: true }).where(eq(stepRuns.id, run.id));
     ids.shortRun = run.id;
 
@@ -67,16 +95,28 @@ describe('compliance watch', () => {
     // A lot built into 100 drivers of which 10 failed final test (baseline 1 %).
     const cone = await createMaterial({ name: 'Paper cone', kind: 'cone', unit: 'pcs' });
     const suspect = await createLot({ materialId: cone.id, quantity: 500 });
-    await createStepRun({ batchId: batch.id, stepId: model.steps[0].id, stationId: station.id, used: [{ containerId: suspect.containers[0].id, quantity: 100 }] });
+    await createStepRun({
+      batchId: batch.id,
+      stepId: model.steps[0].id,
+      stationId: station.id,
+      used: [{ containerId: suspect.containers[0].id, quantity: 100 }],
+    });
     await db.insert(defectCodes).values({ code: 'T-RUB', description: 'Rub in sweep' }).onConflictDoNothing();
     await db.insert(testResults).values(
-      batch.drivers.map((d, i) => ({ driverId: d.id, result: i < 10 ? ('fail' as const) : ('pass' as const), defectCode: i < 10 ? 'T-RUB' : null })),
+      batch.drivers.map((d, i) => ({
+        driverId: d.id,
+        result: i < 10 ? ('fail' as const) : ('pass' as const),
+        defectCode: i < 10 ? 'T-RUB' : null,
+      })),
     );
     ids.suspectLot = suspect.id;
 
     // A lot whose certificate of analysis has expired.
     const certLot = await createLot({ materialId: cone.id });
-    await db.update(lots).set({ certificateExpiresOn: ymd(daysAgo(1)) }).where(eq(lots.id, certLot.id));
+    await db
+      .update(lots)
+      .set({ certificateExpiresOn: ymd(daysAgo(1)) })
+      .where(eq(lots.id, certLot.id));
     ids.certLot = certLot.id;
   });
   afterAll(async () => {
@@ -177,9 +217,13 @@ describe('compliance watch', () => {
     const short = await api(app.baseUrl, quality.token).post(`/api/alerts/${alert.id}/resolve`, { resolution: 'ok' });
     expect(short.status).toBe(400);
     expect(short.body.error.details[0].field).toBe('resolution');
-    expect((await api(app.baseUrl, receiving.token).post(`/api/alerts/${alert.id}/resolve`, { resolution: 'New certificate on file.' })).status).toBe(403);
+    expect(
+      (await api(app.baseUrl, receiving.token).post(`/api/alerts/${alert.id}/resolve`, { resolution: 'New certificate on file.' })).status,
+    ).toBe(403);
     expect((await api(app.baseUrl, quality.token).post('/api/alerts/not-an-id/acknowledge')).status).toBe(400);
-    const done = await api(app.baseUrl, quality.token).post(`/api/alerts/${alert.id}/resolve`, { resolution: 'Lot quarantined until a new certificate arrives.' });
+    const done = await api(app.baseUrl, quality.token).post(`/api/alerts/${alert.id}/resolve`, {
+      resolution: 'Lot quarantined until a new certificate arrives.',
+    });
     expect(done.status).toBe(200);
     expect(done.body.alert.state).toBe('resolved');
   });

@@ -9,7 +9,17 @@ import { db } from '../../server/db/client';
 import { containers, materials, mixes, stationLoads, stations, suppliers } from '../../server/db/schema';
 import { api, startApp, type ApiResponse, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
-import { createBatch, createLot, createMix, createModel, createStation, createSupplier, createTwoPart, minutesAgo, sfx } from '../helpers/fixtures';
+import {
+  createBatch,
+  createLot,
+  createMix,
+  createModel,
+  createStation,
+  createSupplier,
+  createTwoPart,
+  minutesAgo,
+  sfx,
+} from '../helpers/fixtures';
 
 const N = 30;
 
@@ -33,14 +43,19 @@ function tally(results: ApiResponse[]): Record<string, number> {
 }
 
 function expectNo5xx(results: ApiResponse[]): void {
-  expect(results.filter((r) => r.status >= 500).map((r) => r.body), JSON.stringify(tally(results))).toEqual([]);
+  expect(
+    results.filter((r) => r.status >= 500).map((r) => r.body),
+    JSON.stringify(tally(results)),
+  ).toEqual([]);
 }
 
 describe('unique races are 409 naming the field, never 500', () => {
   it(`${N} parallel POST /api/materials with one code make one material; the rest are 409 DUPLICATE_CODE on "code"`, async () => {
     const code = `RACE-${sfx()}`;
     const results = await Promise.all(
-      Array.from({ length: N }, (_, i) => as(admin).post('/api/materials', { code, name: `Race adhesive ${i}`, kind: 'adhesive', unit: 'g' })),
+      Array.from({ length: N }, (_, i) =>
+        as(admin).post('/api/materials', { code, name: `Race adhesive ${i}`, kind: 'adhesive', unit: 'g' }),
+      ),
     );
     expectNo5xx(results);
     expect(results.filter((r) => r.status === 201)).toHaveLength(1);
@@ -56,8 +71,17 @@ describe('unique races are 409 naming the field, never 500', () => {
     const results = await Promise.all(rows.map((s) => as(admin).patch(`/api/suppliers/${s.id}`, { name })));
     expectNo5xx(results);
     expect(results.filter((r) => r.status === 200)).toHaveLength(1);
-    expect(results.filter((r) => r.status === 409).every((r) => r.body.error.code === 'DUPLICATE_NAME' && r.body.error.details[0].field === 'name')).toBe(true);
-    expect(await db.select().from(suppliers).where(sql`lower(${suppliers.name}) = ${name.toLowerCase()}`)).toHaveLength(1);
+    expect(
+      results
+        .filter((r) => r.status === 409)
+        .every((r) => r.body.error.code === 'DUPLICATE_NAME' && r.body.error.details[0].field === 'name'),
+    ).toBe(true);
+    expect(
+      await db
+        .select()
+        .from(suppliers)
+        .where(sql`lower(${suppliers.name}) = ${name.toLowerCase()}`),
+    ).toHaveLength(1);
   });
 
   it(`${N} stations and ${N} materials given one code at once: one each, the rest 409 DUPLICATE_CODE on "code"`, async () => {
@@ -70,13 +94,19 @@ describe('unique races are 409 naming the field, never 500', () => {
     expect(await db.select().from(stations).where(eq(stations.code, stationCode))).toHaveLength(1);
 
     const mats = await Promise.all(
-      Array.from({ length: N }, (_, i) => as(admin).post('/api/materials', { code: `RM-${sfx()}-${i}`, name: `Rename me ${i}`, kind: 'wire', unit: 'm' })),
+      Array.from({ length: N }, (_, i) =>
+        as(admin).post('/api/materials', { code: `RM-${sfx()}-${i}`, name: `Rename me ${i}`, kind: 'wire', unit: 'm' }),
+      ),
     );
     const materialCode = `MAT-RACE-${sfx()}`;
     const materialResults = await Promise.all(mats.map((m) => as(admin).patch(`/api/materials/${m.body.id}`, { code: materialCode })));
     expectNo5xx(materialResults);
     expect(materialResults.filter((r) => r.status === 200)).toHaveLength(1);
-    expect(materialResults.filter((r) => r.status === 409).every((r) => r.body.error.code === 'DUPLICATE_CODE' && r.body.error.details[0].field === 'code')).toBe(true);
+    expect(
+      materialResults
+        .filter((r) => r.status === 409)
+        .every((r) => r.body.error.code === 'DUPLICATE_CODE' && r.body.error.details[0].field === 'code'),
+    ).toBe(true);
     expect(await db.select().from(materials).where(eq(materials.code, materialCode))).toHaveLength(1);
   });
 });
@@ -96,28 +126,55 @@ describe('loading one thing many times at once', () => {
 
   it(`${N + 20} parallel loads of one mix for one batch at one station leave exactly one active load`, async () => {
     const { station, batch, resin, hardener } = await setup();
-    const mix = await createMix({ stationId: station.id, resinContainerId: resin.id, hardenerContainerId: hardener.id, mixedAt: minutesAgo(1), potLifeEndsAt: new Date(Date.now() + 3600_000) });
+    const mix = await createMix({
+      stationId: station.id,
+      resinContainerId: resin.id,
+      hardenerContainerId: hardener.id,
+      mixedAt: minutesAgo(1),
+      potLifeEndsAt: new Date(Date.now() + 3600_000),
+    });
     const results = await Promise.all(
-      Array.from({ length: N + 20 }, () => as(assembler).post(`/api/stations/${station.id}/load`, { batchId: batch.id, mixCode: mix.code })),
+      Array.from({ length: N + 20 }, () =>
+        as(assembler).post(`/api/stations/${station.id}/load`, { batchId: batch.id, mixCode: mix.code }),
+      ),
     );
     expectNo5xx(results);
     expect(results.some((r) => r.status === 200)).toBe(true);
     // Each answer is a load (new or already there) or the database's one-active-load refusal.
-    expect(results.every((r) => r.status === 200 || (r.status === 409 && r.body.error.code === 'ALREADY_LOADED')), JSON.stringify(tally(results))).toBe(true);
-    const active = await db.select().from(stationLoads)
-      .where(and(eq(stationLoads.stationId, station.id), eq(stationLoads.batchId, batch.id), eq(stationLoads.mixId, mix.id), isNull(stationLoads.unloadedAt)));
+    expect(
+      results.every((r) => r.status === 200 || (r.status === 409 && r.body.error.code === 'ALREADY_LOADED')),
+      JSON.stringify(tally(results)),
+    ).toBe(true);
+    const active = await db
+      .select()
+      .from(stationLoads)
+      .where(
+        and(
+          eq(stationLoads.stationId, station.id),
+          eq(stationLoads.batchId, batch.id),
+          eq(stationLoads.mixId, mix.id),
+          isNull(stationLoads.unloadedAt),
+        ),
+      );
     expect(active).toHaveLength(1);
   });
 
   it(`${N} parallel loads of one sealed container open it once and leave one active load`, async () => {
     const { station, batch, resin } = await setup();
     const results = await Promise.all(
-      Array.from({ length: N }, () => as(assembler).post(`/api/stations/${station.id}/load`, { batchId: batch.id, containerCode: resin.code })),
+      Array.from({ length: N }, () =>
+        as(assembler).post(`/api/stations/${station.id}/load`, { batchId: batch.id, containerCode: resin.code }),
+      ),
     );
     expectNo5xx(results);
-    expect(results.every((r) => r.status === 200 || (r.status === 409 && r.body.error.code === 'ALREADY_LOADED')), JSON.stringify(tally(results))).toBe(true);
+    expect(
+      results.every((r) => r.status === 200 || (r.status === 409 && r.body.error.code === 'ALREADY_LOADED')),
+      JSON.stringify(tally(results)),
+    ).toBe(true);
     expect(results.filter((r) => r.status === 200 && r.body.opened === true)).toHaveLength(1);
-    const active = await db.select().from(stationLoads)
+    const active = await db
+      .select()
+      .from(stationLoads)
       .where(and(eq(stationLoads.stationId, station.id), eq(stationLoads.containerId, resin.id), isNull(stationLoads.unloadedAt)));
     expect(active).toHaveLength(1);
   });
@@ -133,7 +190,10 @@ describe('spending the last stock', () => {
     const results = await Promise.all(Array.from({ length: N }, () => as(assembler).post(`/api/stations/${station.id}/mixes`, body)));
     expectNo5xx(results);
     expect(results.filter((x) => x.status === 201)).toHaveLength(3);
-    expect(results.filter((x) => x.status !== 201).every((x) => x.status === 409 && x.body.error.code === 'INSUFFICIENT_STOCK'), JSON.stringify(tally(results))).toBe(true);
+    expect(
+      results.filter((x) => x.status !== 201).every((x) => x.status === 409 && x.body.error.code === 'INSUFFICIENT_STOCK'),
+      JSON.stringify(tally(results)),
+    ).toBe(true);
     const [resin] = await db.select().from(containers).where(eq(containers.id, r.containers[0].id));
     const [hardener] = await db.select().from(containers).where(eq(containers.id, h.containers[0].id));
     // 100 − 3 × 30 = 10 g left; 1000 − 3 × 15 = 955 g.
@@ -154,18 +214,33 @@ describe('Idempotency-Key replays in parallel', () => {
     const created = results.filter((r) => r.status === 201);
     expect(created.length).toBeGreaterThanOrEqual(1);
     expect(new Set(created.map((r) => r.body.id)).size).toBe(1);
-    expect(results.filter((r) => r.status !== 201).every((r) => r.status === 409 && r.body.error.code === 'IDEMPOTENCY_IN_PROGRESS')).toBe(true);
+    expect(results.filter((r) => r.status !== 201).every((r) => r.status === 409 && r.body.error.code === 'IDEMPOTENCY_IN_PROGRESS')).toBe(
+      true,
+    );
     expect(await db.select().from(suppliers).where(eq(suppliers.name, name))).toHaveLength(1);
   });
 
   it(`${N} parallel sends of one key with different bodies make one record; the others are refused, none replays another body's answer`, async () => {
     const key = `race-mixed-${sfx()}`;
     const names = Array.from({ length: N }, (_, i) => `Mixed supply ${key} ${i}`);
-    const results = await Promise.all(names.map((name) => as(admin).post('/api/suppliers', { name }, { headers: { 'idempotency-key': key } })));
+    const results = await Promise.all(
+      names.map((name) => as(admin).post('/api/suppliers', { name }, { headers: { 'idempotency-key': key } })),
+    );
     expectNo5xx(results);
     expect(results.filter((r) => r.status === 201)).toHaveLength(1);
-    expect(results.filter((r) => r.status !== 201).every((r) => (r.status === 422 && r.body.error.code === 'IDEMPOTENCY_KEY_REUSED') || (r.status === 409 && r.body.error.code === 'IDEMPOTENCY_IN_PROGRESS'))).toBe(true);
-    const made = await db.select().from(suppliers).where(sql`${suppliers.name} LIKE ${`Mixed supply ${key} %`}`);
+    expect(
+      results
+        .filter((r) => r.status !== 201)
+        .every(
+          (r) =>
+            (r.status === 422 && r.body.error.code === 'IDEMPOTENCY_KEY_REUSED') ||
+            (r.status === 409 && r.body.error.code === 'IDEMPOTENCY_IN_PROGRESS'),
+        ),
+    ).toBe(true);
+    const made = await db
+      .select()
+      .from(suppliers)
+      .where(sql`${suppliers.name} LIKE ${`Mixed supply ${key} %`}`);
     expect(made).toHaveLength(1);
   });
 });

@@ -48,9 +48,22 @@ describe('consumption under concurrent requests', () => {
 
     const c = await container(lot.containers[0].id);
     expect(c.remaining).toBe('5.000');
-    const [{ used }] = await db.select({ used: sum(stepRunMaterials.quantityUsed) }).from(stepRunMaterials).where(eq(stepRunMaterials.containerId, c.id));
+    const [{ used }] = await db
+      .select({ used: sum(stepRunMaterials.quantityUsed) })
+      .from(stepRunMaterials)
+      .where(eq(stepRunMaterials.containerId, c.id));
     expect(Number(used)).toBe(30);
-    const finished = await db.select().from(stepRuns).where(and(inArray(stepRuns.batchId, batches.map((b) => b.id))));
+    const finished = await db
+      .select()
+      .from(stepRuns)
+      .where(
+        and(
+          inArray(
+            stepRuns.batchId,
+            batches.map((b) => b.id),
+          ),
+        ),
+      );
     expect(finished.filter((r) => r.finishedAt !== null)).toHaveLength(3);
   });
 
@@ -61,7 +74,12 @@ describe('consumption under concurrent requests', () => {
     const station = await createStation();
     const results = await Promise.all(
       Array.from({ length: 10 }, () =>
-        as().post(`/api/stations/${station.id}/mixes`, { resinCode: resin.containers[0].code, hardenerCode: hardener.containers[0].code, resinQuantity: 20, hardenerQuantity: 10 }),
+        as().post(`/api/stations/${station.id}/mixes`, {
+          resinCode: resin.containers[0].code,
+          hardenerCode: hardener.containers[0].code,
+          resinQuantity: 20,
+          hardenerQuantity: 10,
+        }),
       ),
     );
     expect(results.filter((r) => r.status === 201)).toHaveLength(2);
@@ -79,7 +97,9 @@ describe('consumption under concurrent requests', () => {
     const model = await createModel({ steps: [{ stationKind: station.kind, materials: [{ materialId: glue.id, amountPerUnit: 1 }] }] });
     const batch = await createBatch({ modelId: model.id });
     const results = await Promise.all(
-      Array.from({ length: 10 }, () => as().post(`/api/stations/${station.id}/load`, { batchId: batch.id, containerCode: lot.containers[0].code })),
+      Array.from({ length: 10 }, () =>
+        as().post(`/api/stations/${station.id}/load`, { batchId: batch.id, containerCode: lot.containers[0].code }),
+      ),
     );
     expect(results.every((r) => r.status === 200)).toBe(true);
     expect(results.filter((r) => r.body.opened)).toHaveLength(1);
@@ -96,12 +116,17 @@ describe('consumption rules', () => {
     const { station, model, batches } = await startedBatches(1, 40, glue.id, [later.containers[0].code, sooner.containers[0].code]);
     const res = await as().post(`/api/batches/${batches[0].id}/steps/${model.steps[0].id}/finish`, { stationId: station.id });
     expect(res.status).toBe(200);
-    const byCode = Object.fromEntries(res.body.stepRun.materials.map((m: { containerCode: string; quantityUsed: number }) => [m.containerCode, m.quantityUsed]));
+    const byCode = Object.fromEntries(
+      res.body.stepRun.materials.map((m: { containerCode: string; quantityUsed: number }) => [m.containerCode, m.quantityUsed]),
+    );
     expect(byCode).toEqual({ [sooner.containers[0].code]: 30, [later.containers[0].code]: 10 });
     const s = await container(sooner.containers[0].id);
     expect([s.remaining, s.status]).toEqual(['0.000', 'empty']);
     expect((await container(later.containers[0].id)).remaining).toBe('40.000');
-    const stillLoaded = await db.select().from(stationLoads).where(and(eq(stationLoads.containerId, s.id), isNull(stationLoads.unloadedAt)));
+    const stillLoaded = await db
+      .select()
+      .from(stationLoads)
+      .where(and(eq(stationLoads.containerId, s.id), isNull(stationLoads.unloadedAt)));
     expect(stillLoaded).toHaveLength(0);
   });
 

@@ -17,7 +17,11 @@ let supplierId: string;
 beforeAll(async () => {
   app = await startApp();
   [admin, clerk, quality, assembler, purchasing] = await Promise.all([
-    ensureUser(['admin']), ensureUser(['receiving']), ensureUser(['quality']), ensureUser(['assembler']), ensureUser(['purchasing']),
+    ensureUser(['admin']),
+    ensureUser(['receiving']),
+    ensureUser(['quality']),
+    ensureUser(['assembler']),
+    ensureUser(['purchasing']),
   ]);
   supplierId = (await newSupplier(as(admin))).id;
 });
@@ -32,7 +36,9 @@ async function lotOf(material: Record<string, unknown>, receipt: Record<string, 
 
 describe('container actions: access and input', () => {
   it('401 without a session, 403 for roles that do not handle containers, 400/404 for ids', async () => {
-    const { containers: [c] } = await lotOf({});
+    const {
+      containers: [c],
+    } = await lotOf({});
     expect((await as().post(`/api/containers/${c.id}/open`)).status).toBe(401);
     expect((await as(purchasing).post(`/api/containers/${c.id}/open`)).status).toBe(403);
     expect((await as(admin).post(`/api/containers/${c.id}/open`)).status).toBe(403);
@@ -70,8 +76,15 @@ describe('opening', () => {
     const again = await as(assembler).post(`/api/containers/${held.containers[0].id}/open`);
     expect(again.status).toBe(409);
     expect(again.body.error.code).toBe('INVALID_TRANSITION');
-    const [audit] = await db.select().from(auditLog).where(and(eq(auditLog.entityId, container.id), eq(auditLog.action, 'container.open')));
-    expect(audit).toMatchObject({ actorId: assembler.id, before: { status: 'sealed', openedAt: null }, after: { status: 'open', openedAt: container.openedAt } });
+    const [audit] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, container.id), eq(auditLog.action, 'container.open')));
+    expect(audit).toMatchObject({
+      actorId: assembler.id,
+      before: { status: 'sealed', openedAt: null },
+      after: { status: 'open', openedAt: container.openedAt },
+    });
 
     await as(quality).post(`/api/lots/${held.lot.id}/status`, { status: 'quarantined', reason: 'Suspect batch' });
     const q = await as(assembler).post(`/api/containers/${held.containers[1].id}/open`);
@@ -81,7 +94,9 @@ describe('opening', () => {
 
 describe('frozen and refrigerated material', () => {
   it('frozen: must be thawed before opening; thawed life then limits it; thaw once only', async () => {
-    const { containers: [c] } = await lotOf({ storageClass: 'frozen', thawedLifeHours: 4, shelfLifeDays: 180 });
+    const {
+      containers: [c],
+    } = await lotOf({ storageClass: 'frozen', thawedLifeHours: 4, shelfLifeDays: 180 });
     const notThawed = await as(assembler).post(`/api/containers/${c.id}/open`);
     expect(notThawed.body.error.code).toBe('NOT_THAWED');
     const thawed = containerResultSchema.parse((await as(assembler).post(`/api/containers/${c.id}/thaw`)).body).container;
@@ -95,7 +110,9 @@ describe('frozen and refrigerated material', () => {
   });
 
   it('refrigerated: counts minutes out of cold storage, rounded up', async () => {
-    const { containers: [c] } = await lotOf({ storageClass: 'refrigerated', outOfStorageAllowanceHours: 2, shelfLifeDays: 300 });
+    const {
+      containers: [c],
+    } = await lotOf({ storageClass: 'refrigerated', outOfStorageAllowanceHours: 2, shelfLifeDays: 300 });
     const path = (a: string) => `/api/containers/${c.id}/${a}`;
     expect((await as(clerk).post(path('return-to-storage'))).body.error.code).toBe('NOT_OUT_OF_STORAGE');
     const out = containerResultSchema.parse((await as(clerk).post(path('out-of-storage'))).body).container;
@@ -105,12 +122,18 @@ describe('frozen and refrigerated material', () => {
     expect(Date.parse(out.effectiveExpiry ?? '') - Date.parse(out.outOfStorageSince ?? '')).toBe(2 * HOUR);
     expect((await as(clerk).post(path('out-of-storage'))).body.error.code).toBe('ALREADY_OUT_OF_STORAGE');
     // Pretend it left the fridge 90 minutes ago.
-    await db.update(containers).set({ outOfStorageSince: new Date(Date.now() - 90 * 60_000) }).where(eq(containers.id, c.id));
+    await db
+      .update(containers)
+      .set({ outOfStorageSince: new Date(Date.now() - 90 * 60_000) })
+      .where(eq(containers.id, c.id));
     const back = containerResultSchema.parse((await as(assembler).post(path('return-to-storage'))).body).container;
     expect(back.outOfStorageSince).toBeNull();
     expect(back.outOfStorageMinutes).toBeGreaterThanOrEqual(90);
     expect(back.outOfStorageMinutes).toBeLessThanOrEqual(91);
-    const [audit] = await db.select().from(auditLog).where(and(eq(auditLog.entityId, c.id), eq(auditLog.action, 'container.return_to_storage')));
+    const [audit] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, c.id), eq(auditLog.action, 'container.return_to_storage')));
     expect(audit.before).toMatchObject({ outOfStorageMinutes: 0 });
     expect(audit.after).toMatchObject({ outOfStorageMinutes: back.outOfStorageMinutes, outOfStorageSince: null });
 
@@ -121,7 +144,10 @@ describe('frozen and refrigerated material', () => {
 
 describe('location, empty and scrap', () => {
   it('moves, empties and scraps with audit; the lot is used up when its last container is gone', async () => {
-    const { lot, containers: [a, b] } = await lotOf({});
+    const {
+      lot,
+      containers: [a, b],
+    } = await lotOf({});
     const moved = await as(clerk).post(`/api/containers/${a.id}/location`, { location: 'Cabinet B4' });
     expect(moved.body.container.location).toBe('Cabinet B4');
     // Emptying is recorded where the container is used (station, quality), not at the dock.
@@ -141,9 +167,20 @@ describe('location, empty and scrap', () => {
     const [row] = await db.select().from(lots).where(eq(lots.id, lot.id));
     expect(row.status).toBe('used_up');
 
-    const [scrapAudit] = await db.select().from(auditLog).where(and(eq(auditLog.entityId, b.id), eq(auditLog.action, 'container.scrap')));
-    expect(scrapAudit).toMatchObject({ actorId: quality.id, reason: 'Cartridge cracked in transit', before: { status: 'sealed' }, after: { status: 'scrapped' } });
-    const [usedUp] = await db.select().from(auditLog).where(and(eq(auditLog.entityId, lot.id), eq(auditLog.action, 'lot.status')));
+    const [scrapAudit] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, b.id), eq(auditLog.action, 'container.scrap')));
+    expect(scrapAudit).toMatchObject({
+      actorId: quality.id,
+      reason: 'Cartridge cracked in transit',
+      before: { status: 'sealed' },
+      after: { status: 'scrapped' },
+    });
+    const [usedUp] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, lot.id), eq(auditLog.action, 'lot.status')));
     expect(usedUp).toMatchObject({ before: { status: 'released' }, after: { status: 'used_up' } });
     const final = await as(quality).post(`/api/lots/${lot.id}/status`, { status: 'quarantined', reason: 'late notice' });
     expect(final.body.error.code).toBe('INVALID_TRANSITION');

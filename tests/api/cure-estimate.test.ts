@@ -19,7 +19,12 @@ beforeAll(async () => {
   purchasing = await ensureUser(['purchasing']);
   // Full cure 24 h and handling 1 h at 25 °C; default factor 2 per 10 °C.
   epoxyId = (await createMaterial({ name: 'Slow epoxy', cure: { refTempC: 25, handlingMinutes: 60, fullCureMinutes: 1440 } })).id;
-  arrheniusId = (await createMaterial({ name: 'Arrhenius epoxy', cure: { refTempC: 20, handlingMinutes: 60, fullCureMinutes: 1440, activationEnergyKJ: 51.2 } })).id;
+  arrheniusId = (
+    await createMaterial({
+      name: 'Arrhenius epoxy',
+      cure: { refTempC: 20, handlingMinutes: 60, fullCureMinutes: 1440, activationEnergyKJ: 51.2 },
+    })
+  ).id;
   wireId = (await createMaterial({ name: 'Lead wire', kind: 'wire', unit: 'm' })).id;
 });
 afterAll(() => app.close());
@@ -33,7 +38,7 @@ const estimate = async (body: unknown) => {
 };
 
 describe('POST /api/cure/estimate', () => {
-  it('24 h at 25 °C (reference) is 12 h at 35 °C and 48 h at 15 °C (adhesive makers\' technical guidance; common practice)', async () => {
+  it("24 h at 25 °C (reference) is 12 h at 35 °C and 48 h at 15 °C (adhesive makers' technical guidance; common practice)", async () => {
     const ref = await estimate({ materialId: epoxyId, startAt, tempC: 25 });
     expect(Date.parse(ref.fullCureAt) - t0).toBe(24 * HOUR);
     expect(Date.parse(ref.handlingAt) - t0).toBe(1 * HOUR);
@@ -61,7 +66,10 @@ describe('POST /api/cure/estimate', () => {
     const e = await estimate({
       materialId: epoxyId,
       startAt,
-      readings: [{ at: startAt, tempC: 25 }, { at: new Date(t0 + 4 * HOUR).toISOString(), tempC: 35 }],
+      readings: [
+        { at: startAt, tempC: 25 },
+        { at: new Date(t0 + 4 * HOUR).toISOString(), tempC: 35 },
+      ],
     });
     expect(Date.parse(e.fullCureAt) - t0).toBe(14 * HOUR);
     expect(Date.parse(e.handlingAt) - t0).toBe(1 * HOUR);
@@ -73,11 +81,18 @@ describe('POST /api/cure/estimate', () => {
     const none = await as(purchasing).post('/api/cure/estimate', { materialId: epoxyId, startAt });
     expect(none.status).toBe(400);
     expect(none.body.error.details[0].field).toBe('tempC');
-    expect((await as(purchasing).post('/api/cure/estimate', { materialId: epoxyId, startAt: '2026-03-04', tempC: 25 })).body.error.details[0].field).toBe('startAt');
-    expect((await as(purchasing).post('/api/cure/estimate', { materialId: epoxyId, startAt, tempC: 400 })).body.error.details[0].field).toBe('tempC');
+    expect(
+      (await as(purchasing).post('/api/cure/estimate', { materialId: epoxyId, startAt: '2026-03-04', tempC: 25 })).body.error.details[0]
+        .field,
+    ).toBe('startAt');
+    expect(
+      (await as(purchasing).post('/api/cure/estimate', { materialId: epoxyId, startAt, tempC: 400 })).body.error.details[0].field,
+    ).toBe('tempC');
     const noProfile = await as(purchasing).post('/api/cure/estimate', { materialId: wireId, startAt, tempC: 25 });
     expect(noProfile.status).toBe(400);
     expect(noProfile.body.error.details).toEqual([{ field: 'materialId', message: expect.stringContaining('no cure profile') }]);
-    expect((await as(purchasing).post('/api/cure/estimate', { materialId: '00000000-0000-4000-8000-000000000000', startAt, tempC: 25 })).status).toBe(404);
+    expect(
+      (await as(purchasing).post('/api/cure/estimate', { materialId: '00000000-0000-4000-8000-000000000000', startAt, tempC: 25 })).status,
+    ).toBe(404);
   });
 });

@@ -4,7 +4,18 @@ import { db } from '../../server/db/client';
 import { alerts, deviations, readings } from '../../server/db/schema';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
-import { createBatch, createLot, createMaterial, createModel, createReading, createStation, createStationReading, createStepRun, hoursAgo, sfx } from '../helpers/fixtures';
+import {
+  createBatch,
+  createLot,
+  createMaterial,
+  createModel,
+  createReading,
+  createStation,
+  createStationReading,
+  createStepRun,
+  hoursAgo,
+  sfx,
+} from '../helpers/fixtures';
 
 let app: TestApp;
 let admin: TestUser;
@@ -28,7 +39,17 @@ describe('cure methods: material validation', () => {
       [{ ...ambient, method: 'heat' }, 'cure.schedule'],
       [{ ...ambient, method: 'heat', schedule: [] }, 'cure.schedule'],
       [{ ...ambient, method: 'heat', schedule: [{ tempC: 120, minutes: 0 }] }, 'cure.schedule.0.minutes'],
-      [{ ...ambient, method: 'heat', schedule: [{ tempC: 120, minutes: 30 }, { tempC: 120, minutes: 20 }] }, 'cure.schedule.1.tempC'],
+      [
+        {
+          ...ambient,
+          method: 'heat',
+          schedule: [
+            { tempC: 120, minutes: 30 },
+            { tempC: 120, minutes: 20 },
+          ],
+        },
+        'cure.schedule.1.tempC',
+      ],
       [{ ...ambient, method: 'uv' }, 'cure.uvDoseMJcm2'],
       [{ ...ambient, method: 'uv', uvDoseMJcm2: -5 }, 'cure.uvDoseMJcm2'],
       [{ ...ambient, uvDoseMJcm2: 3000 }, 'cure.uvDoseMJcm2'],
@@ -49,7 +70,14 @@ describe('cure methods: material validation', () => {
     const plain = await as(admin).post('/api/materials', { ...base(), cure: ambient });
     expect(plain.status).toBe(201);
     expect(plain.body.cure).toMatchObject({ method: 'ambient' });
-    const heat = { ...ambient, method: 'heat', schedule: [{ tempC: 120, minutes: 30 }, { tempC: 150, minutes: 15 }] };
+    const heat = {
+      ...ambient,
+      method: 'heat',
+      schedule: [
+        { tempC: 120, minutes: 30 },
+        { tempC: 150, minutes: 15 },
+      ],
+    };
     const h = await as(admin).post('/api/materials', { ...base(), cure: heat });
     expect(h.status).toBe(201);
     expect(h.body.cure).toMatchObject(heat);
@@ -68,7 +96,13 @@ describe('cure methods: stations and their own readings', () => {
     const def = await as(admin).post('/api/stations', { code: `ST-A-${s}`, name: 'Bench', kind: 'bench', area: 'Line A' });
     expect(def.status).toBe(201);
     expect(def.body.cureEnvironment).toBe('area');
-    const oven = await as(admin).post('/api/stations', { code: `ST-O-${s}`, name: 'Oven', kind: 'oven', area: 'Line A', cureEnvironment: 'own' });
+    const oven = await as(admin).post('/api/stations', {
+      code: `ST-O-${s}`,
+      name: 'Oven',
+      kind: 'oven',
+      area: 'Line A',
+      cureEnvironment: 'own',
+    });
     expect(oven.status).toBe(201);
     expect(oven.body.cureEnvironment).toBe('own');
     const bad = await as(admin).post('/api/stations', { code: `ST-X-${s}`, name: 'X', kind: 'x', area: 'Line A', cureEnvironment: 'oven' });
@@ -92,7 +126,10 @@ describe('cure methods: stations and their own readings', () => {
     expect(fields(await as(assembler).post('/api/readings', { area: 'Line A', stationId: oven.id, at, tempC: 20 }))).toEqual(['stationId']);
     expect(fields(await as(assembler).post('/api/readings', { at, tempC: 20 }))).toEqual(['area']);
     expect(fields(await as(assembler).post('/api/readings', { area: 'Line A', at, tempC: 151 }))).toEqual(['tempC']);
-    expect(fields(await as(assembler).post('/api/readings', { area: 'Line A', at, irradianceMWcm2: 80 }))).toEqual(['tempC', 'irradianceMWcm2']);
+    expect(fields(await as(assembler).post('/api/readings', { area: 'Line A', at, irradianceMWcm2: 80 }))).toEqual([
+      'tempC',
+      'irradianceMWcm2',
+    ]);
     expect(fields(await as(assembler).post('/api/readings', { stationId: oven.id, at }))).toEqual(['tempC']);
     expect(fields(await as(assembler).post('/api/readings', { stationId: oven.id, at, irradianceMWcm2: -1 }))).toEqual(['irradianceMWcm2']);
     expect(await db.select().from(readings).where(eq(readings.stationId, oven.id))).toHaveLength(2);
@@ -105,7 +142,16 @@ describe('cure methods: stations and their own readings', () => {
 const HOUR = 3_600_000;
 const MIN = 60_000;
 /** Heat-cure magnet-bond epoxy: 30 min at 120 °C, 15 min at 150 °C (a worked data-sheet style schedule). */
-const heatCure = { method: 'heat' as const, refTempC: 120, handlingMinutes: 30, fullCureMinutes: 30, schedule: [{ tempC: 120, minutes: 30 }, { tempC: 150, minutes: 15 }] };
+const heatCure = {
+  method: 'heat' as const,
+  refTempC: 120,
+  handlingMinutes: 30,
+  fullCureMinutes: 30,
+  schedule: [
+    { tempC: 120, minutes: 30 },
+    { tempC: 150, minutes: 15 },
+  ],
+};
 
 describe('cure methods: POST /api/cure/estimate', () => {
   it('heat: 135 °C between 30 min at 120 °C and 15 min at 150 °C is √(30 × 15) = 21.2 min (log-linear interpolation)', async () => {
@@ -118,9 +164,15 @@ describe('cure methods: POST /api/cure/estimate', () => {
   });
 
   it('ambient with a minimum: 2 h at 5 °C (below 10 °C) add nothing, then 24 h at the 25 °C reference', async () => {
-    const m = await createMaterial({ name: 'Cold-sensitive adhesive', cure: { refTempC: 25, handlingMinutes: 60, fullCureMinutes: 1440, minTempC: 10 } });
+    const m = await createMaterial({
+      name: 'Cold-sensitive adhesive',
+      cure: { refTempC: 25, handlingMinutes: 60, fullCureMinutes: 1440, minTempC: 10 },
+    });
     const t0 = Date.parse('2026-03-04T08:00:00.000Z');
-    const readings = [{ at: new Date(t0).toISOString(), tempC: 5 }, { at: new Date(t0 + 2 * HOUR).toISOString(), tempC: 25 }];
+    const readings = [
+      { at: new Date(t0).toISOString(), tempC: 5 },
+      { at: new Date(t0 + 2 * HOUR).toISOString(), tempC: 25 },
+    ];
     const res = await as(assembler).post('/api/cure/estimate', { materialId: m.id, startAt: new Date(t0).toISOString(), readings });
     expect(res.status).toBe(200);
     expect(Date.parse(res.body.fullCureAt) - t0).toBe(26 * HOUR);
@@ -130,7 +182,10 @@ describe('cure methods: POST /api/cure/estimate', () => {
   });
 
   it('uv: 3,000 mJ/cm² at 100 mW/cm² needs 30 s (dose = irradiance × time, 1 mW·s = 1 mJ)', async () => {
-    const m = await createMaterial({ name: 'UV acrylic', cure: { method: 'uv', refTempC: 23, handlingMinutes: 1, fullCureMinutes: 1, uvDoseMJcm2: 3000 } });
+    const m = await createMaterial({
+      name: 'UV acrylic',
+      cure: { method: 'uv', refTempC: 23, handlingMinutes: 1, fullCureMinutes: 1, uvDoseMJcm2: 3000 },
+    });
     const res = await as(assembler).post('/api/cure/estimate', { materialId: m.id, irradianceMWcm2: 100 });
     expect(res.status).toBe(200);
     expect(res.body).toEqual({ cureMethod: 'uv', exposureSeconds: 30, doseMJcm2: 3000, irradianceMWcm2: 100 });
@@ -140,7 +195,7 @@ describe('cure methods: POST /api/cure/estimate', () => {
   });
 });
 
-describe('cure methods: the oven gate uses the station\'s own readings', () => {
+describe("cure methods: the oven gate uses the station's own readings", () => {
   async function ovenRun(ovenTempC: number) {
     const area = `area-${sfx()}`;
     const ovenKind = `oven ${sfx()}`;
@@ -148,17 +203,26 @@ describe('cure methods: the oven gate uses the station\'s own readings', () => {
     const oven = await createStation({ kind: ovenKind, area, cureEnvironment: 'own' });
     const next = await createStation({ kind: nextKind, area });
     const epoxy = await createMaterial({ name: 'Magnet-bond epoxy', cure: heatCure });
-    const model = await createModel({ steps: [
-      { name: 'Magnet bond (oven)', stationKind: ovenKind, waitForCure: true, materials: [{ materialId: epoxy.id, amountPerUnit: 1 }] },
-      { name: 'Magnetize', stationKind: nextKind },
-    ] });
+    const model = await createModel({
+      steps: [
+        { name: 'Magnet bond (oven)', stationKind: ovenKind, waitForCure: true, materials: [{ materialId: epoxy.id, amountPerUnit: 1 }] },
+        { name: 'Magnetize', stationKind: nextKind },
+      ],
+    });
     const batch = await createBatch({ modelId: model.id, quantity: 2, status: 'in_process' });
     const lot = await createLot({ materialId: epoxy.id, containerStatus: 'open', openedAt: hoursAgo(2) });
     const finishedAt = new Date(Date.now() - 20 * MIN);
     // The area's air is 25 °C: by the area the epoxy would need hours (30 min × 2^9.5 ≈ 12 h).
     await createReading(area, new Date(finishedAt.getTime() - 5 * MIN), 25);
     await createStationReading(oven.id, new Date(finishedAt.getTime() - 5 * MIN), { tempC: ovenTempC });
-    await createStepRun({ batchId: batch.id, stepId: model.steps[0].id, stationId: oven.id, finishedAt, cureCompleteAt: new Date(finishedAt.getTime() + 15 * MIN), used: [{ containerId: lot.containers[0].id, quantity: 2 }] });
+    await createStepRun({
+      batchId: batch.id,
+      stepId: model.steps[0].id,
+      stationId: oven.id,
+      finishedAt,
+      cureCompleteAt: new Date(finishedAt.getTime() + 15 * MIN),
+      used: [{ containerId: lot.containers[0].id, quantity: 2 }],
+    });
     return { batch, model, next, finishedAt };
   }
   const startNext = (o: Awaited<ReturnType<typeof ovenRun>>) =>
@@ -185,12 +249,20 @@ describe('cure methods: a UV step is finished by its dose', () => {
   async function uvStarted() {
     const uvKind = `uv cap ${sfx()}`;
     const lampStation = await createStation({ kind: uvKind, cureEnvironment: 'own' });
-    const acrylic = await createMaterial({ name: 'UV dust-cap acrylic', cure: { method: 'uv', refTempC: 23, handlingMinutes: 1, fullCureMinutes: 1, uvDoseMJcm2: 3000 } });
-    const model = await createModel({ steps: [{ name: 'Dust cap (UV)', stationKind: uvKind, materials: [{ materialId: acrylic.id, amountPerUnit: 0.2 }] }] });
+    const acrylic = await createMaterial({
+      name: 'UV dust-cap acrylic',
+      cure: { method: 'uv', refTempC: 23, handlingMinutes: 1, fullCureMinutes: 1, uvDoseMJcm2: 3000 },
+    });
+    const model = await createModel({
+      steps: [{ name: 'Dust cap (UV)', stationKind: uvKind, materials: [{ materialId: acrylic.id, amountPerUnit: 0.2 }] }],
+    });
     const batch = await createBatch({ modelId: model.id, quantity: 2 });
     const lot = await createLot({ materialId: acrylic.id, quantity: 50 });
     await createStationReading(lampStation.id, new Date(Date.now() - HOUR), { irradianceMWcm2: 80 });
-    expect((await as(assembler).post(`/api/stations/${lampStation.id}/load`, { batchId: batch.id, containerCode: lot.containers[0].code })).status).toBe(200);
+    expect(
+      (await as(assembler).post(`/api/stations/${lampStation.id}/load`, { batchId: batch.id, containerCode: lot.containers[0].code }))
+        .status,
+    ).toBe(200);
     const url = `/api/batches/${batch.id}/steps/${model.steps[0].id}`;
     expect((await as(assembler).post(`${url}/start`, { stationId: lampStation.id })).status).toBe(200);
     const finish = (extra: Record<string, unknown>) => as(assembler).post(`${url}/finish`, { stationId: lampStation.id, ...extra });
@@ -216,7 +288,12 @@ describe('cure methods: a UV step is finished by its dose', () => {
   it('a quality deviation (uv_dose_low) lets a short dose finish, once', async () => {
     const u = await uvStarted();
     expect((await u.finish({ exposureSeconds: 30 })).body.error.code).toBe('UV_DOSE_LOW');
-    const dev = await as(quality).post('/api/deviations', { batchId: u.batch.id, stepId: u.model.steps[0].id, kind: 'uv_dose_low', reason: 'Cap bond verified by pull test on 3 units' });
+    const dev = await as(quality).post('/api/deviations', {
+      batchId: u.batch.id,
+      stepId: u.model.steps[0].id,
+      kind: 'uv_dose_low',
+      reason: 'Cap bond verified by pull test on 3 units',
+    });
     expect(dev.status).toBe(201);
     const ok = await u.finish({ exposureSeconds: 30 });
     expect(ok.status).toBe(200);
@@ -226,7 +303,7 @@ describe('cure methods: a UV step is finished by its dose', () => {
 });
 
 describe('cure methods: radiometer check due', () => {
-  it('raises lamp_check_due when a UV lamp\'s last radiometer reading is older than 7 days, and resolves it after a new one', async () => {
+  it("raises lamp_check_due when a UV lamp's last radiometer reading is older than 7 days, and resolves it after a new one", async () => {
     const lampStation = await createStation({ kind: `uv ${sfx()}`, cureEnvironment: 'own' });
     await createStationReading(lampStation.id, new Date(Date.now() - 8 * 24 * HOUR), { irradianceMWcm2: 90 });
     expect((await as(quality).post('/api/compliance/run', {})).status).toBe(200);
@@ -250,16 +327,28 @@ describe('cure methods: radiometer check due', () => {
 });
 
 describe('cure methods: humidity window', () => {
-  it('flags a cure that ran while the area\'s RH left the material\'s window (40–60 % RH), not one that stayed inside', async () => {
+  it("flags a cure that ran while the area's RH left the material's window (40–60 % RH), not one that stayed inside", async () => {
     const area = `area-${sfx()}`;
     const kind = `ca bond ${sfx()}`;
     const st = await createStation({ kind, area });
-    const ca = await createMaterial({ name: 'Cyanoacrylate', cure: { refTempC: 23, handlingMinutes: 1, fullCureMinutes: 1440, rhMinPct: 40, rhMaxPct: 60 } });
-    const model = await createModel({ steps: [{ name: 'Lead-wire tack', stationKind: kind, materials: [{ materialId: ca.id, amountPerUnit: 0.05 }] }] });
+    const ca = await createMaterial({
+      name: 'Cyanoacrylate',
+      cure: { refTempC: 23, handlingMinutes: 1, fullCureMinutes: 1440, rhMinPct: 40, rhMaxPct: 60 },
+    });
+    const model = await createModel({
+      steps: [{ name: 'Lead-wire tack', stationKind: kind, materials: [{ materialId: ca.id, amountPerUnit: 0.05 }] }],
+    });
     const run = async () => {
       const batch = await createBatch({ modelId: model.id, status: 'in_process' });
       const lot = await createLot({ materialId: ca.id, containerStatus: 'open', openedAt: hoursAgo(5) });
-      return createStepRun({ batchId: batch.id, stepId: model.steps[0].id, stationId: st.id, finishedAt: hoursAgo(3), cureCompleteAt: new Date(Date.now() + 20 * HOUR), used: [{ containerId: lot.containers[0].id, quantity: 0.1 }] });
+      return createStepRun({
+        batchId: batch.id,
+        stepId: model.steps[0].id,
+        stationId: st.id,
+        finishedAt: hoursAgo(3),
+        cureCompleteAt: new Date(Date.now() + 20 * HOUR),
+        used: [{ containerId: lot.containers[0].id, quantity: 0.1 }],
+      });
     };
     const inside = await run();
     await createReading(area, hoursAgo(4), 23, 50);

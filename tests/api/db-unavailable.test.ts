@@ -53,7 +53,10 @@ describe('database unreachable', () => {
     expect503(await api(app.baseUrl, token).get('/api/auth/me'), 'me');
     expect503(await api(app.baseUrl, token).get('/api/lots'), 'lots');
     expect503(await api(app.baseUrl, token).post('/api/scans/resolve', { code: 'TLC-NOTHING' }), 'scan');
-    expect503(await api(app.baseUrl, token).post('/api/suppliers', { name: 'Some supplier' }, { headers: { 'idempotency-key': 'k-1' } }), 'write with a key');
+    expect503(
+      await api(app.baseUrl, token).post('/api/suppliers', { name: 'Some supplier' }, { headers: { 'idempotency-key': 'k-1' } }),
+      'write with a key',
+    );
   });
 
   it('still refuses what it can refuse without the database: no session → 401, malformed JSON → 400', async () => {

@@ -20,7 +20,10 @@ beforeAll(async () => {
   app = await startApp();
   s = await buildTraceScenario();
   [quality, assembler, receiving, admin] = await Promise.all([
-    ensureUser(['quality']), ensureUser(['assembler']), ensureUser(['receiving']), ensureUser(['admin']),
+    ensureUser(['quality']),
+    ensureUser(['assembler']),
+    ensureUser(['receiving']),
+    ensureUser(['admin']),
   ]);
 });
 afterAll(() => app.close());
@@ -117,7 +120,10 @@ describe('POST /api/tests — plant rules', () => {
     expect(body.driver).toMatchObject({ serial, status: 'passed', previousStatus: 'in_process' });
     expect(body.test).toMatchObject({ result: 'pass', defectCode: null, measurements: { fsHz: 38.5, reOhm: 6.2 }, testedBy: assembler.id });
     expect((await driverRow(serial)).status).toBe('passed');
-    const audit = await db.select().from(auditLog).where(and(eq(auditLog.entityType, 'test_result'), eq(auditLog.entityId, body.test.id)));
+    const audit = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityType, 'test_result'), eq(auditLog.entityId, body.test.id)));
     expect(audit).toHaveLength(1);
   });
 
@@ -199,7 +205,10 @@ describe('defect codes', () => {
     const off = await as(quality).patch(`/api/defect-codes/${code}`, { active: false });
     expect(off.status).toBe(200);
     expect(off.body.active).toBe(false);
-    const audit = await db.select().from(auditLog).where(and(eq(auditLog.entityType, 'defect_code'), eq(auditLog.entityId, code), eq(auditLog.action, 'defect_code.update')));
+    const audit = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityType, 'defect_code'), eq(auditLog.entityId, code), eq(auditLog.action, 'defect_code.update')));
     expect(audit.map((a) => [(a.before as { active: boolean }).active, (a.after as { active: boolean }).active])).toEqual([[true, false]]);
     const refused = await as(quality).post('/api/tests', { serial: s.batches.b2.serials[2], result: 'fail', defectCode: code });
     expect(refused.status).toBe(400);

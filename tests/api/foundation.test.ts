@@ -60,7 +60,13 @@ describe('sign-in', () => {
     expect(res.status).toBe(200);
     const body = loginResultSchema.parse(res.body);
     // The contract's {id, email, name, roles}, plus the actions the permission map allows.
-    expect(body.user).toEqual({ id: quality.id, email: quality.email, name: quality.name, roles: ['quality'], permissions: permissionsFor(['quality']) });
+    expect(body.user).toEqual({
+      id: quality.id,
+      email: quality.email,
+      name: quality.name,
+      roles: ['quality'],
+      permissions: permissionsFor(['quality']),
+    });
     expect(body.user.permissions).toContain('lots.release');
     expect(body.user.permissions).not.toContain('lots.receive');
     expect(body.token.split('.')).toHaveLength(3); // RFC 7519 §3: a JWS compact serialisation has three parts

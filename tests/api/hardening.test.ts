@@ -26,7 +26,10 @@ let quality: TestUser;
 beforeAll(async () => {
   app = await startApp();
   [admin, clerk, assembler, quality] = await Promise.all([
-    ensureUser(['admin']), ensureUser(['receiving']), ensureUser(['assembler']), ensureUser(['quality']),
+    ensureUser(['admin']),
+    ensureUser(['receiving']),
+    ensureUser(['assembler']),
+    ensureUser(['quality']),
   ]);
 });
 afterAll(() => app.close());
@@ -56,7 +59,11 @@ describe('cross-site requests and form posts (CSRF)', () => {
     expect(form.body.error.code).toBe('CROSS_SITE_REQUEST');
     const fetched = await api(app.baseUrl).post(`/api/containers/${c.id}/empty`, {}, { headers: { cookie, origin: 'http://127.0.0.1:1' } });
     expect(fetched.status).toBe(403);
-    const sameSite = await api(app.baseUrl).post(`/api/containers/${c.id}/empty`, {}, { headers: { cookie, 'sec-fetch-site': 'same-site' } });
+    const sameSite = await api(app.baseUrl).post(
+      `/api/containers/${c.id}/empty`,
+      {},
+      { headers: { cookie, 'sec-fetch-site': 'same-site' } },
+    );
     expect(sameSite.status).toBe(403);
     expect(await containerStatus(c.id)).toBe('open');
   });
@@ -64,28 +71,44 @@ describe('cross-site requests and form posts (CSRF)', () => {
   it('refuses a body that is not JSON with 415 (text/plain, urlencoded), even without Origin headers', async () => {
     const c = await openContainer();
     for (const type of ['text/plain', 'application/x-www-form-urlencoded']) {
-      const res = await api(app.baseUrl).post(`/api/containers/${c.id}/empty`, undefined, { raw: 'a=b', headers: { cookie: cookieOf(assembler.token), 'content-type': type } });
+      const res = await api(app.baseUrl).post(`/api/containers/${c.id}/empty`, undefined, {
+        raw: 'a=b',
+        headers: { cookie: cookieOf(assembler.token), 'content-type': type },
+      });
       // RFC 9110 §15.5.16: 415 Unsupported Media Type.
       expect(res.status, type).toBe(415);
       expect(errorBodySchema.parse(res.body).error.code).toBe('UNSUPPORTED_MEDIA_TYPE');
     }
-    const bearer = await as(assembler).post(`/api/containers/${c.id}/empty`, undefined, { raw: 'a=b', headers: { 'content-type': 'text/plain' } });
+    const bearer = await as(assembler).post(`/api/containers/${c.id}/empty`, undefined, {
+      raw: 'a=b',
+      headers: { 'content-type': 'text/plain' },
+    });
     expect(bearer.status).toBe(415);
     // Multipart goes only to upload routes.
     const form = new FormData();
     form.append('x', '1');
-    const multipart = await fetch(`${app.baseUrl}/api/containers/${c.id}/empty`, { method: 'POST', body: form, headers: { authorization: `Bearer ${assembler.token}` } });
+    const multipart = await fetch(`${app.baseUrl}/api/containers/${c.id}/empty`, {
+      method: 'POST',
+      body: form,
+      headers: { authorization: `Bearer ${assembler.token}` },
+    });
     expect(multipart.status).toBe(415);
     expect(await containerStatus(c.id)).toBe('open');
   });
 
-  it('accepts the app\'s own page (same-origin), a body-less POST without Content-Type, and scripts with a bearer token from anywhere', async () => {
+  it("accepts the app's own page (same-origin), a body-less POST without Content-Type, and scripts with a bearer token from anywhere", async () => {
     const c = await openContainer();
-    const own = await api(app.baseUrl).post(`/api/containers/${c.id}/location`, { location: 'Shelf B2' }, {
-      headers: { cookie: cookieOf(assembler.token), origin: app.baseUrl, 'sec-fetch-site': 'same-origin' },
-    });
+    const own = await api(app.baseUrl).post(
+      `/api/containers/${c.id}/location`,
+      { location: 'Shelf B2' },
+      {
+        headers: { cookie: cookieOf(assembler.token), origin: app.baseUrl, 'sec-fetch-site': 'same-origin' },
+      },
+    );
     expect(own.status).toBe(200);
-    const bodiless = await api(app.baseUrl).post(`/api/containers/${c.id}/empty`, undefined, { headers: { cookie: cookieOf(assembler.token), 'sec-fetch-site': 'same-origin' } });
+    const bodiless = await api(app.baseUrl).post(`/api/containers/${c.id}/empty`, undefined, {
+      headers: { cookie: cookieOf(assembler.token), 'sec-fetch-site': 'same-origin' },
+    });
     expect(bodiless.status).toBe(200);
     expect(await containerStatus(c.id)).toBe('empty');
     const c2 = await openContainer();
@@ -94,24 +117,33 @@ describe('cross-site requests and form posts (CSRF)', () => {
   });
 });
 
-describe('the Vite dev server\'s proxy', () => {
-  it('passes: it forwards the page\'s Host (127.0.0.1:5173) with its Origin, so the two still match', async () => {
+describe("the Vite dev server's proxy", () => {
+  it("passes: it forwards the page's Host (127.0.0.1:5173) with its Origin, so the two still match", async () => {
     const http = await import('node:http');
     const m = await createMaterial();
     const lot = await createLot({ materialId: m.id, containers: 1, containerStatus: 'open', openedAt: new Date() });
     const { port } = new URL(app.baseUrl);
     const status = await new Promise<number>((resolve, reject) => {
-      const req = http.request({
-        host: '127.0.0.1', port: Number(port), method: 'POST', path: `/api/containers/${lot.containers[0].id}/location`,
-        // What vite's proxy (changeOrigin off, as in vite.config.ts) sends on for the browser.
-        headers: {
-          host: '127.0.0.1:5173', origin: 'http://127.0.0.1:5173', 'sec-fetch-site': 'same-origin',
-          cookie: cookieOf(clerk.token), 'content-type': 'application/json',
+      const req = http.request(
+        {
+          host: '127.0.0.1',
+          port: Number(port),
+          method: 'POST',
+          path: `/api/containers/${lot.containers[0].id}/location`,
+          // What vite's proxy (changeOrigin off, as in vite.config.ts) sends on for the browser.
+          headers: {
+            host: '127.0.0.1:5173',
+            origin: 'http://127.0.0.1:5173',
+            'sec-fetch-site': 'same-origin',
+            cookie: cookieOf(clerk.token),
+            'content-type': 'application/json',
+          },
         },
-      }, (res) => {
-        res.resume();
-        resolve(res.statusCode ?? 0);
-      });
+        (res) => {
+          res.resume();
+          resolve(res.statusCode ?? 0);
+        },
+      );
       req.on('error', reject);
       req.end(JSON.stringify({ location: 'Rack 4' }));
     });
@@ -165,7 +197,12 @@ describe('sessions end', () => {
     const { config } = await import('../../server/config');
     const forged = jwt.sign({}, config.jwtSecret, { subject: admin.id, expiresIn: '1h', algorithm: 'HS256' });
     expect((await api(app.baseUrl, forged).get('/api/auth/me')).status).toBe(401);
-    const unknownSession = jwt.sign({}, config.jwtSecret, { subject: admin.id, jwtid: '00000000-0000-4000-8000-000000000000', expiresIn: '1h', algorithm: 'HS256' });
+    const unknownSession = jwt.sign({}, config.jwtSecret, {
+      subject: admin.id,
+      jwtid: '00000000-0000-4000-8000-000000000000',
+      expiresIn: '1h',
+      algorithm: 'HS256',
+    });
     expect((await api(app.baseUrl, unknownSession).get('/api/auth/me')).status).toBe(401);
   });
 });
@@ -176,7 +213,11 @@ describe('NUL characters', () => {
     const body = await as(admin).post('/api/suppliers', { name: 'a\u0000b' });
     expect(body.status).toBe(400);
     expect(fields(body.body)).toEqual(['name']);
-    const nested = await as(admin).post('/api/models', { code: `M${sfx()}`, name: 'Woofer', steps: [{ name: 'x\u0000', stationKind: 'glue' }] });
+    const nested = await as(admin).post('/api/models', {
+      code: `M${sfx()}`,
+      name: 'Woofer',
+      steps: [{ name: 'x\u0000', stationKind: 'glue' }],
+    });
     expect(nested.status).toBe(400);
     expect(fields(nested.body)).toEqual(['steps.0.name']);
     const query = await as(admin).get('/api/lots?q=%00');
@@ -204,10 +245,26 @@ describe('quantities finer or larger than the database keeps', () => {
   it('refuses 1e-10 and too many digits on every stored quantity with 400 naming the field', async () => {
     const sup = await newSupplier(as(admin));
     const mat = await newMaterial(as(admin));
-    const lot = await as(clerk).post('/api/lots', { materialId: mat.id, supplierId: sup.id, supplierLot: `SL-${sfx()}`, containers: 1, quantityPerContainer: 1e-10 });
+    const lot = await as(clerk).post('/api/lots', {
+      materialId: mat.id,
+      supplierId: sup.id,
+      supplierLot: `SL-${sfx()}`,
+      containers: 1,
+      quantityPerContainer: 1e-10,
+    });
     expect(lot.status).toBe(400);
     expect(fields(lot.body)).toEqual(['quantityPerContainer']);
-    expect((await as(clerk).post('/api/lots', { materialId: mat.id, supplierId: sup.id, supplierLot: `SL-${sfx()}`, containers: 1, quantityPerContainer: 0.0005 })).status).toBe(400);
+    expect(
+      (
+        await as(clerk).post('/api/lots', {
+          materialId: mat.id,
+          supplierId: sup.id,
+          supplierLot: `SL-${sfx()}`,
+          containers: 1,
+          quantityPerContainer: 0.0005,
+        })
+      ).status,
+    ).toBe(400);
 
     const order = await as(admin).patch(`/api/materials/${mat.id}`, { orderQuantity: 1e-10 });
     expect(fields(order.body)).toEqual(['orderQuantity']);
@@ -217,25 +274,38 @@ describe('quantities finer or larger than the database keeps', () => {
     expect(fields(ratio.body)).toEqual(['mixRatio']);
 
     const model = await as(admin).post('/api/models', {
-      code: `M${sfx()}`, name: 'Tweeter', steps: [{ name: 'Glue', stationKind: 'glue', materials: [{ materialId: mat.id, amountPerUnit: 1e-10 }] }],
+      code: `M${sfx()}`,
+      name: 'Tweeter',
+      steps: [{ name: 'Glue', stationKind: 'glue', materials: [{ materialId: mat.id, amountPerUnit: 1e-10 }] }],
     });
     expect(model.status).toBe(400);
     expect(fields(model.body)).toEqual(['steps.0.materials.0.amountPerUnit']);
 
     const st = await createStation();
-    const mix = await as(assembler).post(`/api/stations/${st.id}/mixes`, { resinCode: 'A', hardenerCode: 'B', resinQuantity: 1e-10, hardenerQuantity: 10 });
+    const mix = await as(assembler).post(`/api/stations/${st.id}/mixes`, {
+      resinCode: 'A',
+      hardenerCode: 'B',
+      resinQuantity: 1e-10,
+      hardenerQuantity: 10,
+    });
     expect(fields(mix.body)).toEqual(['resinQuantity']);
 
     const reading = await as(quality).post('/api/readings', { area: st.area, at: new Date().toISOString(), tempC: 21.125 });
     expect(fields(reading.body)).toEqual(['tempC']);
     // Two decimals are what numeric(5,2) keeps: accepted.
-    expect((await as(quality).post('/api/readings', { area: st.area, at: new Date().toISOString(), tempC: 21.25, rhPct: 45.5 })).status).toBe(201);
+    expect(
+      (await as(quality).post('/api/readings', { area: st.area, at: new Date().toISOString(), tempC: 21.25, rhPct: 45.5 })).status,
+    ).toBe(201);
   });
 });
 
 describe('malformed multipart', () => {
   async function raw(path: string, contentType: string, body: Blob) {
-    const res = await fetch(`${app.baseUrl}${path}`, { method: 'POST', headers: { authorization: `Bearer ${admin.token}`, 'content-type': contentType }, body });
+    const res = await fetch(`${app.baseUrl}${path}`, {
+      method: 'POST',
+      headers: { authorization: `Bearer ${admin.token}`, 'content-type': contentType },
+      body,
+    });
     return { status: res.status, body: (await res.json()) as { error: { code: string } } };
   }
 
@@ -247,10 +317,26 @@ describe('malformed multipart', () => {
     const b = 'XyZboundary';
     const pdf = pdfBytes().toString('latin1');
     const cases: [string, string, string][] = [
-      ['no boundary', 'multipart/form-data', `--${b}\r\nContent-Disposition: form-data; name="file"; filename="a.pdf"\r\n\r\n${pdf}\r\n--${b}--\r\n`],
-      ['cut short', `multipart/form-data; boundary=${b}`, `--${b}\r\nContent-Disposition: form-data; name="file"; filename="a.pdf"\r\nContent-Type: application/pdf\r\n\r\n${pdf.slice(0, 20)}`],
-      ['broken part header', `multipart/form-data; boundary=${b}`, `--${b}\r\nContent-Disposition form-data name=file\r\n\u0001\u0002: \r\n\r\n${pdf}\r\n--${b}--\r\n`],
-      ['NUL in the file name', `multipart/form-data; boundary=${b}`, `--${b}\r\nContent-Disposition: form-data; name="file"; filename="a\u0000b.pdf"\r\nContent-Type: application/pdf\r\n\r\n${pdf}\r\n--${b}--\r\n`],
+      [
+        'no boundary',
+        'multipart/form-data',
+        `--${b}\r\nContent-Disposition: form-data; name="file"; filename="a.pdf"\r\n\r\n${pdf}\r\n--${b}--\r\n`,
+      ],
+      [
+        'cut short',
+        `multipart/form-data; boundary=${b}`,
+        `--${b}\r\nContent-Disposition: form-data; name="file"; filename="a.pdf"\r\nContent-Type: application/pdf\r\n\r\n${pdf.slice(0, 20)}`,
+      ],
+      [
+        'broken part header',
+        `multipart/form-data; boundary=${b}`,
+        `--${b}\r\nContent-Disposition form-data name=file\r\n\u0001\u0002: \r\n\r\n${pdf}\r\n--${b}--\r\n`,
+      ],
+      [
+        'NUL in the file name',
+        `multipart/form-data; boundary=${b}`,
+        `--${b}\r\nContent-Disposition: form-data; name="file"; filename="a\u0000b.pdf"\r\nContent-Type: application/pdf\r\n\r\n${pdf}\r\n--${b}--\r\n`,
+      ],
     ];
     for (const [what, type, body] of cases) {
       const res = await raw(path, type, new Blob([new Uint8Array(Buffer.from(body, 'latin1'))]));
@@ -263,7 +349,12 @@ describe('malformed multipart', () => {
 describe('download names', () => {
   it('get the extension of the checked type and lose control and bidi characters', async () => {
     const mat = await newMaterial(as(admin));
-    const up = await upload(app.baseUrl, `/api/materials/${mat.id}/sds`, { bytes: pdfBytes(), type: 'application/pdf', filename: 'poly.html', token: admin.token });
+    const up = await upload(app.baseUrl, `/api/materials/${mat.id}/sds`, {
+      bytes: pdfBytes(),
+      type: 'application/pdf',
+      filename: 'poly.html',
+      token: admin.token,
+    });
     expect(up.status).toBe(201);
     const id = up.body.attachment.id as string;
     const meta = await as(admin).get(`/api/attachments/${id}/meta`);
@@ -273,7 +364,12 @@ describe('download names', () => {
 
     // U+202E RIGHT-TO-LEFT OVERRIDE makes "sds\u202Efdp.exe" display as "sdsexe.pdf" (Unicode UAX #9).
     const mat2 = await newMaterial(as(admin));
-    const tricky = await upload(app.baseUrl, `/api/materials/${mat2.id}/sds`, { bytes: pdfBytes(), type: 'application/pdf', filename: 'sds\u202Efdp.exe', token: admin.token });
+    const tricky = await upload(app.baseUrl, `/api/materials/${mat2.id}/sds`, {
+      bytes: pdfBytes(),
+      type: 'application/pdf',
+      filename: 'sds\u202Efdp.exe',
+      token: admin.token,
+    });
     expect(tricky.status, JSON.stringify(tricky.body)).toBe(201);
     const id2 = tricky.body.attachment.id as string;
     const meta2 = await as(admin).get(`/api/attachments/${id2}/meta`);
@@ -282,7 +378,12 @@ describe('download names', () => {
 
   it('clean a name stored before names were cleaned, on the way out', async () => {
     const mat = await newMaterial(as(admin));
-    const up = await upload(app.baseUrl, `/api/materials/${mat.id}/sds`, { bytes: pdfBytes(), type: 'application/pdf', filename: 'x.pdf', token: admin.token });
+    const up = await upload(app.baseUrl, `/api/materials/${mat.id}/sds`, {
+      bytes: pdfBytes(),
+      type: 'application/pdf',
+      filename: 'x.pdf',
+      token: admin.token,
+    });
     const id = up.body.attachment.id as string;
     await db.update(attachments).set({ filename: 'old\u202Elmth.pdf.html\u0001' }).where(eq(attachments.id, id));
     const got = await fetch(`${app.baseUrl}/api/attachments/${id}`, { headers: { authorization: `Bearer ${admin.token}` } });
@@ -304,7 +405,10 @@ describe('Idempotency-Key reused with another body', () => {
     // RFC 4918 §11.2 / IETF draft-ietf-httpapi-idempotency-key-header §2.7: 422 for a key reused with another payload.
     expect(other.status).toBe(422);
     expect(other.body.error.code).toBe('IDEMPOTENCY_KEY_REUSED');
-    const named = await db.select().from(suppliers).where(eq(suppliers.name, `Another supply ${key}`));
+    const named = await db
+      .select()
+      .from(suppliers)
+      .where(eq(suppliers.name, `Another supply ${key}`));
     expect(named).toHaveLength(0);
   });
 });
@@ -332,16 +436,23 @@ describe('sign-in limit and X-Forwarded-For (TACKLOG_TRUST_PROXY)', () => {
     try {
       const statuses: number[] = [];
       for (let i = 1; i <= 6; i++) {
-        const res = await api(limited.baseUrl).post('/api/auth/login', { email: 'nobody-here@tacklog.test', password: 'guess' }, {
-          headers: { 'x-forwarded-for': `203.0.113.${i}` },
-        });
+        const res = await api(limited.baseUrl).post(
+          '/api/auth/login',
+          { email: 'nobody-here@tacklog.test', password: 'guess' },
+          {
+            headers: { 'x-forwarded-for': `203.0.113.${i}` },
+          },
+        );
         statuses.push(res.status);
       }
       return statuses;
     } finally {
       await limited.close();
       await freshDb.closeDb();
-      for (const [name, value] of [['TACKLOG_LOGIN_RATE_LIMIT', saved.limit], ['TACKLOG_TRUST_PROXY', saved.proxy]] as const) {
+      for (const [name, value] of [
+        ['TACKLOG_LOGIN_RATE_LIMIT', saved.limit],
+        ['TACKLOG_TRUST_PROXY', saved.proxy],
+      ] as const) {
         if (value === undefined) delete process.env[name];
         else process.env[name] = value;
       }

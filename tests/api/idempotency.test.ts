@@ -43,7 +43,9 @@ describe('Idempotency-Key', () => {
   it('concurrent repeats run the handler once (the others replay or get 409 IDEMPOTENCY_IN_PROGRESS)', async () => {
     const key = `k-${sfx()}`;
     const before = await batchCount();
-    const results = await Promise.all(Array.from({ length: 8 }, () => as(assembler).post('/api/batches', { modelId, quantity: 2 }, withKey(key))));
+    const results = await Promise.all(
+      Array.from({ length: 8 }, () => as(assembler).post('/api/batches', { modelId, quantity: 2 }, withKey(key))),
+    );
     expect(await batchCount()).toBe(before + 1);
     const created = results.filter((r) => r.status === 201);
     expect(new Set(created.map((r) => r.body.batch.id)).size).toBe(1);
@@ -80,10 +82,14 @@ describe('Idempotency-Key', () => {
   it('a 5xx answer is not kept: the retry runs the handler again', async () => {
     let calls = 0;
     const probe = express();
-    probe.use(express.json(), (req, _res, next) => {
-      req.actor = { id: assembler.id, email: assembler.email, name: assembler.name, roles: assembler.roles };
-      next();
-    }, idempotency);
+    probe.use(
+      express.json(),
+      (req, _res, next) => {
+        req.actor = { id: assembler.id, email: assembler.email, name: assembler.name, roles: assembler.roles };
+        next();
+      },
+      idempotency,
+    );
     probe.post('/api/probe', (_req, res) => {
       calls += 1;
       if (calls === 1) res.status(503).json({ error: { code: 'DOWN', message: 'try again' } });

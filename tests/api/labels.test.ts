@@ -15,7 +15,10 @@ let ids: string[];
 beforeAll(async () => {
   app = await startApp();
   [admin, clerk, quality, assembler] = await Promise.all([
-    ensureUser(['admin']), ensureUser(['receiving']), ensureUser(['quality']), ensureUser(['assembler']),
+    ensureUser(['admin']),
+    ensureUser(['receiving']),
+    ensureUser(['quality']),
+    ensureUser(['assembler']),
   ]);
   const supplier = await newSupplier(as(admin));
   const material = await newMaterial(as(admin), {
@@ -23,7 +26,13 @@ beforeAll(async () => {
     storageClass: 'refrigerated',
     hazards: { signalWord: 'Danger', pictograms: ['GHS05', 'GHS07'], statements: ['H314', 'H317'] },
   });
-  const receipt = await receive(as(clerk), { materialId: material.id, supplierId: supplier.id, supplierLot: 'Q<7>&8', containers: 4, expiresOn: '2031-05-31' });
+  const receipt = await receive(as(clerk), {
+    materialId: material.id,
+    supplierId: supplier.id,
+    supplierLot: 'Q<7>&8',
+    containers: 4,
+    expiresOn: '2031-05-31',
+  });
   lotId = receipt.lot.id;
   codes = receipt.containers.map((c) => c.code);
   ids = receipt.containers.map((c) => c.id);
@@ -70,7 +79,9 @@ describe('label rendering', () => {
     expect((html.match(/<section class="page">/g) ?? []).length).toBe(2);
     expect(html.indexOf(codes[2])).toBeLessThan(html.indexOf(codes[0]));
     expect(html).not.toContain(codes[1]);
-    expect((await as(admin).get(`/api/labels/render?layout=letter-3x10-66-7x25-4&lotId=${lotId}&skip=29`)).body).toContain('size: 215.9mm 279.4mm');
+    expect((await as(admin).get(`/api/labels/render?layout=letter-3x10-66-7x25-4&lotId=${lotId}&skip=29`)).body).toContain(
+      'size: 215.9mm 279.4mm',
+    );
   });
 
   it('401, 403, 400 naming the query field, 404 for unknown records', async () => {

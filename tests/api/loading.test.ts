@@ -7,7 +7,18 @@ import { randomContainerCode } from '../../server/services/receiving/codes';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
 import {
-  createBatch, createLot, createMaterial, createMix, createModel, createStation, createTwoPart, daysAgo, hoursAgo, minutesAgo, sfx, ymd,
+  createBatch,
+  createLot,
+  createMaterial,
+  createMix,
+  createModel,
+  createStation,
+  createTwoPart,
+  daysAgo,
+  hoursAgo,
+  minutesAgo,
+  sfx,
+  ymd,
 } from '../helpers/fixtures';
 
 let app: TestApp;
@@ -29,7 +40,14 @@ beforeAll(async () => {
   epoxy = await createTwoPart({ potLifeMinutes: 30 });
   const model = await createModel({
     steps: [
-      { name: 'Glue spider', stationKind: station.kind, materials: [{ materialId: glue.id, amountPerUnit: 1 }, { materialId: epoxy.resin.id, amountPerUnit: 2 }] },
+      {
+        name: 'Glue spider',
+        stationKind: station.kind,
+        materials: [
+          { materialId: glue.id, amountPerUnit: 1 },
+          { materialId: epoxy.resin.id, amountPerUnit: 2 },
+        ],
+      },
       { name: 'Leads', stationKind: other.kind, materials: [{ materialId: wire.id, amountPerUnit: 0.3 }] },
     ],
   });
@@ -37,7 +55,8 @@ beforeAll(async () => {
 });
 afterAll(() => app.close());
 const as = (u?: TestUser) => api(app.baseUrl, u?.token);
-const load = (body: Record<string, unknown>, stationId = station.id) => as(assembler).post(`/api/stations/${stationId}/load`, { batchId, ...body });
+const load = (body: Record<string, unknown>, stationId = station.id) =>
+  as(assembler).post(`/api/stations/${stationId}/load`, { batchId, ...body });
 
 /** A refusal: 409 with the code, a sentence, and nothing changed. */
 async function refused(code: string, body: Record<string, unknown>, stationId = station.id) {
@@ -67,7 +86,9 @@ describe('loading at a station: access and input', () => {
     expect(none.body.error.details[0].field).toBe('containerCode');
     const both = await load({ containerCode: 'A', mixCode: 'B' });
     expect(both.body.error.details[0].field).toBe('mixCode');
-    expect((await as(assembler).post(`/api/stations/${station.id}/load`, { containerCode: 'A' })).body.error.details[0].field).toBe('batchId');
+    expect((await as(assembler).post(`/api/stations/${station.id}/load`, { containerCode: 'A' })).body.error.details[0].field).toBe(
+      'batchId',
+    );
     const unknown = await load({ containerCode: `NOPE-${sfx()}` });
     expect(unknown.status).toBe(404);
     expect(unknown.body.error.details[0].field).toBe('containerCode');
@@ -96,7 +117,10 @@ describe('loading: accepted', () => {
     expect(result.expiryCause).toBe('open_life');
     expect(Date.parse(result.expiresAt!)).toBe(openedAt + 8 * 3_600_000);
     expect(result.material.hazards.pictograms).toEqual(['GHS07']);
-    const [openAudit] = await db.select().from(auditLog).where(and(eq(auditLog.entityId, lot.containers[0].id), eq(auditLog.action, 'container.open')));
+    const [openAudit] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, lot.containers[0].id), eq(auditLog.action, 'container.open')));
     expect(openAudit.before).toMatchObject({ status: 'sealed', openedAt: null });
 
     const again = loadResultSchema.parse((await load({ containerCode: code })).body);
@@ -125,7 +149,13 @@ describe('loading: accepted', () => {
   it('accepts a mix within its pot life', async () => {
     const r = await createLot({ materialId: epoxy.resin.id, containerStatus: 'open', openedAt: hoursAgo(1) });
     const h = await createLot({ materialId: epoxy.hardener.id, containerStatus: 'open', openedAt: hoursAgo(1) });
-    const mix = await createMix({ stationId: station.id, resinContainerId: r.containers[0].id, hardenerContainerId: h.containers[0].id, mixedAt: minutesAgo(5), potLifeEndsAt: new Date(Date.now() + 25 * 60_000) });
+    const mix = await createMix({
+      stationId: station.id,
+      resinContainerId: r.containers[0].id,
+      hardenerContainerId: h.containers[0].id,
+      mixedAt: minutesAgo(5),
+      potLifeEndsAt: new Date(Date.now() + 25 * 60_000),
+    });
     const res = loadResultSchema.parse((await load({ mixCode: mix.code })).body);
     expect(res.mix?.code).toBe(mix.code);
     expect(res.expiryCause).toBe('pot_life');
@@ -157,7 +187,11 @@ describe('loading: every refusal reason (409, nothing changes)', () => {
   });
 
   it('LOT_ON_HOLD, LOT_QUARANTINED, LOT_REJECTED', async () => {
-    for (const [status, code] of [['on_hold', 'LOT_ON_HOLD'], ['quarantined', 'LOT_QUARANTINED'], ['rejected', 'LOT_REJECTED']] as const) {
+    for (const [status, code] of [
+      ['on_hold', 'LOT_ON_HOLD'],
+      ['quarantined', 'LOT_QUARANTINED'],
+      ['rejected', 'LOT_REJECTED'],
+    ] as const) {
       const lot = await createLot({ materialId: glue.id, status });
       const err = await refused(code, { containerCode: lot.containers[0].code });
       expect(err.message).toContain(lot.supplierLot);
@@ -185,7 +219,13 @@ describe('loading: every refusal reason (409, nothing changes)', () => {
   it('POT_LIFE_EXCEEDED for a mix past its pot life', async () => {
     const r = await createLot({ materialId: epoxy.resin.id, containerStatus: 'open', openedAt: hoursAgo(2) });
     const h = await createLot({ materialId: epoxy.hardener.id, containerStatus: 'open', openedAt: hoursAgo(2) });
-    const mix = await createMix({ stationId: station.id, resinContainerId: r.containers[0].id, hardenerContainerId: h.containers[0].id, mixedAt: minutesAgo(45), potLifeEndsAt: minutesAgo(15) });
+    const mix = await createMix({
+      stationId: station.id,
+      resinContainerId: r.containers[0].id,
+      hardenerContainerId: h.containers[0].id,
+      mixedAt: minutesAgo(45),
+      potLifeEndsAt: minutesAgo(15),
+    });
     await refused('POT_LIFE_EXCEEDED', { mixCode: mix.code });
     expect(await db.select().from(stationLoads).where(eq(stationLoads.mixId, mix.id))).toHaveLength(0);
   });
@@ -201,7 +241,10 @@ describe('loading: every refusal reason (409, nothing changes)', () => {
     const retired = await createStation({ kind: station.kind, active: false });
     const lot = await createLot({ materialId: glue.id });
     await refused('STATION_RETIRED', { containerCode: lot.containers[0].code }, retired.id);
-    const closed = await createBatch({ modelId: (await createModel({ steps: [{ stationKind: station.kind, materials: [{ materialId: glue.id, amountPerUnit: 1 }] }] })).id, status: 'completed' });
+    const closed = await createBatch({
+      modelId: (await createModel({ steps: [{ stationKind: station.kind, materials: [{ materialId: glue.id, amountPerUnit: 1 }] }] })).id,
+      status: 'completed',
+    });
     const res = await as(assembler).post(`/api/stations/${station.id}/load`, { batchId: closed.id, containerCode: lot.containers[0].code });
     expect(res.status).toBe(409);
     expect(res.body.error.code).toBe('BATCH_CLOSED');

@@ -19,7 +19,11 @@ let purchasing: TestUser;
 beforeAll(async () => {
   app = await startApp();
   [admin, clerk, quality, assembler, purchasing] = await Promise.all([
-    ensureUser(['admin']), ensureUser(['receiving']), ensureUser(['quality']), ensureUser(['assembler']), ensureUser(['purchasing']),
+    ensureUser(['admin']),
+    ensureUser(['receiving']),
+    ensureUser(['quality']),
+    ensureUser(['assembler']),
+    ensureUser(['purchasing']),
   ]);
 });
 afterAll(() => app.close());
@@ -69,7 +73,11 @@ describe('lot status', () => {
       expect(final.body.error.code).toBe('INVALID_TRANSITION');
     }
 
-    const entries = await db.select().from(auditLog).where(and(eq(auditLog.entityId, lot.id), eq(auditLog.action, 'lot.status'))).orderBy(auditLog.id);
+    const entries = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, lot.id), eq(auditLog.action, 'lot.status')))
+      .orderBy(auditLog.id);
     expect(entries.map((e) => [(e.before as { status: string }).status, (e.after as { status: string }).status, e.reason])).toEqual([
       ['on_hold', 'released', null],
       ['released', 'quarantined', 'Supplier notice: viscosity drift'],
@@ -128,7 +136,15 @@ describe('lot list', () => {
     const tag = uniq();
     const received = [];
     for (const [i, expiresOn] of [ymdOffset(40), ymdOffset(5), null, ymdOffset(400)].entries()) {
-      received.push(await receive(as(clerk), { materialId: material.id, supplierId: supplier.id, supplierLot: `LS-${tag}-${i}`, expiresOn, containers: i + 1 }));
+      received.push(
+        await receive(as(clerk), {
+          materialId: material.id,
+          supplierId: supplier.id,
+          supplierLot: `LS-${tag}-${i}`,
+          expiresOn,
+          containers: i + 1,
+        }),
+      );
     }
     await as(quality).post(`/api/lots/${received[1].lot.id}/status`, { status: 'released' });
 
@@ -139,9 +155,19 @@ describe('lot list', () => {
     expect(all.items.map((i) => i.supplierLot)).toEqual([1, 0, 2, 3].map((i) => `LS-${tag}-${i}`));
     const times = all.items.map((i) => Date.parse(i.effectiveExpiry ?? ''));
     expect([...times].sort((a, b) => a - b)).toEqual(times);
-    expect(all.items[0]).toMatchObject({ materialCode: material.code, materialName: material.name, supplierName: supplier.name, containerCount: 2, activeContainerCount: 2, remaining: 500, materialUnit: 'g' });
+    expect(all.items[0]).toMatchObject({
+      materialCode: material.code,
+      materialName: material.name,
+      supplierName: supplier.name,
+      containerCount: 2,
+      activeContainerCount: 2,
+      remaining: 500,
+      materialUnit: 'g',
+    });
 
-    const page = lotPageSchema.parse((await as(assembler).get(`/api/lots?materialId=${material.id}&sort=supplierLot&dir=desc&limit=2&offset=1`)).body);
+    const page = lotPageSchema.parse(
+      (await as(assembler).get(`/api/lots?materialId=${material.id}&sort=supplierLot&dir=desc&limit=2&offset=1`)).body,
+    );
     expect(page.total).toBe(4);
     expect(page.items.map((i) => i.supplierLot)).toEqual([`LS-${tag}-2`, `LS-${tag}-1`]);
     const held = (await as(assembler).get(`/api/lots?materialId=${material.id}&status=on_hold`)).body;
@@ -161,7 +187,13 @@ describe('lot list', () => {
     const byMaterial = (await as(assembler).get(`/api/lots?supplierId=${supplier.id}&sort=material&dir=asc`)).body;
     expect(byMaterial.total).toBe(4);
 
-    for (const [query, field] of [['sort=colour', 'query.sort'], ['limit=0', 'query.limit'], ['status=lost', 'query.status.0'], ['materialId=7', 'query.materialId'], ['expiringWithinDays=-1', 'query.expiringWithinDays']]) {
+    for (const [query, field] of [
+      ['sort=colour', 'query.sort'],
+      ['limit=0', 'query.limit'],
+      ['status=lost', 'query.status.0'],
+      ['materialId=7', 'query.materialId'],
+      ['expiringWithinDays=-1', 'query.expiringWithinDays'],
+    ]) {
       const bad = await as(assembler).get(`/api/lots?${query}`);
       expect(bad.status, query).toBe(400);
       expect(fields(bad.body), query).toEqual([field]);
@@ -178,17 +210,38 @@ describe('lot list', () => {
       { shelf: null, mfg: null, exp: null, at: '2026-02-01T00:00:00.000Z' },
       { shelf: 1, mfg: null, exp: null, at: '2026-11-01T05:30:00.000Z' }, // US DST ends 2026-11-01
     ];
-    const made: { id: string; material: { shelfLifeDays: number | null }; lot: { receivedAt: string; manufacturedOn: string | null; expiresOn: string | null } }[] = [];
+    const made: {
+      id: string;
+      material: { shelfLifeDays: number | null };
+      lot: { receivedAt: string; manufacturedOn: string | null; expiresOn: string | null };
+    }[] = [];
     for (const c of cases) {
       const material = await newMaterial(as(admin), { shelfLifeDays: c.shelf });
-      const { lot } = await receive(as(clerk), { materialId: material.id, supplierId: supplier.id, manufacturedOn: c.mfg, expiresOn: c.exp, receivedAt: c.at, containers: 1 });
+      const { lot } = await receive(as(clerk), {
+        materialId: material.id,
+        supplierId: supplier.id,
+        manufacturedOn: c.mfg,
+        expiresOn: c.exp,
+        receivedAt: c.at,
+        containers: 1,
+      });
       made.push({ id: lot.id, material, lot });
     }
     for (const zone of ['UTC', 'Europe/Berlin', 'America/New_York', 'Pacific/Auckland', 'Asia/Kolkata']) {
-      const fromSql = await sqlLotExpiries(made.map((m) => m.id), zone);
+      const fromSql = await sqlLotExpiries(
+        made.map((m) => m.id),
+        zone,
+      );
       for (const m of made) {
         const expected = lotExpiry(
-          { shelfLifeDays: m.material.shelfLifeDays, openLifeHours: null, thawedLifeHours: null, outOfStorageAllowanceHours: null, potLifeMinutes: null, storageClass: 'ambient' },
+          {
+            shelfLifeDays: m.material.shelfLifeDays,
+            openLifeHours: null,
+            thawedLifeHours: null,
+            outOfStorageAllowanceHours: null,
+            potLifeMinutes: null,
+            storageClass: 'ambient',
+          },
           m.lot,
           zone,
         );
@@ -219,7 +272,12 @@ describe('lot detail and FEFO', () => {
     const late = await receive(as(clerk), { materialId: material.id, supplierId: supplier.id, expiresOn: ymdOffset(90), containers: 1 });
     const early = await receive(as(clerk), { materialId: material.id, supplierId: supplier.id, expiresOn: ymdOffset(10), containers: 2 });
     const expired = await receive(as(clerk), { materialId: material.id, supplierId: supplier.id, expiresOn: ymdOffset(-1), containers: 1 });
-    const quarantined = await receive(as(clerk), { materialId: material.id, supplierId: supplier.id, expiresOn: ymdOffset(3), containers: 1 });
+    const quarantined = await receive(as(clerk), {
+      materialId: material.id,
+      supplierId: supplier.id,
+      expiresOn: ymdOffset(3),
+      containers: 1,
+    });
     await as(quality).post(`/api/lots/${quarantined.lot.id}/status`, { status: 'quarantined', reason: 'Suspect' });
     await db.update(containers).set({ status: 'empty', remaining: '0' }).where(eq(containers.id, early.containers[1].id));
 
@@ -227,7 +285,10 @@ describe('lot detail and FEFO', () => {
     const first = fefoResultSchema.parse((await as(assembler).get(`/api/materials/${material.id}/fefo`)).body);
     expect(first.items.map((c) => c.id)).toEqual([early.containers[0].id, late.containers[0].id]);
     expect(first.items.map((c) => c.id)).not.toContain(expired.containers[0].id);
-    expect(first).toMatchObject({ nextReason: 'earliest_expiry', next: { id: early.containers[0].id, supplierLot: early.lot.supplierLot } });
+    expect(first).toMatchObject({
+      nextReason: 'earliest_expiry',
+      next: { id: early.containers[0].id, supplierLot: early.lot.supplierLot },
+    });
 
     await as(assembler).post(`/api/containers/${late.containers[0].id}/open`);
     const second = fefoResultSchema.parse((await as(assembler).get(`/api/materials/${material.id}/fefo`)).body);

@@ -27,7 +27,13 @@ afterEach(() => {
 });
 
 async function queueOne(to: string) {
-  const id = await queueEmail(db, { kind: 'other', to: [to], subject: `Outbox test ${sfx()}`, text: 'Plain part.', html: '<p>HTML part.</p>' });
+  const id = await queueEmail(db, {
+    kind: 'other',
+    to: [to],
+    subject: `Outbox test ${sfx()}`,
+    text: 'Plain part.',
+    html: '<p>HTML part.</p>',
+  });
   if (!id) throw new Error('not queued');
   return id;
 }

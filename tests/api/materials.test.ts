@@ -78,24 +78,42 @@ describe('materials: create, read, edit, retire', () => {
     const code = `ADH-${uniq()}`;
     const gtin = randomGtin();
     const res = await as(admin).post('/api/materials', {
-      code, name: 'Cyanoacrylate, medium', kind: 'adhesive', unit: 'g', storageClass: 'refrigerated',
-      shelfLifeDays: 300, openLifeHours: 720, outOfStorageAllowanceHours: 72,
+      code,
+      name: 'Cyanoacrylate, medium',
+      kind: 'adhesive',
+      unit: 'g',
+      storageClass: 'refrigerated',
+      shelfLifeDays: 300,
+      openLifeHours: 720,
+      outOfStorageAllowanceHours: 72,
       cure: { refTempC: 22, handlingMinutes: 1, fullCureMinutes: 1440, activationEnergyKJ: 51.2 },
       requiresInspection: true,
       hazards: { signalWord: 'Warning', pictograms: ['GHS07'], statements: ['h315', 'H319', 'EUH202'] },
-      reorderPoint: 400.5, orderQuantity: 1000, leadTimeDays: 10,
+      reorderPoint: 400.5,
+      orderQuantity: 1000,
+      leadTimeDays: 10,
       gtin: gtin.slice(1), // as a GTIN-13: kept as its 14-digit form
-
     });
     expect(res.status).toBe(201);
     const m = materialSchema.parse(res.body);
     expect(m).toMatchObject({
-      code, storageClass: 'refrigerated', shelfLifeDays: 300, openLifeHours: 720, outOfStorageAllowanceHours: 72,
-      reorderPoint: 400.5, orderQuantity: 1000, leadTimeDays: 10, active: true, gtin,
+      code,
+      storageClass: 'refrigerated',
+      shelfLifeDays: 300,
+      openLifeHours: 720,
+      outOfStorageAllowanceHours: 72,
+      reorderPoint: 400.5,
+      orderQuantity: 1000,
+      leadTimeDays: 10,
+      active: true,
+      gtin,
       hazards: { signalWord: 'Warning', pictograms: ['GHS07'], statements: ['H315', 'H319', 'EUH202'] },
     });
     expect(typeof m.reorderPoint).toBe('number');
-    const audit = await db.select().from(auditLog).where(and(eq(auditLog.entityId, m.id), eq(auditLog.action, 'material.create')));
+    const audit = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, m.id), eq(auditLog.action, 'material.create')));
     expect(audit).toHaveLength(1);
     expect(audit[0].after).toMatchObject({ code, reorderPoint: 400.5 });
 
@@ -121,11 +139,18 @@ describe('materials: create, read, edit, retire', () => {
     const ok = await as(admin).patch(`/api/materials/${m.id}`, { storageClass: 'frozen', thawedLifeHours: 4, shelfLifeDays: 180 });
     expect(ok.status).toBe(200);
     expect(ok.body).toMatchObject({ storageClass: 'frozen', thawedLifeHours: 4, shelfLifeDays: 180, name: m.name });
-    const [audit] = await db.select().from(auditLog).where(and(eq(auditLog.entityId, m.id), eq(auditLog.action, 'material.update')));
+    const [audit] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, m.id), eq(auditLog.action, 'material.update')));
     expect(audit.before).toMatchObject({ storageClass: 'ambient', shelfLifeDays: 365, thawedLifeHours: null });
     expect(audit.after).toMatchObject({ storageClass: 'frozen', shelfLifeDays: 180, thawedLifeHours: 4 });
     expect((await as(admin).patch(`/api/materials/${m.id}`, {})).status).toBe(400);
-    const cleared = await as(admin).patch(`/api/materials/${m.id}`, { storageClass: 'ambient', thawedLifeHours: null, shelfLifeDays: null });
+    const cleared = await as(admin).patch(`/api/materials/${m.id}`, {
+      storageClass: 'ambient',
+      thawedLifeHours: null,
+      shelfLifeDays: null,
+    });
     expect(cleared.status).toBe(200);
     expect(cleared.body).toMatchObject({ storageClass: 'ambient', thawedLifeHours: null, shelfLifeDays: null });
   });
@@ -139,7 +164,12 @@ describe('materials: create, read, edit, retire', () => {
     expect(active).not.toContain(m.id);
     const retired = (await as(receiving).get('/api/materials?active=false')).body.items.map((i: { id: string }) => i.id);
     expect(retired).toContain(m.id);
-    expect(await db.select().from(auditLog).where(and(eq(auditLog.entityId, m.id), eq(auditLog.action, 'material.retire')))).toHaveLength(1);
+    expect(
+      await db
+        .select()
+        .from(auditLog)
+        .where(and(eq(auditLog.entityId, m.id), eq(auditLog.action, 'material.retire'))),
+    ).toHaveLength(1);
     const back = await as(admin).patch(`/api/materials/${m.id}`, { active: true });
     expect(back.body.active).toBe(true);
   });
@@ -153,16 +183,34 @@ describe('materials: two-part pairs', () => {
     expect((await as(admin).get(`/api/materials/${hardener.id}`)).body.partnerMaterialId).toBe(resin.id);
 
     const wire = await newMaterial(as(admin), { kind: 'wire', unit: 'm' });
-    const wrongKind = await as(admin).post('/api/materials', { code: `A-${uniq()}`, name: 'Resin', kind: 'adhesive', unit: 'g', partnerMaterialId: wire.id });
+    const wrongKind = await as(admin).post('/api/materials', {
+      code: `A-${uniq()}`,
+      name: 'Resin',
+      kind: 'adhesive',
+      unit: 'g',
+      partnerMaterialId: wire.id,
+    });
     expect(wrongKind.status).toBe(400);
     expect(fields(wrongKind.body)).toEqual(['partnerMaterialId']);
-    const missing = await as(admin).post('/api/materials', { code: `A-${uniq()}`, name: 'Resin', kind: 'adhesive', unit: 'g', partnerMaterialId: crypto.randomUUID() });
+    const missing = await as(admin).post('/api/materials', {
+      code: `A-${uniq()}`,
+      name: 'Resin',
+      kind: 'adhesive',
+      unit: 'g',
+      partnerMaterialId: crypto.randomUUID(),
+    });
     expect(missing.status).toBe(400);
     expect(fields(missing.body)).toEqual(['partnerMaterialId']);
     const self = await as(admin).patch(`/api/materials/${resin.id}`, { partnerMaterialId: resin.id });
     expect(self.status).toBe(400);
     expect(fields(self.body)).toEqual(['partnerMaterialId']);
-    const taken = await as(admin).post('/api/materials', { code: `A-${uniq()}`, name: 'Second resin', kind: 'adhesive', unit: 'g', partnerMaterialId: hardener.id });
+    const taken = await as(admin).post('/api/materials', {
+      code: `A-${uniq()}`,
+      name: 'Second resin',
+      kind: 'adhesive',
+      unit: 'g',
+      partnerMaterialId: hardener.id,
+    });
     expect(taken.status).toBe(409);
     expect(taken.body.error.code).toBe('PARTNER_TAKEN');
   });
@@ -183,7 +231,10 @@ describe('materials: two-part pairs', () => {
     expect(moved.status).toBe(200);
     expect((await as(admin).get(`/api/materials/${hardener.id}`)).body.partnerMaterialId).toBeNull();
     expect((await as(admin).get(`/api/materials/${activator.id}`)).body.partnerMaterialId).toBe(resin.id);
-    const relinks = await db.select().from(auditLog).where(and(eq(auditLog.entityId, hardener.id), eq(auditLog.action, 'material.partner')));
+    const relinks = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, hardener.id), eq(auditLog.action, 'material.partner')));
     expect(relinks.at(-1)?.after).toEqual({ partnerMaterialId: null });
   });
 });

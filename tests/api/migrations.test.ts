@@ -61,7 +61,9 @@ describe('migrations on an empty database', () => {
         [name],
       );
       expect(columns.length, `table ${name}`).toBeGreaterThan(0);
-      const declared = getTableConfig(table).columns.map((c) => c.name).sort();
+      const declared = getTableConfig(table)
+        .columns.map((c) => c.name)
+        .sort();
       expect(columns.map((c) => c.column_name).sort(), `columns of ${name}`).toEqual(declared);
     }
   });
@@ -73,16 +75,23 @@ describe('migrations on an empty database', () => {
         'SELECT e.enumlabel FROM pg_enum e JOIN pg_type t ON t.oid = e.enumtypid WHERE t.typname = $1 ORDER BY e.enumsortorder',
         [e.enumName],
       );
-      expect(labels.map((l) => l.enumlabel), `enum ${e.enumName}`).toEqual([...e.enumValues]);
+      expect(
+        labels.map((l) => l.enumlabel),
+        `enum ${e.enumName}`,
+      ).toEqual([...e.enumValues]);
     }
   });
 
   it('running them again is a no-op that keeps the data', async () => {
     await client.query("INSERT INTO users (email, name, password_hash) VALUES ('keep@tacklog.test', 'Keep Me', 'x')");
-    const before = await rows<{ table_name: string }>("SELECT table_name FROM information_schema.tables WHERE table_schema = 'public' ORDER BY 1");
+    const before = await rows<{ table_name: string }>(
+      "SELECT table_name FROM information_schema.tables WHERE table_schema = 'public' ORDER BY 1",
+    );
     await runMigrations(scratch.url);
     expect(await appliedMigrations()).toBe(journal.entries.length);
-    const after = await rows<{ table_name: string }>("SELECT table_name FROM information_schema.tables WHERE table_schema = 'public' ORDER BY 1");
+    const after = await rows<{ table_name: string }>(
+      "SELECT table_name FROM information_schema.tables WHERE table_schema = 'public' ORDER BY 1",
+    );
     expect(after).toEqual(before);
     const kept = await rows<{ email: string }>('SELECT email FROM users');
     expect(kept).toEqual([{ email: 'keep@tacklog.test' }]);

@@ -24,7 +24,12 @@ const as = (u?: TestUser) => api(app.baseUrl, u?.token);
 async function parts(resinQty = 100, hardenerQty = 50) {
   const r = await createLot({ materialId: epoxy.resin.id, quantity: resinQty });
   const h = await createLot({ materialId: epoxy.hardener.id, quantity: hardenerQty });
-  return { resinCode: r.containers[0].code, hardenerCode: h.containers[0].code, resinId: r.containers[0].id, hardenerId: h.containers[0].id };
+  return {
+    resinCode: r.containers[0].code,
+    hardenerCode: h.containers[0].code,
+    resinId: r.containers[0].id,
+    hardenerId: h.containers[0].id,
+  };
 }
 const remaining = async (id: string) => (await db.select().from(containers).where(eq(containers.id, id)))[0];
 
@@ -38,17 +43,24 @@ describe('two-part mixes', () => {
     const bad = await as(assembler).post(`/api/stations/${st.id}/mixes`, { ...body, hardenerQuantity: -1 });
     expect(bad.status).toBe(400);
     expect(bad.body.error.details[0].field).toBe('hardenerQuantity');
-    expect((await as(assembler).post(`/api/stations/${st.id}/mixes`, { ...body, resinCode: '' })).body.error.details[0].field).toBe('resinCode');
+    expect((await as(assembler).post(`/api/stations/${st.id}/mixes`, { ...body, resinCode: '' })).body.error.details[0].field).toBe(
+      'resinCode',
+    );
     expect((await as(assembler).post(`/api/stations/${st.id}/mixes`, { ...body, resinCode: 'NO-SUCH' })).status).toBe(404);
     expect((await remaining(p.resinId)).remaining).toBe('100.000');
   });
 
-  it('at 35 °C the 30-minute pot life (25 °C) is 15 minutes — each +10 °C halves it (adhesive makers\' technical guidance; common practice)', async () => {
+  it("at 35 °C the 30-minute pot life (25 °C) is 15 minutes — each +10 °C halves it (adhesive makers' technical guidance; common practice)", async () => {
     const st = await createStation();
     await createReading(st.area, minutesAgo(20), 35);
     const p = await parts();
     const t0 = Date.now();
-    const res = await as(assembler).post(`/api/stations/${st.id}/mixes`, { resinCode: p.resinCode, hardenerCode: p.hardenerCode, resinQuantity: 20, hardenerQuantity: 10 });
+    const res = await as(assembler).post(`/api/stations/${st.id}/mixes`, {
+      resinCode: p.resinCode,
+      hardenerCode: p.hardenerCode,
+      resinQuantity: 20,
+      hardenerQuantity: 10,
+    });
     expect(res.status).toBe(201);
     const { mix, temperature } = mixResultSchema.parse(res.body);
     expect(temperature).toMatchObject({ tempC: 35, source: 'reading', potLifeMinutes: 15, referencePotLifeMinutes: 30, area: st.area });
@@ -73,7 +85,16 @@ describe('two-part mixes', () => {
     const st = await createStation();
     await createReading(st.area, hoursAgo(6), 15); // too old to stand for the temperature now
     const p = await parts();
-    const res = mixResultSchema.parse((await as(assembler).post(`/api/stations/${st.id}/mixes`, { resinCode: p.resinCode, hardenerCode: p.hardenerCode, resinQuantity: 2, hardenerQuantity: 1 })).body);
+    const res = mixResultSchema.parse(
+      (
+        await as(assembler).post(`/api/stations/${st.id}/mixes`, {
+          resinCode: p.resinCode,
+          hardenerCode: p.hardenerCode,
+          resinQuantity: 2,
+          hardenerQuantity: 1,
+        })
+      ).body,
+    );
     expect(res.temperature).toMatchObject({ tempC: 25, source: 'reference', readingAt: null, potLifeMinutes: 30 });
     expect(Date.parse(res.mix.potLifeEndsAt) - Date.parse(res.mix.mixedAt)).toBe(30 * 60_000);
   });
@@ -83,16 +104,31 @@ describe('two-part mixes', () => {
     const p = await parts(10, 10);
     const stranger = await createMaterial({ name: 'Unrelated hardener', kind: 'hardener' });
     const s = await createLot({ materialId: stranger.id });
-    const notPartners = await as(assembler).post(`/api/stations/${st.id}/mixes`, { resinCode: p.resinCode, hardenerCode: s.containers[0].code, resinQuantity: 2, hardenerQuantity: 1 });
+    const notPartners = await as(assembler).post(`/api/stations/${st.id}/mixes`, {
+      resinCode: p.resinCode,
+      hardenerCode: s.containers[0].code,
+      resinQuantity: 2,
+      hardenerQuantity: 1,
+    });
     expect(notPartners.status).toBe(409);
     expect(notPartners.body.error.code).toBe('NOT_MIX_PARTNERS');
     expect(notPartners.body.error.message).toContain(stranger.name);
 
     const held = await createLot({ materialId: epoxy.hardener.id, status: 'on_hold', quantity: 10 });
-    const onHold = await as(assembler).post(`/api/stations/${st.id}/mixes`, { resinCode: p.resinCode, hardenerCode: held.containers[0].code, resinQuantity: 2, hardenerQuantity: 1 });
+    const onHold = await as(assembler).post(`/api/stations/${st.id}/mixes`, {
+      resinCode: p.resinCode,
+      hardenerCode: held.containers[0].code,
+      resinQuantity: 2,
+      hardenerQuantity: 1,
+    });
     expect(onHold.body.error.code).toBe('LOT_ON_HOLD');
 
-    const tooMuch = await as(assembler).post(`/api/stations/${st.id}/mixes`, { resinCode: p.resinCode, hardenerCode: p.hardenerCode, resinQuantity: 12, hardenerQuantity: 1 });
+    const tooMuch = await as(assembler).post(`/api/stations/${st.id}/mixes`, {
+      resinCode: p.resinCode,
+      hardenerCode: p.hardenerCode,
+      resinQuantity: 12,
+      hardenerQuantity: 1,
+    });
     expect(tooMuch.status).toBe(409);
     expect(tooMuch.body.error.code).toBe('INSUFFICIENT_STOCK');
 
@@ -106,7 +142,16 @@ describe('two-part mixes', () => {
   it('scanning a mix code resolves the mix with its pot-life end', async () => {
     const st = await createStation();
     const p = await parts();
-    const made = mixResultSchema.parse((await as(assembler).post(`/api/stations/${st.id}/mixes`, { resinCode: p.resinCode, hardenerCode: p.hardenerCode, resinQuantity: 2, hardenerQuantity: 1 })).body);
+    const made = mixResultSchema.parse(
+      (
+        await as(assembler).post(`/api/stations/${st.id}/mixes`, {
+          resinCode: p.resinCode,
+          hardenerCode: p.hardenerCode,
+          resinQuantity: 2,
+          hardenerQuantity: 1,
+        })
+      ).body,
+    );
     const res = await as(quality).post('/api/scans/resolve', { code: made.mix.code });
     expect(res.status).toBe(200);
     const scanned = mixScanResultSchema.parse(res.body);

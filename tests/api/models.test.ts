@@ -31,7 +31,15 @@ function body(code = `W${sfx()}`) {
     name: 'Test woofer 12 in',
     steps: [
       { name: 'Spider and cone', stationKind: kindA, materials: [{ materialId: glueId, amountPerUnit: 1.5 }], waitForCure: false },
-      { name: 'Dust cap', stationKind: kindB, materials: [{ materialId: glueId, amountPerUnit: 0.4 }, { materialId: capId, amountPerUnit: 1 }], waitForCure: true },
+      {
+        name: 'Dust cap',
+        stationKind: kindB,
+        materials: [
+          { materialId: glueId, amountPerUnit: 0.4 },
+          { materialId: capId, amountPerUnit: 1 },
+        ],
+        waitForCure: true,
+      },
     ],
   };
 }
@@ -72,9 +80,17 @@ describe('driver models', () => {
     expect(res.status).toBe(201);
     const model = driverModelSchema.parse(res.body);
     expect(model.code).toBe(b.code);
-    expect(model.steps.map((s) => [s.seq, s.name, s.waitForCure])).toEqual([[1, 'Spider and cone', false], [2, 'Dust cap', true]]);
+    expect(model.steps.map((s) => [s.seq, s.name, s.waitForCure])).toEqual([
+      [1, 'Spider and cone', false],
+      [2, 'Dust cap', true],
+    ]);
     expect(model.steps[1].materials).toHaveLength(2);
-    expect(model.steps[1].materials).toEqual(expect.arrayContaining([{ materialId: glueId, amountPerUnit: 0.4 }, { materialId: capId, amountPerUnit: 1 }]));
+    expect(model.steps[1].materials).toEqual(
+      expect.arrayContaining([
+        { materialId: glueId, amountPerUnit: 0.4 },
+        { materialId: capId, amountPerUnit: 1 },
+      ]),
+    );
     expect(model.inUse).toBe(false);
     const list = await as(assembler).get('/api/models');
     expect(list.body.items.some((m: { id: string }) => m.id === model.id)).toBe(true);
@@ -85,10 +101,22 @@ describe('driver models', () => {
 
   it('uses explicit seq values when given and orders by them', async () => {
     const b = body();
-    const res = await as(admin).post('/api/models', { ...b, steps: [{ ...b.steps[1], seq: 20 }, { ...b.steps[0], seq: 10 }] });
+    const res = await as(admin).post('/api/models', {
+      ...b,
+      steps: [
+        { ...b.steps[1], seq: 20 },
+        { ...b.steps[0], seq: 10 },
+      ],
+    });
     expect(res.status).toBe(201);
     expect(res.body.steps.map((s: { seq: number; name: string }) => `${s.seq}:${s.name}`)).toEqual(['10:Spider and cone', '20:Dust cap']);
-    const clash = await as(admin).post('/api/models', { ...body(), steps: [{ ...b.steps[0], seq: 1 }, { ...b.steps[1], seq: 1 }] });
+    const clash = await as(admin).post('/api/models', {
+      ...body(),
+      steps: [
+        { ...b.steps[0], seq: 1 },
+        { ...b.steps[1], seq: 1 },
+      ],
+    });
     expect(fields(clash)).toContain('steps.1.seq');
   });
 
@@ -99,7 +127,10 @@ describe('driver models', () => {
     expect(res.status).toBe(200);
     expect(res.body.name).toBe('Renamed woofer');
     expect(res.body.steps.map((s: { name: string }) => s.name)).toEqual(['Only step']);
-    const [audit] = await db.select().from(auditLog).where(and(eq(auditLog.entityId, model.id), eq(auditLog.action, 'model.update')));
+    const [audit] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, model.id), eq(auditLog.action, 'model.update')));
     expect((audit.before as { steps: unknown[] }).steps).toHaveLength(2);
     expect((audit.after as { steps: unknown[] }).steps).toHaveLength(1);
 

@@ -25,7 +25,14 @@ const run = sfx().toLowerCase();
 const person = (roles: Parameters<typeof ensureUser>[0], label: string) =>
   ensureUser(roles, { email: `mail-${label}-${run}@tacklog.test`, name: `Mail ${label} ${run}` });
 
-let admin: TestUser, qAtOnce: TestUser, qNone: TestUser, qDigest: TestUser, assembler: TestUser, receiving: TestUser, adminOptIn: TestUser, buyer: TestUser;
+let admin: TestUser,
+  qAtOnce: TestUser,
+  qNone: TestUser,
+  qDigest: TestUser,
+  assembler: TestUser,
+  receiving: TestUser,
+  adminOptIn: TestUser,
+  buyer: TestUser;
 
 beforeAll(async () => {
   app = await startApp();
@@ -54,10 +61,15 @@ describe('notification settings', () => {
     const res = await api(app.baseUrl, qAtOnce.token).get('/api/me/notifications');
     expect(res.status).toBe(200);
     expect(res.body.kinds).toEqual({
-      pot_life_exceeded: 'immediate', short_cure: 'immediate', expired_in_stock: 'immediate',
-      expiring_soon: 'digest', quarantine_advised: 'digest', below_reorder_point: 'none',
+      pot_life_exceeded: 'immediate',
+      short_cure: 'immediate',
+      expired_in_stock: 'immediate',
+      expiring_soon: 'digest',
+      quarantine_advised: 'digest',
+      below_reorder_point: 'none',
       audit_chain_broken: 'immediate',
-      lamp_check_due: 'digest', humidity_out_of_window: 'digest',
+      lamp_check_due: 'digest',
+      humidity_out_of_window: 'digest',
     });
     expect(res.body.available).not.toContain('below_reorder_point');
     expect(res.body.whenResolved).toBe(false);
@@ -88,21 +100,26 @@ describe('notification settings', () => {
     expect((await q.get('/api/me/notifications')).body.chosen).toEqual({});
   });
 
-  it('save a user\'s own choices and audit the change', async () => {
+  it("save a user's own choices and audit the change", async () => {
     const res = await api(app.baseUrl, qNone.token).put('/api/me/notifications', { kinds: { pot_life_exceeded: 'none' } });
     expect(res.status).toBe(200);
     expect(res.body.kinds.pot_life_exceeded).toBe('none');
     expect(res.body.kinds.short_cure).toBe('immediate');
     expect(res.body.chosen).toEqual({ pot_life_exceeded: 'none' });
-    const [entry] = await db.select().from(auditLog).where(and(eq(auditLog.action, 'notifications.change'), eq(auditLog.entityId, qNone.id)));
+    const [entry] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.action, 'notifications.change'), eq(auditLog.entityId, qNone.id)));
     expect(entry.actorId).toBe(qNone.id);
     expect(entry.before).toEqual({ modes: {}, whenResolved: false });
     expect(entry.after).toEqual({ modes: { pot_life_exceeded: 'none' }, whenResolved: false });
-    expect((await api(app.baseUrl, qDigest.token).put('/api/me/notifications', { kinds: { pot_life_exceeded: 'digest' } })).status).toBe(200);
+    expect((await api(app.baseUrl, qDigest.token).put('/api/me/notifications', { kinds: { pot_life_exceeded: 'digest' } })).status).toBe(
+      200,
+    );
     expect((await api(app.baseUrl, assembler.token).put('/api/me/notifications', { kinds: {}, whenResolved: true })).status).toBe(200);
   });
 
-  it('an administrator sees and changes anyone\'s; others may not', async () => {
+  it("an administrator sees and changes anyone's; others may not", async () => {
     const path = `/api/users/${adminOptIn.id}/notifications`;
     expect((await api(app.baseUrl, qAtOnce.token).get(path)).status).toBe(403);
     expect((await api(app.baseUrl, qAtOnce.token).put(path, { kinds: {} })).status).toBe(403);
@@ -114,7 +131,10 @@ describe('notification settings', () => {
     const set = await api(app.baseUrl, admin.token).put(path, { kinds: { pot_life_exceeded: 'immediate' } });
     expect(set.status).toBe(200);
     expect(set.body.kinds.pot_life_exceeded).toBe('immediate');
-    const [entry] = await db.select().from(auditLog).where(and(eq(auditLog.action, 'notifications.change'), eq(auditLog.entityId, adminOptIn.id)));
+    const [entry] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.action, 'notifications.change'), eq(auditLog.entityId, adminOptIn.id)));
     expect(entry.actorId).toBe(admin.id);
   });
 });
@@ -132,21 +152,30 @@ describe('alert e-mails', () => {
     const batch = await createBatch({ modelId: model.id, quantity: 50 });
     const { createMix } = await import('../helpers/fixtures');
     const mix = await createMix({
-      stationId: station.id, resinContainerId: resinLot.containers[0].id, hardenerContainerId: hardLot.containers[0].id,
-      mixedAt: minutesAgo(45), potLifeEndsAt: minutesAgo(15),
+      stationId: station.id,
+      resinContainerId: resinLot.containers[0].id,
+      hardenerContainerId: hardLot.containers[0].id,
+      mixedAt: minutesAgo(45),
+      potLifeEndsAt: minutesAgo(15),
     });
     await createStationLoad({ stationId: station.id, batchId: batch.id, mixId: mix.id });
     mixCode = mix.code;
     // Two servers' watches at once, then a third run: one alert, one set of e-mails.
     await Promise.all([sweep(), sweep()]);
     await sweep();
-    const [alert] = await db.select().from(alerts).where(and(eq(alerts.subjectId, mix.id), eq(alerts.kind, 'pot_life_exceeded')));
+    const [alert] = await db
+      .select()
+      .from(alerts)
+      .where(and(eq(alerts.subjectId, mix.id), eq(alerts.kind, 'pot_life_exceeded')));
     alertId = alert.id;
     await drainOutbox();
   });
 
   it('reach exactly the subscribers: one message each, not those who chose the digest or no e-mail', async () => {
-    const rows = await db.select().from(outgoingEmails).where(and(eq(outgoingEmails.alertId, alertId), eq(outgoingEmails.kind, 'alert')));
+    const rows = await db
+      .select()
+      .from(outgoingEmails)
+      .where(and(eq(outgoingEmails.alertId, alertId), eq(outgoingEmails.kind, 'alert')));
     const recipients = rows.map((r) => r.to);
     expect(recipients.every((to) => to.length === 1)).toBe(true);
     const emails = recipients.map((to) => to[0]);
@@ -183,12 +212,19 @@ describe('alert e-mails', () => {
   });
 
   it('resolving e-mails only those who asked to hear of it', async () => {
-    const res = await api(app.baseUrl, qAtOnce.token).post(`/api/alerts/${alertId}/resolve`, { resolution: 'Mix unloaded and discarded; drivers checked.' });
+    const res = await api(app.baseUrl, qAtOnce.token).post(`/api/alerts/${alertId}/resolve`, {
+      resolution: 'Mix unloaded and discarded; drivers checked.',
+    });
     expect(res.status).toBe(200);
-    const rows = await db.select().from(outgoingEmails).where(and(eq(outgoingEmails.alertId, alertId), eq(outgoingEmails.kind, 'alert_resolved')));
+    const rows = await db
+      .select()
+      .from(outgoingEmails)
+      .where(and(eq(outgoingEmails.alertId, alertId), eq(outgoingEmails.kind, 'alert_resolved')));
     expect(rows.map((r) => r.to[0])).toEqual([assembler.email]);
     await drainOutbox();
-    const [m] = (await capturedFor(assembler.email)).filter((x) => x.subject.startsWith('[Tacklog] Resolved:') && x.subject.includes(mixCode));
+    const [m] = (await capturedFor(assembler.email)).filter(
+      (x) => x.subject.startsWith('[Tacklog] Resolved:') && x.subject.includes(mixCode),
+    );
     expect(m.text).toContain('Mix unloaded and discarded; drivers checked.');
     expect(m.text).toContain(`by ${qAtOnce.name}`);
   });
@@ -200,7 +236,7 @@ describe('daily digest', () => {
     expect((await api(app.baseUrl, qAtOnce.token).post('/api/notifications/digest')).status).toBe(403);
   });
 
-  it('sends today\'s digests now, and a second call the same day sends nothing new', async () => {
+  it("sends today's digests now, and a second call the same day sends nothing new", async () => {
     const first = await api(app.baseUrl, admin.token).post('/api/notifications/digest');
     expect(first.status).toBe(200);
     const today = plantDateOf(new Date());
@@ -232,7 +268,10 @@ describe('daily digest', () => {
     await drainOutbox({ only: here.ids });
     const results = await Promise.all(children.map((c) => c.done));
     expect(results.every((r) => typeof r.queued === 'number')).toBe(true);
-    const rows = await db.select().from(outgoingEmails).where(like(outgoingEmails.dedupeKey, `digest:${buyer.id}:${date}`));
+    const rows = await db
+      .select()
+      .from(outgoingEmails)
+      .where(like(outgoingEmails.dedupeKey, `digest:${buyer.id}:${date}`));
     expect(rows).toHaveLength(1);
     expect(rows[0].status).toBe('sent');
     expect((await capturedFor(buyer.email)).filter((m) => m.subject.includes(`Daily digest for ${date}`))).toHaveLength(1);
@@ -249,7 +288,7 @@ describe('mailbox API', () => {
     expect(bad.body.error.details[0].field).toBe('query.to');
   });
 
-  it('shows each person their own mail, and an administrator everyone\'s', async () => {
+  it("shows each person their own mail, and an administrator everyone's", async () => {
     const own = await api(app.baseUrl, assembler.token).get('/api/mail?limit=200');
     expect(own.status).toBe(200);
     expect(own.body.items.length).toBeGreaterThan(0);

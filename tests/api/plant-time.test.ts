@@ -39,19 +39,39 @@ beforeAll(async () => {
   cureCompleteAt = new Date(Math.floor(hoursAgo(2).getTime() / 60_000) * 60_000);
   shortStartedAt = new Date(Math.floor(hoursAgo(3).getTime() / 60_000) * 60_000);
   await createStepRun({
-    batchId: batch.id, stepId: model.steps[0].id, stationId: station.id, startedAt: hoursAgo(5), finishedAt: hoursAgo(4), cureCompleteAt,
+    batchId: batch.id,
+    stepId: model.steps[0].id,
+    stationId: station.id,
+    startedAt: hoursAgo(5),
+    finishedAt: hoursAgo(4),
+    cureCompleteAt,
   });
-  const run = await createStepRun({ batchId: batch.id, stepId: model.steps[1].id, stationId: station.id, startedAt: shortStartedAt, finishedAt: hoursAgo(2) });
+  const run = await createStepRun({
+    batchId: batch.id,
+    stepId: model.steps[1].id,
+    stationId: station.id,
+    startedAt: shortStartedAt,
+    finishedAt: hoursAgo(2),
+  });
   await db.update(stepRuns).set({ shortCure: true }).where(eq(stepRuns.id, run.id));
   ids.shortRun = run.id;
 
   // A lot built into 100 drivers of which 12 failed final test.
   const cone = await createMaterial({ name: 'Pressed cone', kind: 'cone', unit: 'pcs' });
   const suspect = await createLot({ materialId: cone.id, quantity: 500 });
-  await createStepRun({ batchId: batch.id, stepId: model.steps[0].id, stationId: station.id, used: [{ containerId: suspect.containers[0].id, quantity: 100 }] });
+  await createStepRun({
+    batchId: batch.id,
+    stepId: model.steps[0].id,
+    stationId: station.id,
+    used: [{ containerId: suspect.containers[0].id, quantity: 100 }],
+  });
   await db.insert(defectCodes).values({ code: 'T-BUZZ', description: 'Buzz in sweep' }).onConflictDoNothing();
   await db.insert(testResults).values(
-    batch.drivers.map((d, i) => ({ driverId: d.id, result: i < 12 ? ('fail' as const) : ('pass' as const), defectCode: i < 12 ? 'T-BUZZ' : null })),
+    batch.drivers.map((d, i) => ({
+      driverId: d.id,
+      result: i < 12 ? ('fail' as const) : ('pass' as const),
+      defectCode: i < 12 ? 'T-BUZZ' : null,
+    })),
   );
   ids.suspectLot = suspect.id;
   ids.material = cone.id;
@@ -88,7 +108,9 @@ describe('alert texts', () => {
     expect(a.message).toContain(`fails 12.0 % of drivers at final test (12 of 100) against a plant rate of ${base}`);
     expect(a.message).toMatch(/; this is (very )?unlikely to be chance\. Consider quarantining it/);
     expect(a.message).not.toMatch(/q = |p-chart|e-\d/);
-    expect(a.detail).toMatch(/^Exact one-sided binomial test: p = \S+; Benjamini–Hochberg q = \S+; p-chart upper limit for 100 drivers: \d+\.\d % \(above it\)\.$/);
+    expect(a.detail).toMatch(
+      /^Exact one-sided binomial test: p = \S+; Benjamini–Hochberg q = \S+; p-chart upper limit for 100 drivers: \d+\.\d % \(above it\)\.$/,
+    );
     // The p-chart limit, standard given (Montgomery §7.3): p + 3·sqrt(p(1−p)/n).
     expect(data.ucl).toBeCloseTo(data.baseline + 3 * Math.sqrt((data.baseline * (1 - data.baseline)) / 100), 12);
     expect(data).toMatchObject({ inspected: 100, defectives: 12 });
@@ -106,13 +128,27 @@ describe('alert texts', () => {
     const ack = await api(app.baseUrl, quality.token).post(`/api/alerts/${a.id}/acknowledge`);
     expect(ack.status).toBe(200);
     const acked = alertSchema.parse(ack.body.alert);
-    expect(acked).toMatchObject({ state: 'acknowledged', acknowledgedBy: quality.id, acknowledgedByName: quality.name, resolvedByName: null });
-    const done = await api(app.baseUrl, admin.token).post(`/api/alerts/${a.id}/resolve`, { resolution: 'Drivers of the batch re-tested; all passed.' });
+    expect(acked).toMatchObject({
+      state: 'acknowledged',
+      acknowledgedBy: quality.id,
+      acknowledgedByName: quality.name,
+      resolvedByName: null,
+    });
+    const done = await api(app.baseUrl, admin.token).post(`/api/alerts/${a.id}/resolve`, {
+      resolution: 'Drivers of the batch re-tested; all passed.',
+    });
     expect(done.status).toBe(200);
     const resolved = alertSchema.parse(done.body.alert);
-    expect(resolved).toMatchObject({ state: 'resolved', acknowledgedByName: quality.name, resolvedBy: admin.id, resolvedByName: admin.name });
+    expect(resolved).toMatchObject({
+      state: 'resolved',
+      acknowledgedByName: quality.name,
+      resolvedBy: admin.id,
+      resolvedByName: admin.name,
+    });
     // The list says the same.
-    const list = alertListSchema.parse((await api(app.baseUrl, admin.token).get('/api/alerts?state=resolved&kind=short_cure&limit=500')).body);
+    const list = alertListSchema.parse(
+      (await api(app.baseUrl, admin.token).get('/api/alerts?state=resolved&kind=short_cure&limit=500')).body,
+    );
     expect(list.items.find((x) => x.id === a.id)).toMatchObject({ acknowledgedByName: quality.name, resolvedByName: admin.name });
     const [row] = await db.select().from(alerts).where(eq(alerts.id, a.id));
     expect(row.resolvedBy).toBe(admin.id);
@@ -125,7 +161,12 @@ describe('lot history names what its ids point at', () => {
     const supplier = await newSupplier(api(app.baseUrl, admin.token));
     const material = await newMaterial(api(app.baseUrl, admin.token));
     const { lot } = await receive(api(app.baseUrl, clerk.token), { materialId: material.id, supplierId: supplier.id });
-    const up = await upload(app.baseUrl, `/api/lots/${lot.id}/certificate`, { bytes: pdfBytes(), type: 'application/pdf', filename: 'CoA 7781.pdf', token: clerk.token });
+    const up = await upload(app.baseUrl, `/api/lots/${lot.id}/certificate`, {
+      bytes: pdfBytes(),
+      type: 'application/pdf',
+      filename: 'CoA 7781.pdf',
+      token: clerk.token,
+    });
     expect(up.status).toBe(201);
     const res = await api(app.baseUrl, quality.token).get(`/api/lots/${lot.id}/history`);
     expect(res.status).toBe(200);

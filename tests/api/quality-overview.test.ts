@@ -12,7 +12,9 @@ let qa: TestUser;
 beforeAll(async () => {
   app = await startApp();
   qa = await ensureUser(['quality']);
-  await db.execute(sql`INSERT INTO defect_codes (code, description) VALUES ('QO-RUB', 'Rub and buzz'), ('QO-POL', 'Wrong polarity') ON CONFLICT DO NOTHING`);
+  await db.execute(
+    sql`INSERT INTO defect_codes (code, description) VALUES ('QO-RUB', 'Rub and buzz'), ('QO-POL', 'Wrong polarity') ON CONFLICT DO NOTHING`,
+  );
 });
 afterAll(() => app.close());
 
@@ -22,7 +24,12 @@ async function testedBatch(n: number, fails: number, at: Date, defect = 'QO-RUB'
   const model = await createModel({ steps: [{ stationKind: kind }] });
   const batch = await createBatch({ modelId: model.id, quantity: n });
   await db.insert(testResults).values(
-    batch.drivers.map((d, i) => ({ driverId: d.id, result: i < fails ? ('fail' as const) : ('pass' as const), defectCode: i < fails ? defect : null, testedAt: at })),
+    batch.drivers.map((d, i) => ({
+      driverId: d.id,
+      result: i < fails ? ('fail' as const) : ('pass' as const),
+      defectCode: i < fails ? defect : null,
+      testedAt: at,
+    })),
   );
   return { model, batch };
 }
@@ -60,10 +67,15 @@ describe('GET /api/quality/overview', () => {
   });
 
   it('overrides the baseline with a reason (audited), and goes back', async () => {
-    const set = await api(app.baseUrl, qa.token).post('/api/quality/baseline', { rate: 0.015, reason: 'New supplier of spiders; tighter watch for a month' });
+    const set = await api(app.baseUrl, qa.token).post('/api/quality/baseline', {
+      rate: 0.015,
+      reason: 'New supplier of spiders; tighter watch for a month',
+    });
     expect(set.status).toBe(200);
     expect(set.body).toMatchObject({ rate: 0.015, overridden: true, source: 'override', override: { by: qa.name } });
-    const audit = await db.execute<{ reason: string }>(sql`SELECT reason FROM audit_log WHERE action = 'baseline.override' ORDER BY id DESC LIMIT 1`);
+    const audit = await db.execute<{ reason: string }>(
+      sql`SELECT reason FROM audit_log WHERE action = 'baseline.override' ORDER BY id DESC LIMIT 1`,
+    );
     expect(audit.rows[0].reason).toContain('New supplier');
     const tooShort = await api(app.baseUrl, qa.token).post('/api/quality/baseline', { rate: 0.02, reason: 'x' });
     expect(tooShort.status).toBe(400);

@@ -16,7 +16,11 @@ let purchasing: TestUser;
 beforeAll(async () => {
   app = await startApp();
   [assembler, admin, quality, receiving, purchasing] = await Promise.all([
-    ensureUser(['assembler']), ensureUser(['admin']), ensureUser(['quality']), ensureUser(['receiving']), ensureUser(['purchasing']),
+    ensureUser(['assembler']),
+    ensureUser(['admin']),
+    ensureUser(['quality']),
+    ensureUser(['receiving']),
+    ensureUser(['purchasing']),
   ]);
 });
 afterAll(() => app.close());
@@ -69,7 +73,8 @@ describe('shop-condition readings', () => {
     const all = readingPageSchema.parse((await as(purchasing).get(`/api/readings?area=${encodeURIComponent(area)}`)).body);
     expect(all.items.map((x) => x.tempC)).toEqual([150, 23.25, 21.5, -60, 19]); // newest first
     const window = readingPageSchema.parse(
-      (await as(purchasing).get(`/api/readings?area=${encodeURIComponent(area)}&from=${iso(-2.5 * 3_600_000)}&to=${iso(-0.5 * 3_600_000)}`)).body,
+      (await as(purchasing).get(`/api/readings?area=${encodeURIComponent(area)}&from=${iso(-2.5 * 3_600_000)}&to=${iso(-0.5 * 3_600_000)}`))
+        .body,
     );
     expect(window.items.map((x) => x.tempC)).toEqual([23.25, 21.5]);
     expect(fields(await as(purchasing).get(`/api/readings?from=${iso(0)}&to=${iso(-3_600_000)}`))).toEqual(['query.to']);

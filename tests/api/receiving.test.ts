@@ -16,7 +16,10 @@ let assembler: TestUser;
 beforeAll(async () => {
   app = await startApp();
   [admin, clerk, quality, assembler] = await Promise.all([
-    ensureUser(['admin']), ensureUser(['receiving']), ensureUser(['quality']), ensureUser(['assembler']),
+    ensureUser(['admin']),
+    ensureUser(['receiving']),
+    ensureUser(['quality']),
+    ensureUser(['assembler']),
   ]);
 });
 afterAll(() => app.close());
@@ -33,12 +36,27 @@ describe('receiving a lot', () => {
     const supplier = await newSupplier(as(admin));
     const held = await newMaterial(as(admin), { requiresInspection: true, shelfLifeDays: 30 });
     const res = await as(clerk).post('/api/lots', {
-      materialId: held.id, supplierId: supplier.id, supplierLot: '  B-2291  ', containers: 3, quantityPerContainer: 250.5,
-      manufacturedOn: '2026-01-10', expiresOn: '2026-02-01', receivedAt: '2026-01-20T09:30:00.000Z', location: 'Cabinet A2', notes: 'Pallet wrap torn',
+      materialId: held.id,
+      supplierId: supplier.id,
+      supplierLot: '  B-2291  ',
+      containers: 3,
+      quantityPerContainer: 250.5,
+      manufacturedOn: '2026-01-10',
+      expiresOn: '2026-02-01',
+      receivedAt: '2026-01-20T09:30:00.000Z',
+      location: 'Cabinet A2',
+      notes: 'Pallet wrap torn',
     });
     expect(res.status).toBe(201);
     const body = receiveLotResultSchema.parse(res.body);
-    expect(body.lot).toMatchObject({ status: 'on_hold', supplierLot: 'B-2291', manufacturedOn: '2026-01-10', expiresOn: '2026-02-01', notes: 'Pallet wrap torn', receivedBy: clerk.id });
+    expect(body.lot).toMatchObject({
+      status: 'on_hold',
+      supplierLot: 'B-2291',
+      manufacturedOn: '2026-01-10',
+      expiresOn: '2026-02-01',
+      notes: 'Pallet wrap torn',
+      receivedBy: clerk.id,
+    });
     // Supplier date 2026-02-01 is usable through that day (zone UTC): expires 2026-02-02T00:00Z, before
     // manufacture + 30 days = 2026-02-09 (worked by hand from the rules in shared/expiry.ts).
     expect(body.lot.effectiveExpiry).toBe('2026-02-02T00:00:00.000Z');
@@ -54,7 +72,10 @@ describe('receiving a lot', () => {
     const released = await receive(as(admin), { materialId: free.id, supplierId: supplier.id, containers: 1 });
     expect(released.lot.status).toBe('released');
 
-    const [audit] = await db.select().from(auditLog).where(and(eq(auditLog.entityId, body.lot.id), eq(auditLog.action, 'lot.receive')));
+    const [audit] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, body.lot.id), eq(auditLog.action, 'lot.receive')));
     expect(audit.actorId).toBe(clerk.id);
     expect(audit.after).toMatchObject({ supplierLot: 'B-2291', status: 'on_hold' });
     expect((audit.after as { containers: { code: string }[] }).containers.map((c) => c.code)).toEqual(body.containers.map((c) => c.code));
@@ -66,7 +87,13 @@ describe('receiving a lot', () => {
     const lotNo = `DL-${uniq()}`;
     const first = await receive(as(clerk), { materialId: material.id, supplierId: supplier.id, supplierLot: lotNo });
     const before = await counts();
-    const dup = await as(clerk).post('/api/lots', { materialId: material.id, supplierId: supplier.id, supplierLot: ` ${lotNo.toLowerCase()} `, containers: 1, quantityPerContainer: 5 });
+    const dup = await as(clerk).post('/api/lots', {
+      materialId: material.id,
+      supplierId: supplier.id,
+      supplierLot: ` ${lotNo.toLowerCase()} `,
+      containers: 1,
+      quantityPerContainer: 5,
+    });
     expect(dup.status).toBe(409);
     expect(dup.body.error.code).toBe('DUPLICATE_LOT');
     const details = duplicateLotDetailsSchema.parse(dup.body.error.details);
@@ -74,11 +101,31 @@ describe('receiving a lot', () => {
     expect(await counts()).toEqual(before);
 
     const other = await newMaterial(as(admin));
-    expect((await as(clerk).post('/api/lots', { materialId: other.id, supplierId: supplier.id, supplierLot: lotNo, containers: 1, quantityPerContainer: 5 })).status).toBe(201);
+    expect(
+      (
+        await as(clerk).post('/api/lots', {
+          materialId: other.id,
+          supplierId: supplier.id,
+          supplierLot: lotNo,
+          containers: 1,
+          quantityPerContainer: 5,
+        })
+      ).status,
+    ).toBe(201);
 
-    const confirmed = await as(clerk).post('/api/lots', { materialId: material.id, supplierId: supplier.id, supplierLot: lotNo, containers: 1, quantityPerContainer: 5, confirmDuplicate: true });
+    const confirmed = await as(clerk).post('/api/lots', {
+      materialId: material.id,
+      supplierId: supplier.id,
+      supplierLot: lotNo,
+      containers: 1,
+      quantityPerContainer: 5,
+      confirmDuplicate: true,
+    });
     expect(confirmed.status).toBe(201);
-    const [audit] = await db.select().from(auditLog).where(and(eq(auditLog.entityId, confirmed.body.lot.id), eq(auditLog.action, 'lot.receive')));
+    const [audit] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, confirmed.body.lot.id), eq(auditLog.action, 'lot.receive')));
     expect(audit.after).toMatchObject({ duplicateConfirmed: true, duplicateOf: [first.lot.id] });
   });
 

@@ -52,7 +52,9 @@ describe('recipe revisions', () => {
     expect(again.body.error).toMatchObject({ code: 'REVISION_DRAFT_EXISTS', details: { revision: 2 } });
 
     const edited = await as(admin).patch(`/api/models/${copy.body.id}`, {
-      steps: [{ name: 'Dust cap, more glue', stationKind: kind, materials: [{ materialId: glueId, amountPerUnit: 0.5 }], waitForCure: true }],
+      steps: [
+        { name: 'Dust cap, more glue', stationKind: kind, materials: [{ materialId: glueId, amountPerUnit: 0.5 }], waitForCure: true },
+      ],
     });
     expect(edited.status).toBe(200);
 
@@ -85,7 +87,9 @@ describe('recipe revisions', () => {
     const list = await as(assembler).get('/api/models');
     expect(list.body.items.filter((m: { code: string }) => m.code === rev1.code).map((m: { revision: number }) => m.revision)).toEqual([2]);
     const all = await as(admin).get('/api/models?includeRevisions=true');
-    expect(all.body.items.filter((m: { code: string }) => m.code === rev1.code).map((m: { revision: number }) => m.revision)).toEqual([1, 2]);
+    expect(all.body.items.filter((m: { code: string }) => m.code === rev1.code).map((m: { revision: number }) => m.revision)).toEqual([
+      1, 2,
+    ]);
   });
 
   it('refuses a second model with a taken code, and revisions to other roles', async () => {

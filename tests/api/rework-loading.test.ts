@@ -30,7 +30,11 @@ describe('loading material for a rework', () => {
   afterAll(() => app.close());
 
   const load = (body: Record<string, unknown>) =>
-    api(app.baseUrl, assembler.token).post(`/api/stations/${station.id}/load`, { batchId: batch.id, containerCode: cone.containers[0].code, ...body });
+    api(app.baseUrl, assembler.token).post(`/api/stations/${station.id}/load`, {
+      batchId: batch.id,
+      containerCode: cone.containers[0].code,
+      ...body,
+    });
 
   it('refuses a finished batch without a serial (BATCH_CLOSED) and a driver that did not fail', async () => {
     expect((await load({})).body.error.code).toBe('BATCH_CLOSED');
@@ -41,7 +45,9 @@ describe('loading material for a rework', () => {
     expect(unknown.status).toBe(404);
     expect(unknown.body.error.details[0].field).toBe('serial');
     const stepOnly = await api(app.baseUrl, assembler.token).post(`/api/stations/${station.id}/load`, {
-      batchId: batch.id, containerCode: cone.containers[0].code, stepId: model.steps[0].id,
+      batchId: batch.id,
+      containerCode: cone.containers[0].code,
+      stepId: model.steps[0].id,
     });
     expect(stepOnly.status).toBe(400);
     expect(stepOnly.body.error.details[0].field).toBe('stepId');

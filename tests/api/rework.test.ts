@@ -104,7 +104,13 @@ describe('rework of a failed driver, re-test, and its genealogy', () => {
 
   it('the backward trace carries the original build and both rework runs; the new lot reaches only this driver', async () => {
     const trace = driverTraceSchema.parse((await as(quality).get(`/api/drivers/${serial}/trace`)).body);
-    expect(trace.steps.map((x) => [x.seq, x.kind])).toEqual([[1, 'build'], [2, 'build'], [3, 'build'], [2, 'rework'], [3, 'rework']]);
+    expect(trace.steps.map((x) => [x.seq, x.kind])).toEqual([
+      [1, 'build'],
+      [2, 'build'],
+      [3, 'build'],
+      [2, 'rework'],
+      [3, 'rework'],
+    ]);
     expect(trace.steps[3].materials.map((m) => m.lotId).sort()).toEqual([s.lots.unused.id, s.lots.wire.id].sort());
     expect(trace.steps[1].materials.map((m) => m.lotId)).toContain(s.lots.ca1.id);
 
@@ -145,7 +151,9 @@ describe('POST /api/drivers/:serial/scrap', () => {
       .where(and(eq(auditLog.entityId, res.body.driver.id), eq(auditLog.action, 'driver.scrap')));
     expect(entry).toMatchObject({ reason: 'Cone torn at rebuild', before: { status: 'passed' }, after: { status: 'scrapped' } });
 
-    expect((await as(quality).post(`/api/drivers/${sn}/scrap`, { reason: 'Cone torn at rebuild' })).body.error.code).toBe('ALREADY_SCRAPPED');
+    expect((await as(quality).post(`/api/drivers/${sn}/scrap`, { reason: 'Cone torn at rebuild' })).body.error.code).toBe(
+      'ALREADY_SCRAPPED',
+    );
     expect((await as(quality).post('/api/tests', { serial: sn, result: 'pass' })).body.error.code).toBe('DRIVER_SCRAPPED');
     expect((await as(assembler).post(`/api/drivers/${sn}/rework/start`, moving())).body.error.code).toBe('NOT_REWORKABLE');
   });

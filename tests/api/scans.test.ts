@@ -122,7 +122,14 @@ describe('scanning a supplier GS1 code', () => {
     const res = await resolve(`(01)${gtin}(11)260115(10)LOT-7`);
     expect(res.status).toBe(200);
     // Production date 260115 → 2026-01-15 (GS1 General Specifications YYMMDD).
-    expect(res.body).toMatchObject({ type: 'gs1', gtin, lot: 'LOT-7', producedOn: '2026-01-15', materialId: material.id, materialCode: material.code });
+    expect(res.body).toMatchObject({
+      type: 'gs1',
+      gtin,
+      lot: 'LOT-7',
+      producedOn: '2026-01-15',
+      materialId: material.id,
+      materialCode: material.code,
+    });
   });
 
   it('day 00 means the last day of the month', async () => {

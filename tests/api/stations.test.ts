@@ -38,7 +38,10 @@ describe('stations', () => {
     expect(res.status).toBe(201);
     const station = stationSchema.parse(res.body);
     expect(station).toMatchObject({ code, name: 'Cone glue 2', kind: 'cone glue', area: 'Line B', active: true });
-    const audit = await db.select().from(auditLog).where(and(eq(auditLog.entityId, station.id), eq(auditLog.action, 'station.create')));
+    const audit = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, station.id), eq(auditLog.action, 'station.create')));
     expect(audit).toHaveLength(1);
 
     const dup = await as(admin).post('/api/stations', { code, name: 'Other', kind: 'x', area: 'y' });
@@ -52,7 +55,10 @@ describe('stations', () => {
     const patched = await as(admin).patch(`/api/stations/${station.id}`, { area: 'Line C' });
     expect(patched.status).toBe(200);
     expect(patched.body.area).toBe('Line C');
-    const [upd] = await db.select().from(auditLog).where(and(eq(auditLog.entityId, station.id), eq(auditLog.action, 'station.update')));
+    const [upd] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, station.id), eq(auditLog.action, 'station.update')));
     expect(upd.before).toMatchObject({ area: 'Line B' });
     expect(upd.after).toMatchObject({ area: 'Line C' });
     expect((await as(admin).patch(`/api/stations/${station.id}`, {})).status).toBe(400);
@@ -70,7 +76,10 @@ describe('stations', () => {
     const res = await as(admin).post(`/api/stations/${st.id}/retire`);
     expect(res.status).toBe(200);
     expect(res.body.active).toBe(false);
-    const still = await db.select().from(stationLoads).where(and(eq(stationLoads.stationId, st.id), isNull(stationLoads.unloadedAt)));
+    const still = await db
+      .select()
+      .from(stationLoads)
+      .where(and(eq(stationLoads.stationId, st.id), isNull(stationLoads.unloadedAt)));
     expect(still).toHaveLength(0);
     const list = stationListSchema.parse((await as(admin).get('/api/stations')).body);
     expect(list.items.some((s) => s.id === st.id)).toBe(false);

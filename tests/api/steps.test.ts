@@ -6,7 +6,17 @@ import { stepRunResultSchema } from '../../shared/schemas/steps';
 import { deviationResultSchema } from '../../shared/schemas/deviations';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
-import { createBatch, createLot, createMaterial, createModel, createReading, createStation, createStepRun, hoursAgo, sfx } from '../helpers/fixtures';
+import {
+  createBatch,
+  createLot,
+  createMaterial,
+  createModel,
+  createReading,
+  createStation,
+  createStepRun,
+  hoursAgo,
+  sfx,
+} from '../helpers/fixtures';
 
 const HOUR = 3_600_000;
 let app: TestApp;
@@ -48,7 +58,14 @@ async function capDoneAgo(hours: number, area?: string) {
   const finishedAt = new Date(Date.now() - hours * HOUR);
   // As finishStep stores it with no reading in the area (the board recomputes from readings since).
   const cureCompleteAt = new Date(finishedAt.getTime() + 24 * HOUR);
-  const run = await createStepRun({ batchId: batch.id, stepId: model.steps[0].id, stationId: st.id, finishedAt, cureCompleteAt, used: [{ containerId: lot.containers[0].id, quantity: 2 }] });
+  const run = await createStepRun({
+    batchId: batch.id,
+    stepId: model.steps[0].id,
+    stationId: st.id,
+    finishedAt,
+    cureCompleteAt,
+    used: [{ containerId: lot.containers[0].id, quantity: 2 }],
+  });
   return { batch, run, finishedAt, area: st.area, nextStation: next };
 }
 
@@ -62,7 +79,10 @@ describe('steps: access and input', () => {
     expect(bad.status).toBe(400);
     expect(bad.body.error.details[0].field).toBe('stationId');
     expect((await start(batch.id, model.steps[0].id, capStation.id, { serial: '' })).body.error.details[0].field).toBe('serial');
-    expect((await as(assembler).post(`/api/batches/nope/steps/${model.steps[0].id}/start`, { stationId: capStation.id })).body.error.details[0].field).toBe('params.id');
+    expect(
+      (await as(assembler).post(`/api/batches/nope/steps/${model.steps[0].id}/start`, { stationId: capStation.id })).body.error.details[0]
+        .field,
+    ).toBe('params.id');
     const other = await createModel({ steps: [{ stationKind: capStation.kind }] });
     expect((await start(batch.id, other.steps[0].id, capStation.id)).status).toBe(404);
   });
@@ -72,7 +92,10 @@ describe('steps: run, consume, cure clock, gate', () => {
   it('start takes what is loaded; finish consumes amount × units and starts the cure clock; the next step waits (CURE_INCOMPLETE)', async () => {
     const batch = await createBatch({ modelId: model.id, quantity: 4 });
     const lot = await createLot({ materialId: capGlue.id, quantity: 100 });
-    expect((await as(assembler).post(`/api/stations/${capStation.id}/load`, { batchId: batch.id, containerCode: lot.containers[0].code })).status).toBe(200);
+    expect(
+      (await as(assembler).post(`/api/stations/${capStation.id}/load`, { batchId: batch.id, containerCode: lot.containers[0].code }))
+        .status,
+    ).toBe(200);
 
     expect((await start(batch.id, model.steps[0].id, testStation.id)).body.error.code).toBe('WRONG_STATION');
     expect((await start(batch.id, model.steps[1].id, testStation.id)).body.error.code).toBe('STEP_OUT_OF_ORDER');
@@ -99,7 +122,12 @@ describe('steps: run, consume, cure clock, gate', () => {
     expect(gated.status).toBe(409);
     expect(gated.body.error.code).toBe('CURE_INCOMPLETE');
     expect(gated.body.error.details.cureCompleteAt).toBe(done.cureCompleteAt);
-    expect(await db.select().from(stepRuns).where(and(eq(stepRuns.batchId, batch.id), eq(stepRuns.stepId, model.steps[1].id)))).toHaveLength(0);
+    expect(
+      await db
+        .select()
+        .from(stepRuns)
+        .where(and(eq(stepRuns.batchId, batch.id), eq(stepRuns.stepId, model.steps[1].id))),
+    ).toHaveLength(0);
   });
 
   it('allows the next step once the cure is complete', async () => {
@@ -144,7 +172,12 @@ describe('steps: run, consume, cure clock, gate', () => {
 describe('deviations: a quality decision to start before full cure', () => {
   it('401, 403 for an assembler, 400 naming reason, 404 for a step outside the batch recipe', async () => {
     const s = await capDoneAgo(1);
-    const body = { batchId: s.batch.id, stepId: model.steps[1].id, kind: 'early_start', reason: 'Customer sample lot, cap load checked by pull test' };
+    const body = {
+      batchId: s.batch.id,
+      stepId: model.steps[1].id,
+      kind: 'early_start',
+      reason: 'Customer sample lot, cap load checked by pull test',
+    };
     expect((await as().post('/api/deviations', body)).status).toBe(401);
     expect((await as(assembler).post('/api/deviations', body)).status).toBe(403);
     const short = await as(quality).post('/api/deviations', { ...body, reason: 'ok  ' });
@@ -159,7 +192,12 @@ describe('deviations: a quality decision to start before full cure', () => {
   it('lets the early start go on, flagged shortCure, and is used once', async () => {
     const s = await capDoneAgo(1);
     expect((await start(s.batch.id, model.steps[1].id, s.nextStation.id)).body.error.code).toBe('CURE_INCOMPLETE');
-    const res = await as(quality).post('/api/deviations', { batchId: s.batch.id, stepId: model.steps[1].id, kind: 'early_start', reason: 'Line stop; cap bond verified by pull test on 3 units' });
+    const res = await as(quality).post('/api/deviations', {
+      batchId: s.batch.id,
+      stepId: model.steps[1].id,
+      kind: 'early_start',
+      reason: 'Line stop; cap bond verified by pull test on 3 units',
+    });
     expect(res.status).toBe(201);
     const { deviation } = deviationResultSchema.parse(res.body);
     expect(deviation).toMatchObject({ signedBy: quality.id, signedByName: quality.name, usedAt: null });
@@ -207,9 +245,14 @@ describe('single-unit rework runs (serial)', () => {
     const st = await createStation({ kind: capStation.kind });
     const batch = await createBatch({ modelId: model.id, quantity: 3, status: 'completed' });
     const lot = await createLot({ materialId: capGlue.id, quantity: 10 });
-    expect((await as(assembler).post(`/api/stations/${st.id}/load`, { batchId: batch.id, containerCode: lot.containers[0].code })).body.error.code).toBe('BATCH_CLOSED');
+    expect(
+      (await as(assembler).post(`/api/stations/${st.id}/load`, { batchId: batch.id, containerCode: lot.containers[0].code })).body.error
+        .code,
+    ).toBe('BATCH_CLOSED');
     await db.update(buildBatches).set({ status: 'in_process' }).where(eq(buildBatches.id, batch.id));
-    expect((await as(assembler).post(`/api/stations/${st.id}/load`, { batchId: batch.id, containerCode: lot.containers[0].code })).status).toBe(200);
+    expect(
+      (await as(assembler).post(`/api/stations/${st.id}/load`, { batchId: batch.id, containerCode: lot.containers[0].code })).status,
+    ).toBe(200);
     await db.update(buildBatches).set({ status: 'completed' }).where(eq(buildBatches.id, batch.id));
 
     const serial = batch.drivers[1].serial;

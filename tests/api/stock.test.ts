@@ -5,7 +5,17 @@ import { materials, stepRuns } from '../../server/db/schema';
 import { outlookSchema, simulateResultSchema, stockListSchema, stockMaterialSchema, stockTodaySchema } from '../../shared/schemas/stock';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
-import { createBatch, createLot, createMaterial, createMix, createModel, createStation, createStepRun, createTwoPart, daysAgo } from '../helpers/fixtures';
+import {
+  createBatch,
+  createLot,
+  createMaterial,
+  createMix,
+  createModel,
+  createStation,
+  createStepRun,
+  createTwoPart,
+  daysAgo,
+} from '../helpers/fixtures';
 
 const DAY = 86_400_000;
 let app: TestApp;
@@ -17,20 +27,42 @@ const dateIn = (days: number) => new Date(Date.now() + days * DAY).toISOString()
 const endOfDate = (days: number) => Date.parse(`${dateIn(days + 1)}T00:00:00.000Z`);
 
 /** A material whose history is `perDay` × 28 drawn from a now-empty container by a run finished 2 days ago. */
-async function materialUsing(perDay: number, fields: Partial<typeof materials.$inferInsert> = {}, opts: { openLifeHours?: number | null } = {}) {
+async function materialUsing(
+  perDay: number,
+  fields: Partial<typeof materials.$inferInsert> = {},
+  opts: { openLifeHours?: number | null } = {},
+) {
   const m = await createMaterial({ name: 'Stock test adhesive', openLifeHours: opts.openLifeHours ?? null, shelfLifeDays: 365 });
   await db.update(materials).set(fields).where(eq(materials.id, m.id));
   const station = await createStation();
   const model = await createModel({ steps: [{ stationKind: station.kind, materials: [{ materialId: m.id, amountPerUnit: 1 }] }] });
   const done = await createBatch({ modelId: model.id, status: 'completed' });
-  const spent = await createLot({ materialId: m.id, quantity: perDay * 28, remaining: 0, containerStatus: 'empty', receivedAt: daysAgo(40), status: 'used_up' });
-  await createStepRun({ batchId: done.id, stepId: model.steps[0].id, stationId: station.id, finishedAt: daysAgo(2), used: [{ containerId: spent.containers[0].id, quantity: perDay * 28 }] });
+  const spent = await createLot({
+    materialId: m.id,
+    quantity: perDay * 28,
+    remaining: 0,
+    containerStatus: 'empty',
+    receivedAt: daysAgo(40),
+    status: 'used_up',
+  });
+  await createStepRun({
+    batchId: done.id,
+    stepId: model.steps[0].id,
+    stationId: station.id,
+    finishedAt: daysAgo(2),
+    used: [{ containerId: spent.containers[0].id, quantity: perDay * 28 }],
+  });
   return m;
 }
 
 beforeAll(async () => {
   app = await startApp();
-  [purchasing, quality, admin, assembler] = await Promise.all([ensureUser(['purchasing']), ensureUser(['quality']), ensureUser(['admin']), ensureUser(['assembler'])]);
+  [purchasing, quality, admin, assembler] = await Promise.all([
+    ensureUser(['purchasing']),
+    ensureUser(['quality']),
+    ensureUser(['admin']),
+    ensureUser(['assembler']),
+  ]);
 });
 afterAll(() => app.close());
 
@@ -41,14 +73,18 @@ describe('stock access and input', () => {
       expect((await as(assembler).get(path)).status).toBe(403);
     }
     expect((await as().post('/api/stock/simulate', { start: new Date().toISOString(), dailyUse: 1, containers: [] })).status).toBe(401);
-    expect((await as(assembler).post('/api/stock/simulate', { start: new Date().toISOString(), dailyUse: 1, containers: [] })).status).toBe(403);
+    expect((await as(assembler).post('/api/stock/simulate', { start: new Date().toISOString(), dailyUse: 1, containers: [] })).status).toBe(
+      403,
+    );
     for (const u of [purchasing, quality, admin]) expect((await as(u).get('/api/stock')).status).toBe(200);
 
     const bad = await as(purchasing).post('/api/stock/simulate', { start: '2026-01-01T00:00:00Z', dailyUse: -1, containers: [] });
     expect(bad.status).toBe(400);
     expect(bad.body.error.details.map((d: { field: string }) => d.field)).toEqual(['dailyUse']);
     const early = await as(purchasing).post('/api/stock/simulate', {
-      start: '2026-01-01T00:00:00Z', dailyUse: 1, containers: [{ quantity: 1, expiresAt: null, openedAt: '2026-01-02T00:00:00Z' }],
+      start: '2026-01-01T00:00:00Z',
+      dailyUse: 1,
+      containers: [{ quantity: 1, expiresAt: null, openedAt: '2026-01-02T00:00:00Z' }],
     });
     expect(early.body.error.details.map((d: { field: string }) => d.field)).toEqual(['containers.0.openedAt']);
     const q = await as(purchasing).get('/api/stock?sort=colour');
@@ -66,8 +102,13 @@ describe('POST /api/stock/simulate', () => {
     const start = '2026-01-01T00:00:00.000Z';
     const day = (n: number) => new Date(Date.parse(start) + n * DAY).toISOString();
     const res = await as(purchasing).post('/api/stock/simulate', {
-      start, dailyUse: 1,
-      containers: [{ quantity: 10, expiresAt: day(5) }, { quantity: 10, expiresAt: day(12) }, { quantity: 10, expiresAt: day(20) }],
+      start,
+      dailyUse: 1,
+      containers: [
+        { quantity: 10, expiresAt: day(5) },
+        { quantity: 10, expiresAt: day(12) },
+        { quantity: 10, expiresAt: day(20) },
+      ],
     });
     expect(res.status).toBe(200);
     const body = simulateResultSchema.parse(res.body);
@@ -98,8 +139,19 @@ describe('daily use', () => {
     const { resin, hardener } = await createTwoPart();
     const rl = await createLot({ materialId: resin.id, quantity: 200 });
     const hl = await createLot({ materialId: hardener.id, quantity: 200 });
-    const mix = await createMix({ stationId: station.id, resinContainerId: rl.containers[0].id, hardenerContainerId: hl.containers[0].id, potLifeEndsAt: daysAgo(1) });
-    await createStepRun({ batchId: batch.id, stepId: model.steps[0].id, stationId: station.id, finishedAt: daysAgo(1), used: [{ mixId: mix.id, quantity: 15 }] });
+    const mix = await createMix({
+      stationId: station.id,
+      resinContainerId: rl.containers[0].id,
+      hardenerContainerId: hl.containers[0].id,
+      potLifeEndsAt: daysAgo(1),
+    });
+    await createStepRun({
+      batchId: batch.id,
+      stepId: model.steps[0].id,
+      stationId: station.id,
+      finishedAt: daysAgo(1),
+      used: [{ mixId: mix.id, quantity: 15 }],
+    });
 
     const list = stockListSchema.parse((await as(purchasing).get('/api/stock?view=all')).body);
     const row = (id: string) => list.items.find((i) => i.materialId === id)!;
@@ -116,7 +168,13 @@ describe('daily use', () => {
     const model = await createModel({ steps: [{ stationKind: station.kind, materials: [{ materialId: m.id, amountPerUnit: 1.5 }] }] });
     const batch = await createBatch({ modelId: model.id, quantity: 10, status: 'in_process' });
     const lot = await createLot({ materialId: m.id, quantity: 100 });
-    const run = await createStepRun({ batchId: batch.id, stepId: model.steps[0].id, stationId: station.id, finishedAt: daysAgo(0.1), used: [{ containerId: lot.containers[0].id, quantity: 6 }] });
+    const run = await createStepRun({
+      batchId: batch.id,
+      stepId: model.steps[0].id,
+      stationId: station.id,
+      finishedAt: daysAgo(0.1),
+      used: [{ containerId: lot.containers[0].id, quantity: 6 }],
+    });
     await db.update(stepRuns).set({ unitsDone: 4 }).where(eq(stepRuns.id, run.id));
     // 10 units − 4 done = 6 still to build × 1.5 = 9 over 1 plan day → 9 per day. History: 6 / 28.
     const item = stockListSchema.parse((await as(purchasing).get('/api/stock')).body).items.find((i) => i.materialId === m.id)!;
@@ -188,7 +246,9 @@ describe('days of cover, waste and advice from the simulation', () => {
     expect(csv.status).toBe(200);
     expect(csv.headers.get('content-type')).toMatch(/^text\/csv/);
     const lines = (csv.body as string).split('\r\n');
-    expect(lines[0]).toBe('Week of (date),Expires (UTC),Material,Supplier lot,Lot status,Expiring (unit),Used before expiry (unit),Predicted waste (unit),Unit');
+    expect(lines[0]).toBe(
+      'Week of (date),Expires (UTC),Material,Supplier lot,Lot status,Expiring (unit),Used before expiry (unit),Predicted waste (unit),Unit',
+    );
     expect(lines.find((l) => l.includes(glue.code) && l.includes(',10,7,3,'))).toBeTruthy();
   });
 
@@ -200,7 +260,9 @@ describe('days of cover, waste and advice from the simulation', () => {
     expect(text.endsWith('\r\n')).toBe(true);
     const lines = text.split('\r\n').filter(Boolean);
     expect(lines).toHaveLength(2);
-    expect(lines[0]).toContain('Daily use (unit/day),Daily use from,Days of cover (days),Runs out (date in UTC),Predicted waste (unit),Advice');
+    expect(lines[0]).toContain(
+      'Daily use (unit/day),Daily use from,Days of cover (days),Runs out (date in UTC),Predicted waste (unit),Advice',
+    );
     // The advice sentence holds commas: quoted (RFC 4180 §2.6).
     expect(lines[1]).toMatch(new RegExp(`^${glue.code},"?Stock test adhesive [^,]*"?,g,30,0,40,5,1,history,`));
     expect(lines[1]).toContain(`,${dateIn(21)},`);
@@ -239,8 +301,16 @@ describe('pack size warning on real data', () => {
     await createLot({ materialId: m.id, containers: 2, quantity: 5000, expiresOn: dateIn(300) });
     const item = stockListSchema.parse((await as(purchasing).get('/api/stock')).body).items.find((i) => i.materialId === m.id)!;
     expect(item.packSize).toBe(5000);
-    expect(item.advice.pack).toMatchObject({ packSize: 5000, usablePerPack: 2800, wastePerPack: 2200, suggestedPackSize: 2000, limitedBy: 'open_life' });
-    expect(item.advice.pack!.text).toBe('At 400 g/day a 5000 g pack open for 7 days wastes 2200 g each time; 2000 g packs would waste none.');
+    expect(item.advice.pack).toMatchObject({
+      packSize: 5000,
+      usablePerPack: 2800,
+      wastePerPack: 2200,
+      suggestedPackSize: 2000,
+      limitedBy: 'open_life',
+    });
+    expect(item.advice.pack!.text).toBe(
+      'At 400 g/day a 5000 g pack open for 7 days wastes 2200 g each time; 2000 g packs would waste none.',
+    );
     // Two tins, each open 7 days: 14 days of cover, not 25 (10 000 g ÷ 400 g/day); 4400 g wasted.
     expect(item.daysOfCover).toBeCloseTo(14, 1);
     expect(item.predictedWaste).toBeCloseTo(4400, 3);

@@ -40,7 +40,12 @@ describe('suppliers', () => {
     const res = await as(purchasing).post('/api/suppliers', { name, contactName: 'Ines Varro', email: 'desk@ostvale.example' });
     expect(res.status).toBe(201);
     const s = supplierSchema.parse(res.body);
-    expect(s.code).toBe(`SUP-${name.toUpperCase().replace(/[^A-Z0-9]/g, '').slice(0, 12)}`);
+    expect(s.code).toBe(
+      `SUP-${name
+        .toUpperCase()
+        .replace(/[^A-Z0-9]/g, '')
+        .slice(0, 12)}`,
+    );
     expect(s).toMatchObject({ name, contactName: 'Ines Varro', active: true });
     const again = await as(admin).post('/api/suppliers', { name: name.toLowerCase() });
     expect(again.status).toBe(409);
@@ -52,7 +57,10 @@ describe('suppliers', () => {
     const patched = await as(admin).patch(`/api/suppliers/${s.id}`, { phone: '+00 555 0100', notes: '' });
     expect(patched.status).toBe(200);
     expect(patched.body).toMatchObject({ phone: '+00 555 0100', notes: null, name });
-    const [audit] = await db.select().from(auditLog).where(and(eq(auditLog.entityId, s.id), eq(auditLog.action, 'supplier.update')));
+    const [audit] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, s.id), eq(auditLog.action, 'supplier.update')));
     expect(audit.before).toMatchObject({ phone: null });
     expect(audit.after).toMatchObject({ phone: '+00 555 0100' });
   });

@@ -45,7 +45,11 @@ describe('backward trace (GET /api/drivers/:serial/trace)', () => {
     expect(t.driver.serial).toBe(s.batches.b1.serials[0]);
     expect(t.batch.code).toBe(s.batches.b1.code);
     expect(t.batch.modelCode).toBe(s.modelCode);
-    expect(t.steps.map((x) => [x.seq, x.kind])).toEqual([[1, 'build'], [2, 'build'], [3, 'build']]);
+    expect(t.steps.map((x) => [x.seq, x.kind])).toEqual([
+      [1, 'build'],
+      [2, 'build'],
+      [3, 'build'],
+    ]);
     expect(t.steps.map((x) => x.stepId)).toEqual(s.steps.map((x) => x.id));
     expect(t.steps.map((x) => x.stationCode)).toEqual([s.stations.mag.code, s.stations.mov.code, s.stations.cap.code]);
 
@@ -56,7 +60,9 @@ describe('backward trace (GET /api/drivers/:serial/trace)', () => {
     expect(magnet.materials.find((m) => m.via?.part === 'resin')?.lotId).toBe(s.lots.resin.id);
     // Two containers of the same CA lot, and the wire.
     expect(lotsOf(moving)).toEqual([s.lots.ca1.supplierLot, s.lots.ca1.supplierLot, s.lots.wire.supplierLot].sort());
-    expect(moving.materials.map((m) => m.containerCode).sort()).toEqual([...s.lots.ca1.containerCodes, ...s.lots.wire.containerCodes].sort());
+    expect(moving.materials.map((m) => m.containerCode).sort()).toEqual(
+      [...s.lots.ca1.containerCodes, ...s.lots.wire.containerCodes].sort(),
+    );
     expect(moving.materials.every((m) => m.via === undefined)).toBe(true);
     expect(lotsOf(cap)).toEqual([s.lots.cap.supplierLot]);
     for (const step of t.steps) {
@@ -70,14 +76,22 @@ describe('backward trace (GET /api/drivers/:serial/trace)', () => {
   it('a reworked driver carries its original genealogy and its rework genealogy', async () => {
     const t = await driverTrace(s.reworkedSerial);
     expect(t.driver.status).toBe('passed');
-    expect(t.steps.map((x) => [x.seq, x.kind])).toEqual([[1, 'build'], [2, 'build'], [3, 'build'], [2, 'rework']]);
+    expect(t.steps.map((x) => [x.seq, x.kind])).toEqual([
+      [1, 'build'],
+      [2, 'build'],
+      [3, 'build'],
+      [2, 'rework'],
+    ]);
     const rework = t.steps[3];
     expect(rework.stepRunId).toBe(s.reworkRunId);
     expect(rework.driverId).toBe(t.driver.id);
     expect(lotsOf(rework)).toEqual([s.lots.ca2.supplierLot, s.lots.wire.supplierLot].sort());
     // The original step 2 is still there with the first CA lot.
     expect(lotsOf(t.steps[1])).toContain(s.lots.ca1.supplierLot);
-    expect(t.tests.map((x) => [x.result, x.defectCode])).toEqual([['fail', s.defectCodes.active], ['pass', null]]);
+    expect(t.tests.map((x) => [x.result, x.defectCode])).toEqual([
+      ['fail', s.defectCodes.active],
+      ['pass', null],
+    ]);
   });
 
   it("another unit of the same batch does not get the rework's lot", async () => {
@@ -173,16 +187,46 @@ function parseCsv(text: string): string[][] {
   while (i < text.length) {
     const ch = text[i];
     if (quoted) {
-      if (ch === '"' && text[i + 1] === '"') { field += '"'; i += 2; continue; }
-      if (ch === '"') { quoted = false; i += 1; continue; }
-      field += ch; i += 1; continue;
+      if (ch === '"' && text[i + 1] === '"') {
+        field += '"';
+        i += 2;
+        continue;
+      }
+      if (ch === '"') {
+        quoted = false;
+        i += 1;
+        continue;
+      }
+      field += ch;
+      i += 1;
+      continue;
     }
-    if (ch === '"') { quoted = true; i += 1; continue; }
-    if (ch === ',') { row.push(field); field = ''; i += 1; continue; }
-    if (ch === '\r' && text[i + 1] === '\n') { row.push(field); rows.push(row); row = []; field = ''; i += 2; continue; }
-    field += ch; i += 1;
+    if (ch === '"') {
+      quoted = true;
+      i += 1;
+      continue;
+    }
+    if (ch === ',') {
+      row.push(field);
+      field = '';
+      i += 1;
+      continue;
+    }
+    if (ch === '\r' && text[i + 1] === '\n') {
+      row.push(field);
+      rows.push(row);
+      row = [];
+      field = '';
+      i += 2;
+      continue;
+    }
+    field += ch;
+    i += 1;
   }
-  if (field !== '' || row.length > 0) { row.push(field); rows.push(row); }
+  if (field !== '' || row.length > 0) {
+    row.push(field);
+    rows.push(row);
+  }
   return rows;
 }
 
@@ -195,7 +239,12 @@ describe('containment list (GET /api/lots/:id/trace.csv)', () => {
     // RFC 4180 §2 rule 7: a double quote inside a quoted field is escaped by preceding it with another.
     expect(csvField('say "hi"')).toBe('"say ""hi"""');
     // RFC 4180 §2 rules 1-2: each record ends with CRLF (the last one may).
-    expect(toCsv([['a', 'b'], ['c', null]])).toBe('a,b\r\nc,\r\n');
+    expect(
+      toCsv([
+        ['a', 'b'],
+        ['c', null],
+      ]),
+    ).toBe('a,b\r\nc,\r\n');
     // OWASP "CSV Injection": a cell a spreadsheet would evaluate is prefixed with an apostrophe.
     expect(csvField('=SUM(A1)')).toBe("'=SUM(A1)");
     expect(parseCsv(toCsv([['x,y', 'q"q', 'n\r\nl']]))).toEqual([['x,y', 'q"q', 'n\r\nl']]);

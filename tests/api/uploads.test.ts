@@ -34,7 +34,10 @@ let assembler: TestUser;
 beforeAll(async () => {
   app = await startApp();
   [admin, clerk, quality, assembler] = await Promise.all([
-    ensureUser(['admin']), ensureUser(['receiving']), ensureUser(['quality']), ensureUser(['assembler']),
+    ensureUser(['admin']),
+    ensureUser(['receiving']),
+    ensureUser(['quality']),
+    ensureUser(['assembler']),
   ]);
 });
 afterAll(async () => {
@@ -69,11 +72,21 @@ describe('certificate of analysis upload', () => {
     const lot = await newLot();
     const bytes = pdfBytes('Lot B-2291, viscosity 2400 mPa·s');
     const res = await upload(app.baseUrl, `/api/lots/${lot.id}/certificate`, {
-      bytes, type: 'application/pdf', filename: 'CoA B-2291.pdf', fields: { expiresOn: '2027-01-31' }, token: clerk.token,
+      bytes,
+      type: 'application/pdf',
+      filename: 'CoA B-2291.pdf',
+      fields: { expiresOn: '2027-01-31' },
+      token: clerk.token,
     });
     expect(res.status).toBe(201);
     const { attachment, lot: updated } = certificateResultSchema.parse(res.body);
-    expect(attachment).toMatchObject({ kind: 'certificate', filename: 'CoA B-2291.pdf', mimeType: 'application/pdf', sizeBytes: bytes.length, uploadedBy: clerk.id });
+    expect(attachment).toMatchObject({
+      kind: 'certificate',
+      filename: 'CoA B-2291.pdf',
+      mimeType: 'application/pdf',
+      sizeBytes: bytes.length,
+      uploadedBy: clerk.id,
+    });
     // The digest is computed here independently with node:crypto (FIPS 180-4 SHA-256).
     expect(attachment.sha256).toBe(crypto.createHash('sha256').update(bytes).digest('hex'));
     expect(updated).toMatchObject({ certificateId: attachment.id, certificateExpiresOn: '2027-01-31' });
@@ -90,19 +103,38 @@ describe('certificate of analysis upload', () => {
 
     const detail = lotDetailSchema.parse((await as(assembler).get(`/api/lots/${lot.id}`)).body);
     expect(detail.certificate?.id).toBe(attachment.id);
-    const [audit] = await db.select().from(auditLog).where(eq(auditLog.entityId, lot.id)).orderBy(sql`${auditLog.id} DESC`).limit(1);
-    expect(audit).toMatchObject({ action: 'lot.certificate', before: { certificateId: null }, after: { certificateId: attachment.id, sha256: attachment.sha256 } });
+    const [audit] = await db
+      .select()
+      .from(auditLog)
+      .where(eq(auditLog.entityId, lot.id))
+      .orderBy(sql`${auditLog.id} DESC`)
+      .limit(1);
+    expect(audit).toMatchObject({
+      action: 'lot.certificate',
+      before: { certificateId: null },
+      after: { certificateId: attachment.id, sha256: attachment.sha256 },
+    });
   });
 
   it('accepts PNG and JPEG scans (quality too) and keeps a non-ASCII file name', async () => {
     const lot = await newLot();
-    const png = await upload(app.baseUrl, `/api/lots/${lot.id}/certificate`, { bytes: pngBytes(), type: 'image/png', filename: 'Prüfbericht.png', token: quality.token });
+    const png = await upload(app.baseUrl, `/api/lots/${lot.id}/certificate`, {
+      bytes: pngBytes(),
+      type: 'image/png',
+      filename: 'Prüfbericht.png',
+      token: quality.token,
+    });
     expect(png.status).toBe(201);
     expect(png.body.attachment.filename).toBe('Prüfbericht.png');
     const got = await download(png.body.attachment.id, clerk.token);
     expect(got.headers.get('content-type')).toBe('image/png');
     expect(got.headers.get('content-disposition')).toBe(`attachment; filename="Pr_fbericht.png"; filename*=UTF-8''Pr%C3%BCfbericht.png`);
-    const jpg = await upload(app.baseUrl, `/api/lots/${lot.id}/certificate`, { bytes: jpegBytes(), type: 'image/jpeg', filename: 'scan.jpg', token: clerk.token });
+    const jpg = await upload(app.baseUrl, `/api/lots/${lot.id}/certificate`, {
+      bytes: jpegBytes(),
+      type: 'image/jpeg',
+      filename: 'scan.jpg',
+      token: clerk.token,
+    });
     expect(jpg.status).toBe(201);
     const [row] = await db.select().from(lots).where(eq(lots.id, lot.id));
     expect(row.certificateId).toBe(jpg.body.attachment.id);
@@ -130,13 +162,33 @@ describe('certificate of analysis upload', () => {
       expect(res.status, JSON.stringify({ ...options, bytes: options.bytes.length })).toBe(status);
       expect([...new Set(fields(res.body))]).toEqual(named);
     }
-    const missing = await fetch(`${app.baseUrl}${target}`, { method: 'POST', body: (() => { const f = new FormData(); f.append('expiresOn', '2027-01-01'); return f; })(), headers: { authorization: `Bearer ${clerk.token}` } });
+    const missing = await fetch(`${app.baseUrl}${target}`, {
+      method: 'POST',
+      body: (() => {
+        const f = new FormData();
+        f.append('expiresOn', '2027-01-01');
+        return f;
+      })(),
+      headers: { authorization: `Bearer ${clerk.token}` },
+    });
     expect(missing.status).toBe(400);
     expect(fields(await missing.json())).toEqual(['file']);
     expect((await upload(app.baseUrl, target, { bytes: pdfBytes(), type: 'application/pdf' })).status).toBe(401);
     expect((await upload(app.baseUrl, target, { bytes: pdfBytes(), type: 'application/pdf', token: assembler.token })).status).toBe(403);
-    expect((await upload(app.baseUrl, `/api/lots/${crypto.randomUUID()}/certificate`, { bytes: pdfBytes(), type: 'application/pdf', token: clerk.token })).status).toBe(404);
-    expect(fields((await upload(app.baseUrl, '/api/lots/nope/certificate', { bytes: pdfBytes(), type: 'application/pdf', token: clerk.token })).body)).toEqual(['params.id']);
+    expect(
+      (
+        await upload(app.baseUrl, `/api/lots/${crypto.randomUUID()}/certificate`, {
+          bytes: pdfBytes(),
+          type: 'application/pdf',
+          token: clerk.token,
+        })
+      ).status,
+    ).toBe(404);
+    expect(
+      fields(
+        (await upload(app.baseUrl, '/api/lots/nope/certificate', { bytes: pdfBytes(), type: 'application/pdf', token: clerk.token })).body,
+      ),
+    ).toEqual(['params.id']);
     expect(await stored()).toEqual(before);
     const [row] = await db.select().from(lots).where(eq(lots.id, lot.id));
     expect(row.certificateId).toBeNull();
@@ -148,11 +200,15 @@ describe('storage clean-up', () => {
     const before = await stored();
     const bytes = pdfBytes();
     let written = '';
-    const failing = withStoredFile({ originalname: 'x.pdf', mimetype: 'application/pdf', size: bytes.length, buffer: bytes }, 'application/pdf', async ({ storagePath }) => {
-      written = storagePath;
-      expect(fs.existsSync(path.join(uploadDir, storagePath))).toBe(true);
-      throw new Error('the database refused the row');
-    });
+    const failing = withStoredFile(
+      { originalname: 'x.pdf', mimetype: 'application/pdf', size: bytes.length, buffer: bytes },
+      'application/pdf',
+      async ({ storagePath }) => {
+        written = storagePath;
+        expect(fs.existsSync(path.join(uploadDir, storagePath))).toBe(true);
+        throw new Error('the database refused the row');
+      },
+    );
     await expect(failing).rejects.toThrow('the database refused the row');
     expect(written).not.toBe('');
     expect(await stored()).toEqual(before);
@@ -163,9 +219,22 @@ describe('safety data sheet upload and downloads', () => {
   it('stores an SDS for a material (admin only)', async () => {
     const material = await newMaterial(as(admin), { hazards: { signalWord: 'Warning', pictograms: ['GHS07'], statements: ['H317'] } });
     const before = await stored();
-    expect((await upload(app.baseUrl, `/api/materials/${material.id}/sds`, { bytes: pdfBytes('SDS'), type: 'application/pdf', token: clerk.token })).status).toBe(403);
+    expect(
+      (
+        await upload(app.baseUrl, `/api/materials/${material.id}/sds`, {
+          bytes: pdfBytes('SDS'),
+          type: 'application/pdf',
+          token: clerk.token,
+        })
+      ).status,
+    ).toBe(403);
     expect(await stored()).toEqual(before);
-    const res = await upload(app.baseUrl, `/api/materials/${material.id}/sds`, { bytes: pdfBytes('SDS'), type: 'application/pdf', filename: 'sds.pdf', token: admin.token });
+    const res = await upload(app.baseUrl, `/api/materials/${material.id}/sds`, {
+      bytes: pdfBytes('SDS'),
+      type: 'application/pdf',
+      filename: 'sds.pdf',
+      token: admin.token,
+    });
     expect(res.status).toBe(201);
     expect(sdsUploadResultSchema.safeParse(res.body).success).toBe(true);
     expect(res.body.material.sdsAttachmentId).toBe(res.body.attachment.id);
@@ -176,6 +245,8 @@ describe('safety data sheet upload and downloads', () => {
   it('400 for a bad id, 404 for an unknown one', async () => {
     expect(fields((await as(assembler).get('/api/attachments/abc')).body)).toEqual(['params.id']);
     expect((await download(crypto.randomUUID(), assembler.token)).status).toBe(404);
-    expect(fields((await as(assembler).get(`/api/attachments/${crypto.randomUUID()}?disposition=open`)).body)).toEqual(['query.disposition']);
+    expect(fields((await as(assembler).get(`/api/attachments/${crypto.randomUUID()}?disposition=open`)).body)).toEqual([
+      'query.disposition',
+    ]);
   });
 });

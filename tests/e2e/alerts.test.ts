@@ -43,7 +43,9 @@ describe('alerts page', () => {
     expect(await page.locator('[data-test="watch-result"]').innerText()).toMatch(/compliance watch ran: \d+ new alerts? raised/);
 
     // The demo plant leaves a loaded mix past its pot life: critical, counted in the header.
-    await expect.poll(async () => Number(await page.locator('[data-test="alerts-critical-count"]').getAttribute('data-count'))).toBeGreaterThan(0);
+    await expect
+      .poll(async () => Number(await page.locator('[data-test="alerts-critical-count"]').getAttribute('data-count')))
+      .toBeGreaterThan(0);
     await filterKind('Pot life passed');
     await cards('pot_life_exceeded').first().waitFor();
     const potLife = cards('pot_life_exceeded').first();
@@ -59,7 +61,9 @@ describe('alerts page', () => {
     expect(await cards('quarantine_advised').first().locator('[data-test="alert-kind"]').innerText()).toBe('Quarantine advised');
     // The demo's suspect resin lot (EPA2611-7741) reads in one go; its figures are in the detail line.
     const suspect = cards('quarantine_advised').filter({ hasText: 'EPA2611-7741' }).first();
-    expect(await suspect.locator('[data-test="alert-message"]').innerText()).toMatch(/fails \d+\.\d % of drivers .* against a plant rate of \d+\.\d %; this /);
+    expect(await suspect.locator('[data-test="alert-message"]').innerText()).toMatch(
+      /fails \d+\.\d % of drivers .* against a plant rate of \d+\.\d %; this /,
+    );
     expect(await suspect.locator('[data-test="alert-message"]').innerText()).not.toMatch(/q = |p-chart/);
     expect(await suspect.locator('[data-test="alert-detail"]').innerText()).toMatch(/binomial test: p = .*q = .*p-chart upper limit/);
     // A lot's alert links to the lot page.
@@ -73,7 +77,10 @@ describe('alerts page', () => {
     await shot('alerts-quality');
 
     // Acknowledge an open alert: it stays live, now acknowledged.
-    const ackId = await cards().filter({ has: page.locator('[data-test="alert-acknowledge"]') }).first().getAttribute('data-alert-id');
+    const ackId = await cards()
+      .filter({ has: page.locator('[data-test="alert-acknowledge"]') })
+      .first()
+      .getAttribute('data-alert-id');
     const acknowledged = page.locator(`[data-alert-id="${ackId}"]`);
     await acknowledged.locator('[data-test="alert-acknowledge"]').click();
     await expect.poll(() => acknowledged.getAttribute('data-state')).toBe('acknowledged');
@@ -81,8 +88,9 @@ describe('alerts page', () => {
     // Who did it and when, in plant time.
     const name = ((await (await page.request.get('/api/auth/me')).json()) as { user: { name: string } }).user.name;
     const me = name.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
-    expect(await acknowledged.locator('[data-test="alert-acknowledged"]').innerText())
-      .toMatch(new RegExp(`^Acknowledged by ${me}, \\d{4}-\\d{2}-\\d{2} \\d{2}:\\d{2}$`));
+    expect(await acknowledged.locator('[data-test="alert-acknowledged"]').innerText()).toMatch(
+      new RegExp(`^Acknowledged by ${me}, \\d{4}-\\d{2}-\\d{2} \\d{2}:\\d{2}$`),
+    );
 
     // Resolve another: a too-short reason is refused at the field, a real one is recorded.
     const toResolve = page
@@ -109,7 +117,9 @@ describe('alerts page', () => {
     await resolved.waitFor();
     expect(await resolved.getAttribute('data-state')).toBe('resolved');
     expect(await resolved.locator('[data-test="alert-resolution"]').innerText()).toContain(reason);
-    expect(await resolved.locator('[data-test="alert-resolved-by"]').innerText()).toMatch(new RegExp(`^Resolved by ${me}, \\d{4}-\\d{2}-\\d{2} \\d{2}:\\d{2}:`));
+    expect(await resolved.locator('[data-test="alert-resolved-by"]').innerText()).toMatch(
+      new RegExp(`^Resolved by ${me}, \\d{4}-\\d{2}-\\d{2} \\d{2}:\\d{2}:`),
+    );
     await shot('alerts-resolved');
   });
 
@@ -120,7 +130,9 @@ describe('alerts page', () => {
     expect(await page.locator('[data-test="run-watch"]').count()).toBe(0);
     await filterKind('Below reorder point');
     await cards('below_reorder_point').first().waitFor();
-    expect(await cards('below_reorder_point').first().locator('[data-test="alert-message"]').innerText()).toMatch(/below the reorder point/);
+    expect(await cards('below_reorder_point').first().locator('[data-test="alert-message"]').innerText()).toMatch(
+      /below the reorder point/,
+    );
     await shot('alerts-purchasing');
     // Pot life concerns the floor and quality, not purchasing.
     await filterKind('Pot life passed');

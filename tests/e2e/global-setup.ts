@@ -82,9 +82,7 @@ function stopServer(child: ChildProcess): Promise<void> {
 export default async function setup(project: TestProject) {
   const databaseUrl = process.env.TACKLOG_E2E_DATABASE_URL;
   if (!databaseUrl) {
-    throw new Error(
-      'Browser tests need TACKLOG_E2E_DATABASE_URL: a migrated, demo-seeded database (npm test prepares one).',
-    );
+    throw new Error('Browser tests need TACKLOG_E2E_DATABASE_URL: a migrated, demo-seeded database (npm test prepares one).');
   }
   ensureClientBuilt();
 

@@ -39,7 +39,10 @@ async function expectButtonsInside(where: string) {
         if (el.closest('.q-drawer') && !el.closest('.q-drawer--on-top, .q-drawer--standard')) return false;
         return r.left < -1 || r.right > window.innerWidth + 1;
       })
-      .map((el) => `${(el.textContent ?? '').trim().slice(0, 30) || el.getAttribute('aria-label')} (${Math.round(el.getBoundingClientRect().left)}–${Math.round(el.getBoundingClientRect().right)})`),
+      .map(
+        (el) =>
+          `${(el.textContent ?? '').trim().slice(0, 30) || el.getAttribute('aria-label')} (${Math.round(el.getBoundingClientRect().left)}–${Math.round(el.getBoundingClientRect().right)})`,
+      ),
   );
   expect(outside, `${where}: buttons outside the screen`).toEqual([]);
 }
@@ -67,9 +70,12 @@ async function expectTablesFit(where: string) {
 
 /** Rows shown as stacked cards on a phone lie one below the other, never over each other. */
 async function expectRowsApart(selector: string, where: string) {
-  const boxes = await page.locator(selector).evaluateAll((els) => els.map((el) => el.getBoundingClientRect()).map((r) => ({ top: r.top, bottom: r.bottom })));
+  const boxes = await page
+    .locator(selector)
+    .evaluateAll((els) => els.map((el) => el.getBoundingClientRect()).map((r) => ({ top: r.top, bottom: r.bottom })));
   expect(boxes.length, `${where}: rows`).toBeGreaterThan(0);
-  for (let i = 1; i < boxes.length; i++) expect(boxes[i].top, `${where}: row ${i + 1} starts below row ${i}`).toBeGreaterThanOrEqual(boxes[i - 1].bottom - 1);
+  for (let i = 1; i < boxes.length; i++)
+    expect(boxes[i].top, `${where}: row ${i + 1} starts below row ${i}`).toBeGreaterThanOrEqual(boxes[i - 1].bottom - 1);
 }
 
 async function wedgeScan(code: string) {
@@ -79,7 +85,11 @@ async function wedgeScan(code: string) {
 
 async function feedbackIs(kind: string, title: RegExp) {
   await expect
-    .poll(async () => `${await page.locator('[data-test="feedback"]').getAttribute('data-kind')} ${await page.locator('[data-test="feedback-title"]').innerText()}`, { timeout: 15_000 })
+    .poll(
+      async () =>
+        `${await page.locator('[data-test="feedback"]').getAttribute('data-kind')} ${await page.locator('[data-test="feedback-title"]').innerText()}`,
+      { timeout: 15_000 },
+    )
     .toMatch(new RegExp(`^${kind} ${title.source}`));
 }
 
@@ -113,7 +123,14 @@ describe('station tablet, 1024×768', () => {
 
     await expectNoSidewaysScroll('station');
     await expectButtonsInside('station');
-    for (const selector of ['[data-test="station-scan"]', '[data-test="feedback"]', '[data-test="batch-code"]', '[data-test="start-step"]', '[data-test="finish-step"]', `[data-test="loaded-item"][data-code="${adhesive}"]`]) {
+    for (const selector of [
+      '[data-test="station-scan"]',
+      '[data-test="feedback"]',
+      '[data-test="batch-code"]',
+      '[data-test="start-step"]',
+      '[data-test="finish-step"]',
+      `[data-test="loaded-item"][data-code="${adhesive}"]`,
+    ]) {
       await expectInViewport(selector, 'station');
     }
     // The batch code stays on one line.
@@ -148,8 +165,14 @@ describe('station tablet, 1024×768', () => {
       const before = t.steps.find((s) => test && s.seq === test.seq - 1);
       // The demo cures two batches overnight; take the one that cures first (the plant-time test takes the other).
       const soonest = curing ? Date.parse(curing.steps.find((s) => s.state === 'curing')?.cureCompleteAt ?? '') : Number.POSITIVE_INFINITY;
-      if (before?.waitForCure && before.state === 'curing' && before.cureCompleteAt && Date.parse(before.cureCompleteAt) > Date.now() + 10 * 60_000
-        && Date.parse(before.cureCompleteAt) < soonest) curing = t;
+      if (
+        before?.waitForCure &&
+        before.state === 'curing' &&
+        before.cureCompleteAt &&
+        Date.parse(before.cureCompleteAt) > Date.now() + 10 * 60_000 &&
+        Date.parse(before.cureCompleteAt) < soonest
+      )
+        curing = t;
     }
     expect(curing, 'the demo has a batch curing before its final test').not.toBeNull();
 
@@ -163,7 +186,9 @@ describe('station tablet, 1024×768', () => {
     const gate = page.locator('[data-test="cure-block"]');
     await gate.waitFor();
     // "Ready 16:56, in 11 h 42 min" today, or "Ready Thu 07:25, in 27 h 10 min" on another day (shared/plant-time formatWhen).
-    expect(await page.locator('[data-test="cure-ready"]').innerText()).toMatch(/^(?:(?:Mon|Tue|Wed|Thu|Fri|Sat|Sun) )?\d{2}:\d{2}, in (?:\d+ h(?: \d+ min)?|\d+ min|\d+ d(?: \d+ h)?)$/);
+    expect(await page.locator('[data-test="cure-ready"]').innerText()).toMatch(
+      /^(?:(?:Mon|Tue|Wed|Thu|Fri|Sat|Sun) )?\d{2}:\d{2}, in (?:\d+ h(?: \d+ min)?|\d+ min|\d+ d(?: \d+ h)?)$/,
+    );
     expect(await page.locator('[data-test="start-step"]').isDisabled()).toBe(true);
     expect(await page.locator('[data-test="start-why-not"]').innerText()).toMatch(/Start waits for the cure: ready .+, in /);
     await expectInViewport('[data-test="cure-block"]', 'cure gate');
@@ -177,10 +202,9 @@ describe('station tablet, 1024×768', () => {
     await signInAs(page, 'assembler@tacklog.test');
     const stations = await json<{ items: { id: string; code: string }[] }>(page.request, '/api/stations');
     const bench = stations.items.find((s) => s.code === 'ST-MOV-1')!;
-    const loaded = await json<{ items: { batchCode: string; mix: { code: string } | null; lot: { supplierLot: string }; partLot: { supplierLot: string } | null }[] }>(
-      page.request,
-      `/api/stations/${bench.id}/loaded`,
-    );
+    const loaded = await json<{
+      items: { batchCode: string; mix: { code: string } | null; lot: { supplierLot: string }; partLot: { supplierLot: string } | null }[];
+    }>(page.request, `/api/stations/${bench.id}/loaded`);
     const mixLoad = loaded.items.find((l) => l.mix);
     expect(mixLoad, 'the demo has a mix loaded at ST-MOV-1').toBeTruthy();
 
@@ -213,7 +237,9 @@ describe('station tablet, 1024×768', () => {
     await page.locator('[data-test="home-page"]').waitFor();
     expect(await page.locator('[data-test="safety-caution"]').count()).toBe(0);
     await page.locator('[data-test="help-open"]').click();
-    expect(await page.locator('[data-test="help-dialog"] [data-test="safety-note"]').innerText()).toMatch(/safety data sheet, local regulations/i);
+    expect(await page.locator('[data-test="help-dialog"] [data-test="safety-note"]').innerText()).toMatch(
+      /safety data sheet, local regulations/i,
+    );
   });
 });
 
@@ -303,9 +329,9 @@ describe('office screens, 1024 and 1440 wide', () => {
       const headers = await page.locator('[data-test="lots-table"] thead th').allInnerTexts();
       for (const key of ['Status', 'Expiry', 'On hand']) expect(headers.join('|')).toContain(key);
       // Filter labels are readable, not cut ("Mater…").
-      const cut = await page.locator('[data-test="lot-filters"] .q-field__label').evaluateAll((els) =>
-        els.filter((el) => el.scrollWidth > el.clientWidth + 1).map((el) => el.textContent),
-      );
+      const cut = await page
+        .locator('[data-test="lot-filters"] .q-field__label')
+        .evaluateAll((els) => els.filter((el) => el.scrollWidth > el.clientWidth + 1).map((el) => el.textContent));
       expect(cut).toEqual([]);
       await shot(`layout-lots-${width}`);
 
@@ -329,7 +355,11 @@ describe('office screens, 1024 and 1440 wide', () => {
     await page.locator('[data-test="lots-table"] tbody tr').first().waitFor();
     // An in-app navigation (a link or a bookmark inside the app) to the materials catalogue.
     await page.evaluate(() => {
-      const app = (document.querySelector('#q-app') as unknown as { __vue_app__: { config: { globalProperties: { $router: { push: (p: string) => Promise<unknown> } } } } }).__vue_app__;
+      const app = (
+        document.querySelector('#q-app') as unknown as {
+          __vue_app__: { config: { globalProperties: { $router: { push: (p: string) => Promise<unknown> } } } };
+        }
+      ).__vue_app__;
       return app.config.globalProperties.$router.push('/catalogue/materials');
     });
     const notAllowed = page.locator('[data-test="not-allowed-page"]');

@@ -24,7 +24,9 @@ async function tokenFor(email: string): Promise<string> {
   return ((await res.json()) as { token: string }).token;
 }
 
-interface MailBody { items: { id: string; subject: string; status: string; captured: number; to: string[] }[] }
+interface MailBody {
+  items: { id: string; subject: string; status: string; captured: number; to: string[] }[];
+}
 
 /** Runs the watch (the demo plant has a mix past its pot life) and waits for quality's alert e-mail to be caught. */
 async function caughtAlertMail(): Promise<MailBody['items'][number]> {
@@ -34,12 +36,17 @@ async function caughtAlertMail(): Promise<MailBody['items'][number]> {
   const quality = await tokenFor('quality@tacklog.test');
   let found: MailBody['items'][number] | undefined;
   await expect
-    .poll(async () => {
-      const res = await fetch(`${baseUrl}/api/mail?kind=alert&status=sent&limit=200`, { headers: { authorization: `Bearer ${quality}` } });
-      const body = (await res.json()) as MailBody;
-      found = body.items.find((m) => m.subject.includes('Pot life passed') && m.captured === 1);
-      return Boolean(found);
-    }, { timeout: 30_000 })
+    .poll(
+      async () => {
+        const res = await fetch(`${baseUrl}/api/mail?kind=alert&status=sent&limit=200`, {
+          headers: { authorization: `Bearer ${quality}` },
+        });
+        const body = (await res.json()) as MailBody;
+        found = body.items.find((m) => m.subject.includes('Pot life passed') && m.captured === 1);
+        return Boolean(found);
+      },
+      { timeout: 30_000 },
+    )
     .toBe(true);
   return found!;
 }
@@ -53,7 +60,9 @@ describe('mailbox', () => {
     await page.locator('[data-test="user-menu"]').click();
     await page.locator('[data-test="menu-mailbox"]').click();
     await page.locator('[data-test="mailbox-page"]').waitFor();
-    expect(await page.locator('[data-test="mail-transport"]').innerText()).toMatch(/local mail catcher on 127\.0\.0\.1:\d+: nothing leaves this machine/);
+    expect(await page.locator('[data-test="mail-transport"]').innerText()).toMatch(
+      /local mail catcher on 127\.0\.0\.1:\d+: nothing leaves this machine/,
+    );
 
     await page.locator(`[data-test="mail-item-${mail.id}"]`).click();
     const view = page.locator('[data-test="mail-message"]');

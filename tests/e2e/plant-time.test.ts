@@ -14,8 +14,14 @@ const PLANT_ZONE = 'Europe/Berlin';
 const BROWSER_ZONE = 'America/New_York';
 
 interface CureItem {
-  batchId: string; batchCode: string; stepName: string; cureCompleteAt: string; ready: boolean; waitForCure: boolean;
-  serial: string | null; nextStep: { id: string; seq: number; name: string } | null;
+  batchId: string;
+  batchCode: string;
+  stepName: string;
+  cureCompleteAt: string;
+  ready: boolean;
+  waitForCure: boolean;
+  serial: string | null;
+  nextStep: { id: string; seq: number; name: string } | null;
 }
 
 /**
@@ -24,7 +30,13 @@ interface CureItem {
  */
 function wallClock(iso: string, zone: string): { date: string; time: string } {
   const parts = new Intl.DateTimeFormat('en-GB', {
-    timeZone: zone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23',
+    timeZone: zone,
+    year: 'numeric',
+    month: '2-digit',
+    day: '2-digit',
+    hour: '2-digit',
+    minute: '2-digit',
+    hourCycle: 'h23',
   }).formatToParts(new Date(iso));
   const p = (type: string) => parts.find((x) => x.type === type)!.value;
   return { date: `${p('year')}-${p('month')}-${p('day')}`, time: `${p('hour')}:${p('minute')}` };
@@ -78,7 +90,10 @@ describe('plant time', () => {
     const { batchId, batchCode, nextStep } = cure!;
     const traveler = await json<{ steps: { id: string; stationKind: string }[] }>(assembler, `/api/batches/${batchId}`);
     const kind = traveler.steps.find((s) => s.id === nextStep!.id)!.stationKind;
-    const stations = await json<{ id: string; code: string; kind: string }[] | { items: { id: string; code: string; kind: string }[] }>(assembler, '/api/stations');
+    const stations = await json<{ id: string; code: string; kind: string }[] | { items: { id: string; code: string; kind: string }[] }>(
+      assembler,
+      '/api/stations',
+    );
     const station = (Array.isArray(stations) ? stations : stations.items).find((s) => s.kind === kind)!;
     expect(station, `a station of kind ${kind}`).toBeTruthy();
 
@@ -113,7 +128,10 @@ describe('plant time', () => {
 
     // 3. Quality signs an early start, the assembler starts the step, the watch raises a short-cure alert.
     await json(quality, '/api/deviations', {
-      batchId, stepId: nextStep!.id, kind: 'early_start', reason: 'Browser test: early start to check the plant-time wording.',
+      batchId,
+      stepId: nextStep!.id,
+      kind: 'early_start',
+      reason: 'Browser test: early start to check the plant-time wording.',
     });
     await json(assembler, `/api/batches/${batchId}/steps/${nextStep!.id}/start`, { stationId: station.id });
     await json(quality, '/api/compliance/run', {});
@@ -142,7 +160,13 @@ describe('plant time', () => {
   it('greets by the plant hour', async () => {
     const greetingAt = () => {
       const hour = Number(wallClock(new Date().toISOString(), PLANT_ZONE).time.slice(0, 2));
-      return hour >= 5 && hour < 12 ? 'Good morning' : hour >= 12 && hour < 18 ? 'Good afternoon' : hour >= 18 && hour < 23 ? 'Good evening' : 'Hello';
+      return hour >= 5 && hour < 12
+        ? 'Good morning'
+        : hour >= 12 && hour < 18
+          ? 'Good afternoon'
+          : hour >= 18 && hour < 23
+            ? 'Good evening'
+            : 'Hello';
     };
     const before = greetingAt();
     const { page } = await openPage('quality@tacklog.test', { width: 1440, height: 900 });

@@ -19,8 +19,12 @@ describe('quality overview page', () => {
     // Both charts are ECharts canvases inside their containers.
     await page.locator('[data-test="p-chart"] canvas').waitFor();
     await page.locator('[data-test="pareto-chart"] canvas').waitFor();
-    expect(await page.locator('[data-test="p-chart"]').getAttribute('aria-label')).toMatch(/failure fraction of \d+ lots against the baseline; \d+ flagged/);
-    expect(await page.locator('[data-test="pareto-chart"]').getAttribute('aria-label')).toMatch(/^Failures by defect: \d+ failures in \d+ defects/);
+    expect(await page.locator('[data-test="p-chart"]').getAttribute('aria-label')).toMatch(
+      /failure fraction of \d+ lots against the baseline; \d+ flagged/,
+    );
+    expect(await page.locator('[data-test="pareto-chart"]').getAttribute('aria-label')).toMatch(
+      /^Failures by defect: \d+ failures in \d+ defects/,
+    );
 
     // The lots table beside the p-chart has rows with rates, p-values and a judgement in words.
     const rows = page.locator('[data-test="pchart-lots"] tbody tr[data-test^="pchart-lot-"]');
@@ -32,7 +36,9 @@ describe('quality overview page', () => {
 
     // The baseline in words, with where it comes from.
     expect(await page.locator('[data-test="baseline-rate-shown"]').innerText()).toMatch(/^\d+(\.\d+)? %$/);
-    expect(await page.locator('[data-test="baseline-source"]').innerText()).toMatch(/(set by hand|computed from recent final tests|plant default)/);
+    expect(await page.locator('[data-test="baseline-source"]').innerText()).toMatch(
+      /(set by hand|computed from recent final tests|plant default)/,
+    );
     await keepScreenshot(page, 'quality-overview');
 
     // A flagged lot ("quarantine advised") links to its forward trace: the drivers built with it.
@@ -57,7 +63,9 @@ describe('quality overview page', () => {
     expect(dialog).toMatch(/Rate must be a number of percent/);
     await page.locator('[data-test="baseline-rate"]').fill('2.5');
     await page.locator('[data-test="baseline-confirm"]').click();
-    await page.waitForFunction(() => /Reason must say why/.test(document.querySelector('[data-test="baseline-dialog"]')?.textContent ?? ''));
+    await page.waitForFunction(() =>
+      /Reason must say why/.test(document.querySelector('[data-test="baseline-dialog"]')?.textContent ?? ''),
+    );
     await page.locator('[data-test="baseline-dialog"]').getByRole('button', { name: 'Cancel' }).click();
   });
 

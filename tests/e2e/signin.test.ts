@@ -40,9 +40,9 @@ function registeredRoutes(names: string[]): Promise<string[]> {
 }
 
 async function navItemsShown(): Promise<string[]> {
-  const hooks = await page.locator('[data-test="nav"] [data-test^="nav-"]').evaluateAll((els) =>
-    els.map((el) => el.getAttribute('data-test') ?? ''),
-  );
+  const hooks = await page
+    .locator('[data-test="nav"] [data-test^="nav-"]')
+    .evaluateAll((els) => els.map((el) => el.getAttribute('data-test') ?? ''));
   return hooks.map((hook) => hook.replace(/^nav-/, '')).sort();
 }
 
@@ -62,7 +62,8 @@ describe('sign-in', () => {
       expect(await page.locator(`[data-test="role-panel-${account.role}"]`).count()).toBe(1);
 
       // The drawer shows exactly the items this role may use whose routes exist; other roles' items never.
-      const mayUse = (item: (typeof NAV_ITEMS)[number]) => !item.permission || actionsOf(item.permission).some((a) => can([account.role], a));
+      const mayUse = (item: (typeof NAV_ITEMS)[number]) =>
+        !item.permission || actionsOf(item.permission).some((a) => can([account.role], a));
       const allowed = NAV_ITEMS.filter(mayUse).map((i) => i.to);
       const forbidden = NAV_ITEMS.filter((item) => !mayUse(item)).map((i) => i.to);
       const expected = (await registeredRoutes(allowed)).sort();

@@ -10,7 +10,8 @@ import { containerOf as containerOfMaterial, json } from '../helpers/demo-stock'
  * ADH-AN-220 and ACT-220.
  */
 const baseUrl = inject('baseUrl');
-const containerOf = (request: APIRequestContext, materialCode: string, atLeast = 10) => containerOfMaterial(baseUrl, request, materialCode, atLeast);
+const containerOf = (request: APIRequestContext, materialCode: string, atLeast = 10) =>
+  containerOfMaterial(baseUrl, request, materialCode, atLeast);
 
 let page: Page;
 let external: string[];
@@ -24,12 +25,17 @@ async function wedgeScan(code: string) {
 const feedback = () => page.locator('[data-test="feedback"]');
 
 async function expectFeedback(kind: string, title: RegExp) {
-  await expect.poll(async () => `${await feedback().getAttribute('data-kind')} ${await page.locator('[data-test="feedback-title"]').innerText()}`, { timeout: 15_000 })
+  await expect
+    .poll(async () => `${await feedback().getAttribute('data-kind')} ${await page.locator('[data-test="feedback-title"]').innerText()}`, {
+      timeout: 15_000,
+    })
     .toMatch(new RegExp(`^${kind} ${title.source}`));
 }
 
 async function scanFieldHasFocus(): Promise<boolean> {
-  return page.evaluate(() => document.activeElement?.tagName === 'INPUT' && document.activeElement.closest('[data-test="station-scan"]') !== null);
+  return page.evaluate(
+    () => document.activeElement?.tagName === 'INPUT' && document.activeElement.closest('[data-test="station-scan"]') !== null,
+  );
 }
 
 beforeAll(async () => {
@@ -54,7 +60,9 @@ describe('station screen', () => {
     const models = await json<{ items: { id: string; code: string }[] }>(request, '/api/models');
     const hb12w = models.items.find((m) => m.code === 'HB12W');
     expect(hb12w, 'demo model HB12W').toBeTruthy();
-    const created = await json<{ batch: { id: string; code: string } }>(request, '/api/batches', { data: { modelId: hb12w!.id, quantity: 4 } });
+    const created = await json<{ batch: { id: string; code: string } }>(request, '/api/batches', {
+      data: { modelId: hb12w!.id, quantity: 4 },
+    });
     // The first step of HB12W uses all four; 4 units need at most 4.8 of each (recipe amounts).
     const adhesive = await containerOf(request, 'ADH-AN-220');
     const activator = await containerOf(request, 'ACT-220');
@@ -90,14 +98,18 @@ describe('station screen', () => {
     expect(await countdown.innerText()).toMatch(/ends in \d+ (d|h|min)/);
     expect(['ok', 'soon']).toContain(await countdown.getAttribute('data-tone'));
     await page.locator('[data-test="station-hazards"] [data-test="ghs-GHS07"]').waitFor();
-    expect(await page.locator('[data-test="station-hazards"] [data-test="safety-note"]').innerText()).toMatch(/safety data sheet, local regulations/i);
+    expect(await page.locator('[data-test="station-hazards"] [data-test="safety-note"]').innerText()).toMatch(
+      /safety data sheet, local regulations/i,
+    );
     await page.screenshot({ path: '/tmp/station-accept.png', fullPage: true });
 
     // 4. A wrong material: refused with the server's reason text and code; nothing more is loaded.
     await wedgeScan(cone);
     await expectFeedback('refuse', /Refused: wrong material/);
     expect(await page.locator('[data-test="feedback-word"]').innerText()).toBe('REFUSED');
-    expect(await page.locator('[data-test="feedback-message"]').innerText()).toMatch(/Wrong material: container .* is Paper cone, 12 in, but step "Magnet assembly" uses/);
+    expect(await page.locator('[data-test="feedback-message"]').innerText()).toMatch(
+      /Wrong material: container .* is Paper cone, 12 in, but step "Magnet assembly" uses/,
+    );
     // The code is for scripts (data-code), never shown: people read the title and the reason.
     expect(await page.locator('[data-test="feedback"]').getAttribute('data-code')).toBe('WRONG_MATERIAL');
     expect(await page.locator('[data-test="feedback"]').innerText()).not.toContain('WRONG_MATERIAL');
@@ -136,10 +148,9 @@ describe('station screen', () => {
     await expect.poll(scanFieldHasFocus, { timeout: 5000 }).toBe(true);
 
     // The server agrees: the step ran at ST-MAG-1 with the containers loaded there.
-    const traveler = await json<{ steps: { name: string; state: string; run: { materials: { containerCode: string | null }[] } | null }[] }>(
-      request,
-      `/api/batches/${created.batch.id}`,
-    );
+    const traveler = await json<{
+      steps: { name: string; state: string; run: { materials: { containerCode: string | null }[] } | null }[];
+    }>(request, `/api/batches/${created.batch.id}`);
     const magnetStep = traveler.steps.find((s) => s.name === 'Magnet assembly')!;
     expect(['done', 'curing']).toContain(magnetStep.state);
     expect(magnetStep.run!.materials.map((m) => m.containerCode)).toContain(adhesive);

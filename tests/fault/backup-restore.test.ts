@@ -23,7 +23,11 @@ function npmRun(command: 'backup' | 'restore', args: string[] = []): Promise<{ c
     const env: NodeJS.ProcessEnv = { ...process.env, TACKLOG_DATA_DIR: dataDir, TACKLOG_PG_PORT: String(app.pgPort) };
     delete env.DATABASE_URL;
     delete env.INIT_CWD;
-    const child = spawn(process.execPath, [path.join(root, 'scripts', 'bootstrap.mjs'), command, ...args], { cwd: root, env, stdio: ['ignore', 'pipe', 'pipe'] });
+    const child = spawn(process.execPath, [path.join(root, 'scripts', 'bootstrap.mjs'), command, ...args], {
+      cwd: root,
+      env,
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
     let output = '';
     child.stdout.on('data', (d: Buffer) => (output += d.toString()));
     child.stderr.on('data', (d: Buffer) => (output += d.toString()));

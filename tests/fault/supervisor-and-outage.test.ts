@@ -47,7 +47,11 @@ function startLoad(baseUrl: string, token: string, modelId: string, area: string
         ? { modelId, quantity: 2 }
         : { area, at: new Date(Date.UTC(2026, 0, 1) + i * 1000).toISOString(), tempC: 20 + (i % 50) / 10 };
     try {
-      const res = await fetch(`${baseUrl}${kind === 'batch' ? '/api/batches' : '/api/readings'}`, { method: 'POST', headers, body: JSON.stringify(body) });
+      const res = await fetch(`${baseUrl}${kind === 'batch' ? '/api/batches' : '/api/readings'}`, {
+        method: 'POST',
+        headers,
+        body: JSON.stringify(body),
+      });
       const text = await res.text();
       let parsed: { id?: string; batch?: { id: string }; error?: { code: string } } = {};
       try {
@@ -258,12 +262,18 @@ describe('PostgreSQL stopped and started under load', () => {
     expect(health.headers.get('retry-after')).toMatch(/^\d+$/);
     pgCtl(dataDir, 'start');
     const startedAt = Date.now();
-    await until(() => load.count((o) => o.status >= 200 && o.status < 300 && o.at > startedAt) >= 30, '30 answered writes after PostgreSQL is back');
+    await until(
+      () => load.count((o) => o.status >= 200 && o.status < 300 && o.at > startedAt) >= 30,
+      '30 answered writes after PostgreSQL is back',
+    );
     await load.stop();
     await keyed.stop();
 
     // Never an answer other than 2xx or 503 DB_UNAVAILABLE + Retry-After, never a dropped connection.
-    const unexpected = load.outcomes.filter((o) => !((o.status >= 200 && o.status < 300) || (o.status === 503 && o.code === 'DB_UNAVAILABLE' && /^\d+$/.test(o.retryAfter ?? ''))));
+    const unexpected = load.outcomes.filter(
+      (o) =>
+        !((o.status >= 200 && o.status < 300) || (o.status === 503 && o.code === 'DB_UNAVAILABLE' && /^\d+$/.test(o.retryAfter ?? ''))),
+    );
     expect(unexpected).toEqual([]);
     // The same server process throughout: no crash, no restart.
     expect(a.serverPid()).toBe(server);
@@ -273,8 +283,20 @@ describe('PostgreSQL stopped and started under load', () => {
     expect((await fetch(`${a.baseUrl}/api/health`)).status).toBe(200);
 
     const ok = load.outcomes.filter((o) => o.status >= 200 && o.status < 300);
-    expect(await missingIds(a.databaseUrl, 'readings', ok.filter((o) => o.kind === 'reading').map((o) => o.id!))).toEqual([]);
-    expect(await missingIds(a.databaseUrl, 'build_batches', ok.filter((o) => o.kind === 'batch').map((o) => o.id!))).toEqual([]);
+    expect(
+      await missingIds(
+        a.databaseUrl,
+        'readings',
+        ok.filter((o) => o.kind === 'reading').map((o) => o.id!),
+      ),
+    ).toEqual([]);
+    expect(
+      await missingIds(
+        a.databaseUrl,
+        'build_batches',
+        ok.filter((o) => o.kind === 'batch').map((o) => o.id!),
+      ),
+    ).toEqual([]);
 
     // Keyed writes repeated through the outage: each applied exactly once.
     expect(keyed.problems).toEqual([]);

@@ -48,7 +48,9 @@ export interface PageOptions {
 export async function newPage(baseUrl: string, browser?: Browser, options: PageOptions = {}): Promise<Page> {
   const b = browser ?? (await sharedBrowser());
   const context = await b.newContext({
-    baseURL: baseUrl, viewport: options.viewport ?? { width: 1366, height: 860 }, locale: 'en-GB',
+    baseURL: baseUrl,
+    viewport: options.viewport ?? { width: 1366, height: 860 },
+    locale: 'en-GB',
     ...(options.timezoneId ? { timezoneId: options.timezoneId } : {}),
   });
   return context.newPage();

@@ -64,10 +64,7 @@ function hashOnce(password: string): Promise<string> {
  * A test user with exactly `roles`, created or brought up to date (roles, password, active).
  * The default e-mail follows from the roles, so `ensureUser(['admin'])` twice is one user.
  */
-export async function ensureUser(
-  roles: Role[],
-  options: { email?: string; name?: string; password?: string } = {},
-): Promise<TestUser> {
+export async function ensureUser(roles: Role[], options: { email?: string; name?: string; password?: string } = {}): Promise<TestUser> {
   await migrateTestDatabase();
   const label = roles.length > 0 ? [...roles].sort().join('-') : 'no-role';
   const email = (options.email ?? `test-${label}@tacklog.test`).toLowerCase();
@@ -77,11 +74,20 @@ export async function ensureUser(
   const values = { name, passwordHash, roles, active: true, updatedAt: new Date() };
 
   const findId = async () =>
-    (await db.select({ id: users.id }).from(users).where(eq(sql`lower(${users.email})`, email)).limit(1))[0]?.id;
+    (
+      await db
+        .select({ id: users.id })
+        .from(users)
+        .where(eq(sql`lower(${users.email})`, email))
+        .limit(1)
+    )[0]?.id;
   let id = await findId();
   if (!id) {
     try {
-      [{ id }] = await db.insert(users).values({ email, ...values }).returning({ id: users.id });
+      [{ id }] = await db
+        .insert(users)
+        .values({ email, ...values })
+        .returning({ id: users.id });
     } catch (err) {
       // Another test made the same user in between: use it.
       id = await findId();

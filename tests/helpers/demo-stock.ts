@@ -12,7 +12,12 @@ export async function json<T>(request: APIRequestContext, path: string, init?: {
   return (await response.json()) as T;
 }
 
-interface ContainerRow { code: string; status: string; remaining: number; effectiveExpiry: string | null }
+interface ContainerRow {
+  code: string;
+  status: string;
+  remaining: number;
+  effectiveExpiry: string | null;
+}
 
 /** Usable containers (released lot, not empty, not expired within the hour) of a material. */
 export async function usableContainers(request: APIRequestContext, materialCode: string, atLeast = 10): Promise<string[]> {
@@ -49,12 +54,17 @@ export async function containerOf(baseUrl: string, request: APIRequestContext, m
     const suppliers = await json<{ items: { id: string }[] }>(receiving, '/api/suppliers');
     const received = await json<{ lot: { id: string; status: string }; containers: { code: string }[] }>(receiving, '/api/lots', {
       data: {
-        materialId: materials.items.find((m) => m.code === materialCode)!.id, supplierId: suppliers.items[0].id,
-        supplierLot: `E2E-${materialCode}-${Date.now()}`, containers: 1, quantityPerContainer: 100,
+        materialId: materials.items.find((m) => m.code === materialCode)!.id,
+        supplierId: suppliers.items[0].id,
+        supplierLot: `E2E-${materialCode}-${Date.now()}`,
+        containers: 1,
+        quantityPerContainer: 100,
       },
     });
     if (received.lot.status !== 'released') {
-      await json(quality, `/api/lots/${received.lot.id}/status`, { data: { status: 'released', reason: 'Incoming inspection passed (browser test).' } });
+      await json(quality, `/api/lots/${received.lot.id}/status`, {
+        data: { status: 'released', reason: 'Incoming inspection passed (browser test).' },
+      });
     }
     return received.containers[0].code;
   } finally {

@@ -16,8 +16,22 @@ import crypto from 'node:crypto';
 import { eq } from 'drizzle-orm';
 import { db } from '../../server/db/client';
 import {
-  buildBatches, containers, driverModels, drivers, lots, materials, mixes, readings, recipeStepMaterials, recipeSteps,
-  stationLoads, stations, stepRunMaterials, stepRuns, suppliers, type CureProfileJson,
+  buildBatches,
+  containers,
+  driverModels,
+  drivers,
+  lots,
+  materials,
+  mixes,
+  readings,
+  recipeStepMaterials,
+  recipeSteps,
+  stationLoads,
+  stations,
+  stepRunMaterials,
+  stepRuns,
+  suppliers,
+  type CureProfileJson,
 } from '../../server/db/schema';
 import type { ContainerStatus, LotStatus, MaterialKind, StorageClass } from '../../shared/constants';
 
@@ -30,7 +44,10 @@ export const ymd = (d: Date): string => d.toISOString().slice(0, 10);
 
 export async function createSupplier(name = 'Brackenridge Adhesive Works') {
   const s = sfx();
-  const [row] = await db.insert(suppliers).values({ code: `SUP-${s}`, name: `${name} ${s}` }).returning();
+  const [row] = await db
+    .insert(suppliers)
+    .values({ code: `SUP-${s}`, name: `${name} ${s}` })
+    .returning();
   return row;
 }
 
@@ -132,7 +149,14 @@ export async function createStation(st: { kind?: string; area?: string; active?:
   const s = sfx();
   const [row] = await db
     .insert(stations)
-    .values({ code: `ST-${s}`, name: `Test station ${s}`, kind: st.kind ?? `kind-${s}`, area: st.area ?? `area-${s}`, active: st.active ?? true, cureEnvironment: st.cureEnvironment ?? 'area' })
+    .values({
+      code: `ST-${s}`,
+      name: `Test station ${s}`,
+      kind: st.kind ?? `kind-${s}`,
+      area: st.area ?? `area-${s}`,
+      active: st.active ?? true,
+      cureEnvironment: st.cureEnvironment ?? 'area',
+    })
     .returning();
   return row;
 }
@@ -146,15 +170,26 @@ export interface StepFixture {
 
 export async function createModel(m: { steps: StepFixture[]; code?: string }) {
   const s = sfx();
-  const [model] = await db.insert(driverModels).values({ code: m.code ?? `TM${s}`, name: `Test woofer ${s}` }).returning();
+  const [model] = await db
+    .insert(driverModels)
+    .values({ code: m.code ?? `TM${s}`, name: `Test woofer ${s}` })
+    .returning();
   const steps = [];
   for (const [i, st] of m.steps.entries()) {
     const [row] = await db
       .insert(recipeSteps)
-      .values({ modelId: model.id, seq: i + 1, name: st.name ?? `Step ${i + 1}`, stationKind: st.stationKind, waitForCure: st.waitForCure ?? false })
+      .values({
+        modelId: model.id,
+        seq: i + 1,
+        name: st.name ?? `Step ${i + 1}`,
+        stationKind: st.stationKind,
+        waitForCure: st.waitForCure ?? false,
+      })
       .returning();
     if (st.materials?.length) {
-      await db.insert(recipeStepMaterials).values(st.materials.map((x) => ({ stepId: row.id, materialId: x.materialId, amountPerUnit: String(x.amountPerUnit) })));
+      await db
+        .insert(recipeStepMaterials)
+        .values(st.materials.map((x) => ({ stepId: row.id, materialId: x.materialId, amountPerUnit: String(x.amountPerUnit) })));
     }
     steps.push(row);
   }
@@ -202,7 +237,12 @@ export async function createStepRun(r: {
     .returning();
   if (r.used?.length) {
     await db.insert(stepRunMaterials).values(
-      r.used.map((u) => ({ stepRunId: run.id, containerId: u.containerId ?? null, mixId: u.mixId ?? null, quantityUsed: u.quantity.toFixed(3) })),
+      r.used.map((u) => ({
+        stepRunId: run.id,
+        containerId: u.containerId ?? null,
+        mixId: u.mixId ?? null,
+        quantityUsed: u.quantity.toFixed(3),
+      })),
     );
   }
   return run;
@@ -212,7 +252,13 @@ export async function createStepRun(r: {
 export async function createStationReading(stationId: string, at: Date, r: { tempC?: number; irradianceMWcm2?: number }) {
   const [row] = await db
     .insert(readings)
-    .values({ stationId, at, tempC: r.tempC === undefined ? null : r.tempC.toFixed(2), irradianceMWcm2: r.irradianceMWcm2 === undefined ? null : r.irradianceMWcm2.toFixed(2), source: 'fixture' })
+    .values({
+      stationId,
+      at,
+      tempC: r.tempC === undefined ? null : r.tempC.toFixed(2),
+      irradianceMWcm2: r.irradianceMWcm2 === undefined ? null : r.irradianceMWcm2.toFixed(2),
+      source: 'fixture',
+    })
     .returning();
   return row;
 }
@@ -255,7 +301,13 @@ export async function createMix(m: {
 export async function createStationLoad(l: { stationId: string; batchId: string; containerId?: string; mixId?: string; loadedAt?: Date }) {
   const [row] = await db
     .insert(stationLoads)
-    .values({ stationId: l.stationId, batchId: l.batchId, containerId: l.containerId ?? null, mixId: l.mixId ?? null, loadedAt: l.loadedAt ?? new Date() })
+    .values({
+      stationId: l.stationId,
+      batchId: l.batchId,
+      containerId: l.containerId ?? null,
+      mixId: l.mixId ?? null,
+      loadedAt: l.loadedAt ?? new Date(),
+    })
     .returning();
   return row;
 }

@@ -139,8 +139,11 @@ export function pgCtl(dataDir: string, action: 'stop' | 'start'): void {
   const bin = findPgBin();
   if (!bin) throw new Error('PostgreSQL binaries not found');
   const pgDir = path.join(dataDir, 'pg');
-  const args = action === 'stop' ? ['-D', pgDir, '-m', 'fast', '-w', 'stop'] : ['-D', pgDir, '-l', path.join(pgDir, 'server.log'), '-w', 'restart'];
-  const [cmd, cmdArgs] = isRoot() ? ['runuser', ['-u', 'postgres', '--', path.join(bin, 'pg_ctl'), ...args]] : [path.join(bin, 'pg_ctl'), args];
+  const args =
+    action === 'stop' ? ['-D', pgDir, '-m', 'fast', '-w', 'stop'] : ['-D', pgDir, '-l', path.join(pgDir, 'server.log'), '-w', 'restart'];
+  const [cmd, cmdArgs] = isRoot()
+    ? ['runuser', ['-u', 'postgres', '--', path.join(bin, 'pg_ctl'), ...args]]
+    : [path.join(bin, 'pg_ctl'), args];
   const result = spawnSync(cmd, cmdArgs, { encoding: 'utf8' });
   if (result.status !== 0) throw new Error(`pg_ctl ${action} failed: ${result.stdout}${result.stderr}`);
 }

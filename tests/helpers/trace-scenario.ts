@@ -19,8 +19,21 @@ import crypto from 'node:crypto';
 import { eq } from 'drizzle-orm';
 import { db } from '../../server/db/client';
 import {
-  buildBatches, containers, defectCodes, driverModels, drivers, lots, materials, mixes, recipeStepMaterials, recipeSteps, stations,
-  stepRunMaterials, stepRuns, suppliers, testResults,
+  buildBatches,
+  containers,
+  defectCodes,
+  driverModels,
+  drivers,
+  lots,
+  materials,
+  mixes,
+  recipeStepMaterials,
+  recipeSteps,
+  stations,
+  stepRunMaterials,
+  stepRuns,
+  suppliers,
+  testResults,
 } from '../../server/db/schema';
 import type { MaterialKind } from '../../shared/constants';
 
@@ -79,10 +92,21 @@ export async function buildTraceScenario(): Promise<TraceScenario> {
     const containerIds: Record<string, string[]> = {};
     const lot = async (key: keyof TraceScenario['lots'], materialId: string, supplierId: string, count: number): Promise<ScenarioLot> => {
       const supplierLot = `${key.toUpperCase()}-${sfx}`;
-      const [l] = await tx.insert(lots).values({ materialId, supplierId, supplierLot, status: 'released', receivedAt: at(-24) }).returning();
+      const [l] = await tx
+        .insert(lots)
+        .values({ materialId, supplierId, supplierLot, status: 'released', receivedAt: at(-24) })
+        .returning();
       const cs = await tx
         .insert(containers)
-        .values(Array.from({ length: count }, (_, i) => ({ code: `C-${key.toUpperCase()}-${sfx}-${i + 1}`, lotId: l.id, seq: i + 1, quantity: '500', remaining: '400' })))
+        .values(
+          Array.from({ length: count }, (_, i) => ({
+            code: `C-${key.toUpperCase()}-${sfx}-${i + 1}`,
+            lotId: l.id,
+            seq: i + 1,
+            quantity: '500',
+            remaining: '400',
+          })),
+        )
         .returning();
       containerIds[key] = cs.map((c) => c.id);
       return { id: l.id, supplierLot, materialId, containerCodes: cs.map((c) => c.code) };
@@ -109,7 +133,10 @@ export async function buildTraceScenario(): Promise<TraceScenario> {
       .returning();
     const [mag, mov, cap] = st;
 
-    const [model] = await tx.insert(driverModels).values({ code: `SW-${sfx}`, name: `Scenario woofer ${sfx}` }).returning();
+    const [model] = await tx
+      .insert(driverModels)
+      .values({ code: `SW-${sfx}`, name: `Scenario woofer ${sfx}` })
+      .returning();
     const steps = await tx
       .insert(recipeSteps)
       .values([
@@ -129,8 +156,30 @@ export async function buildTraceScenario(): Promise<TraceScenario> {
     const [m1, m2] = await tx
       .insert(mixes)
       .values([
-        { code: `MIX-1-${sfx}`, stationId: mag.id, resinContainerId: containerIds.resin[0], hardenerContainerId: containerIds.hard1[0], resinQuantity: '20', hardenerQuantity: '10', remaining: '0', mixedAt: at(0.5), potLifeEndsAt: at(1.5), status: 'used_up' as const },
-        { code: `MIX-2-${sfx}`, stationId: mag.id, resinContainerId: containerIds.resin[0], hardenerContainerId: containerIds.hard2[0], resinQuantity: '20', hardenerQuantity: '10', remaining: '0', mixedAt: at(24.5), potLifeEndsAt: at(25.5), status: 'used_up' as const },
+        {
+          code: `MIX-1-${sfx}`,
+          stationId: mag.id,
+          resinContainerId: containerIds.resin[0],
+          hardenerContainerId: containerIds.hard1[0],
+          resinQuantity: '20',
+          hardenerQuantity: '10',
+          remaining: '0',
+          mixedAt: at(0.5),
+          potLifeEndsAt: at(1.5),
+          status: 'used_up' as const,
+        },
+        {
+          code: `MIX-2-${sfx}`,
+          stationId: mag.id,
+          resinContainerId: containerIds.resin[0],
+          hardenerContainerId: containerIds.hard2[0],
+          resinQuantity: '20',
+          hardenerQuantity: '10',
+          remaining: '0',
+          mixedAt: at(24.5),
+          potLifeEndsAt: at(25.5),
+          status: 'used_up' as const,
+        },
       ])
       .returning();
 
@@ -139,7 +188,9 @@ export async function buildTraceScenario(): Promise<TraceScenario> {
       const [b] = await tx.insert(buildBatches).values({ code, modelId: model.id, quantity, createdAt, status }).returning();
       const ds = await tx
         .insert(drivers)
-        .values(Array.from({ length: quantity }, (_, i) => ({ serial: `${code}-${String(i + 1).padStart(4, '0')}`, batchId: b.id, createdAt })))
+        .values(
+          Array.from({ length: quantity }, (_, i) => ({ serial: `${code}-${String(i + 1).padStart(4, '0')}`, batchId: b.id, createdAt })),
+        )
         .returning();
       return { id: b.id, code, serials: ds.map((d) => d.serial), driverIds: ds.map((d) => d.id) };
     };
@@ -147,25 +198,44 @@ export async function buildTraceScenario(): Promise<TraceScenario> {
     const b2 = await batch('b2', 3, at(24), 'in_process');
 
     const run = async (
-      batchId: string, stepIdx: number, stationId: string, startH: number, finishH: number | null,
-      uses: ({ container: string } | { mix: string })[], extra: { driverId?: string; kind?: 'build' | 'rework'; cureH?: number } = {},
+      batchId: string,
+      stepIdx: number,
+      stationId: string,
+      startH: number,
+      finishH: number | null,
+      uses: ({ container: string } | { mix: string })[],
+      extra: { driverId?: string; kind?: 'build' | 'rework'; cureH?: number } = {},
     ) => {
       const [r] = await tx
         .insert(stepRuns)
         .values({
-          batchId, stepId: steps[stepIdx].id, stationId, startedAt: at(startH), finishedAt: finishH === null ? null : at(finishH),
-          driverId: extra.driverId ?? null, kind: extra.kind ?? 'build',
+          batchId,
+          stepId: steps[stepIdx].id,
+          stationId,
+          startedAt: at(startH),
+          finishedAt: finishH === null ? null : at(finishH),
+          driverId: extra.driverId ?? null,
+          kind: extra.kind ?? 'build',
           cureCompleteAt: extra.cureH === undefined ? null : at(extra.cureH),
         })
         .returning();
       await tx.insert(stepRunMaterials).values(
-        uses.map((u) => ({ stepRunId: r.id, quantityUsed: '5', loadedAt: at(startH), ...('container' in u ? { containerId: u.container } : { mixId: u.mix }) })),
+        uses.map((u) => ({
+          stepRunId: r.id,
+          quantityUsed: '5',
+          loadedAt: at(startH),
+          ...('container' in u ? { containerId: u.container } : { mixId: u.mix }),
+        })),
       );
       return r.id;
     };
     // Batch 1: complete.
     await run(b1.id, 0, mag.id, 1, 2, [{ mix: m1.id }]);
-    await run(b1.id, 1, mov.id, 3, 4, [{ container: containerIds.ca1[0] }, { container: containerIds.ca1[1] }, { container: containerIds.wire[0] }]);
+    await run(b1.id, 1, mov.id, 3, 4, [
+      { container: containerIds.ca1[0] },
+      { container: containerIds.ca1[1] },
+      { container: containerIds.wire[0] },
+    ]);
     await run(b1.id, 2, cap.id, 5, 6, [{ container: containerIds.cap[0] }], { cureH: 20 });
     // Batch 2: step 3 still running.
     await run(b2.id, 0, mag.id, 25, 26, [{ mix: m2.id }]);
@@ -187,7 +257,8 @@ export async function buildTraceScenario(): Promise<TraceScenario> {
       { driverId: u3, result: 'fail', defectCode: active, testedAt: at(30.2) },
     ]);
     const reworkRunId = await run(b1.id, 1, mov.id, 40, 41, [{ container: containerIds.ca2[0] }, { container: containerIds.wire[0] }], {
-      driverId: u2, kind: 'rework',
+      driverId: u2,
+      kind: 'rework',
     });
     await tx.insert(testResults).values({ driverId: u2, result: 'pass', testedAt: at(50) });
     await tx.update(drivers).set({ status: 'passed' }).where(eq(drivers.id, u1));

@@ -30,8 +30,8 @@ describe('alert words', () => {
       'fails 6.2 % of drivers at final test (12 of 194) against a plant rate of 1.1 %; this is very unlikely to be chance',
     );
     expect(lotFailureDetail(figures)).toBe(
-      `Exact one-sided binomial test: p = ${probability(pValue)}; Benjamini–Hochberg q = ${probability(pValue * 3)}; `
-        + `p-chart upper limit for 194 drivers: ${percent(ucl)} (above it).`,
+      `Exact one-sided binomial test: p = ${probability(pValue)}; Benjamini–Hochberg q = ${probability(pValue * 3)}; ` +
+        `p-chart upper limit for 194 drivers: ${percent(ucl)} (above it).`,
     );
     expect(percent(0.0623)).toBe('6.2 %');
     expect(probability(0.0123)).toBe('0.012');

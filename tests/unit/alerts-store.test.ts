@@ -3,7 +3,8 @@ import { createPinia, setActivePinia } from 'pinia';
 import { ALERT_KINDS, ALERT_SEVERITIES, ALERT_STATES } from '../../shared/constants';
 import type { Alert } from '../../shared/schemas/alerts';
 
-const unexpected = (name: string) => vi.fn((...args: unknown[]) => Promise.reject(new Error(`unexpected request: ${name}(${JSON.stringify(args)})`)));
+const unexpected = (name: string) =>
+  vi.fn((...args: unknown[]) => Promise.reject(new Error(`unexpected request: ${name}(${JSON.stringify(args)})`)));
 
 vi.mock('@/api/alerts', () => ({
   listAlerts: unexpected('listAlerts'),
@@ -22,10 +23,25 @@ let seq = 0;
 function alert(over: Partial<Alert> = {}): Alert {
   seq += 1;
   return {
-    id: `00000000-0000-4000-8000-${String(seq).padStart(12, '0')}`, kind: 'expiring_soon', severity: 'info', state: 'open',
-    subjectType: 'lot', subjectId: '00000000-0000-4000-8000-00000000010a', message: 'Lot X expires soon.', audience: ['quality'],
-    detail: null, data: null, raisedAt: T, acknowledgedAt: null, acknowledgedBy: null, acknowledgedByName: null, resolvedAt: null,
-    resolvedBy: null, resolvedByName: null, resolution: null, ...over,
+    id: `00000000-0000-4000-8000-${String(seq).padStart(12, '0')}`,
+    kind: 'expiring_soon',
+    severity: 'info',
+    state: 'open',
+    subjectType: 'lot',
+    subjectId: '00000000-0000-4000-8000-00000000010a',
+    message: 'Lot X expires soon.',
+    audience: ['quality'],
+    detail: null,
+    data: null,
+    raisedAt: T,
+    acknowledgedAt: null,
+    acknowledgedBy: null,
+    acknowledgedByName: null,
+    resolvedAt: null,
+    resolvedBy: null,
+    resolvedByName: null,
+    resolution: null,
+    ...over,
   };
 }
 
@@ -76,7 +92,9 @@ describe('alerts store: the list page', () => {
 
 describe('alerts store: live critical count', () => {
   it('reads every page of live alerts and counts only the critical ones', async () => {
-    const firstPage = Array.from({ length: COUNT_PAGE_SIZE }, (_, i) => alert({ severity: i % 100 === 0 ? 'critical' : 'warning', state: i % 2 ? 'acknowledged' : 'open' }));
+    const firstPage = Array.from({ length: COUNT_PAGE_SIZE }, (_, i) =>
+      alert({ severity: i % 100 === 0 ? 'critical' : 'warning', state: i % 2 ? 'acknowledged' : 'open' }),
+    );
     const secondPage = [alert({ severity: 'critical' }), alert({ severity: 'info' })];
     vi.mocked(alertsApi.listAlerts)
       .mockResolvedValueOnce({ items: firstPage, total: COUNT_PAGE_SIZE + 2 })
@@ -127,7 +145,11 @@ describe('alerts store: acknowledge, resolve and the watch', () => {
     const a = alert();
     const store = useAlertsStore();
     let arrive: (v: { items: Alert[]; total: number }) => void = () => undefined;
-    vi.mocked(alertsApi.listAlerts).mockReturnValueOnce(new Promise((resolve) => { arrive = resolve; }));
+    vi.mocked(alertsApi.listAlerts).mockReturnValueOnce(
+      new Promise((resolve) => {
+        arrive = resolve;
+      }),
+    );
     const loading = store.loadPage({ limit: 25, offset: 0 });
     vi.mocked(alertsApi.acknowledgeAlert).mockResolvedValueOnce({ ...a, state: 'acknowledged', acknowledgedAt: T, acknowledgedBy: 'u' });
     await store.acknowledge(a.id);
@@ -180,16 +202,23 @@ describe('how alerts read', () => {
 
   it('links each subject to the page that shows it', () => {
     const lotId = '00000000-0000-4000-8000-00000000010a';
-    expect(alertSubject({ subjectType: 'lot', subjectId: lotId, data: null }).links[0].to).toEqual({ name: 'lots.detail', params: { id: lotId } });
+    expect(alertSubject({ subjectType: 'lot', subjectId: lotId, data: null }).links[0].to).toEqual({
+      name: 'lots.detail',
+      params: { id: lotId },
+    });
     // A container is shown on its lot's page (the alert carries the lot id).
     const container = alertSubject({ subjectType: 'container', subjectId: 'c', data: { containerCode: 'TLC-1', lotId } });
     expect(container.label).toBe('Container TLC-1');
     expect(container.links[0].to).toEqual({ name: 'lots.detail', params: { id: lotId } });
     expect(alertSubject({ subjectType: 'material', subjectId: 'm1', data: null }).links.map((l) => l.to.name)).toEqual([
-      'catalogue.materials.edit', 'lots.list',
+      'catalogue.materials.edit',
+      'lots.list',
     ]);
     expect(alertSubject({ subjectType: 'step_run', subjectId: 's', data: { batchCode: 'B-7' } }).batchCode).toBe('B-7');
-    expect(alertSubject({ subjectType: 'mix', subjectId: 'x', data: { mixCode: 'MX-3', station: 'Glue 2' } })).toEqual({ label: 'Mix MX-3 at Glue 2', links: [] });
+    expect(alertSubject({ subjectType: 'mix', subjectId: 'x', data: { mixCode: 'MX-3', station: 'Glue 2' } })).toEqual({
+      label: 'Mix MX-3 at Glue 2',
+      links: [],
+    });
   });
 
   it('says when an alert was raised relative to now and in full in plant time', () => {
@@ -200,8 +229,13 @@ describe('how alerts read', () => {
 
   it('says who acknowledged and resolved an alert, and when, in plant time', () => {
     const a = alert({
-      state: 'resolved', acknowledgedAt: '2026-03-01T08:05:00.000Z', acknowledgedBy: 'u1', acknowledgedByName: 'Dana Quill',
-      resolvedAt: '2026-03-01T09:40:00.000Z', resolvedBy: 'u2', resolvedByName: 'Rik Tamsen',
+      state: 'resolved',
+      acknowledgedAt: '2026-03-01T08:05:00.000Z',
+      acknowledgedBy: 'u1',
+      acknowledgedByName: 'Dana Quill',
+      resolvedAt: '2026-03-01T09:40:00.000Z',
+      resolvedBy: 'u2',
+      resolvedByName: 'Rik Tamsen',
     });
     expect(handledText(a, 'Europe/Berlin')).toEqual({
       acknowledged: 'Acknowledged by Dana Quill, 2026-03-01 09:05',

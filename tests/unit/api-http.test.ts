@@ -161,7 +161,8 @@ describe('apiFetch while the database is unreachable (503 DB_UNAVAILABLE)', () =
       'fetch',
       vi.fn(async (url: string, init: RequestInit) => {
         calls.push({ url, init });
-        if (left-- > 0) return new Response(JSON.stringify(down), { status: 503, headers: { 'Content-Type': 'application/json', 'Retry-After': '2' } });
+        if (left-- > 0)
+          return new Response(JSON.stringify(down), { status: 503, headers: { 'Content-Type': 'application/json', 'Retry-After': '2' } });
         return new Response(JSON.stringify({ ok: true }), { status: 200, headers: { 'Content-Type': 'application/json' } });
       }),
     );
@@ -212,7 +213,10 @@ describe('apiFetch while the database is unreachable (503 DB_UNAVAILABLE)', () =
       vi.fn(async (url: string, init: RequestInit) => {
         calls.push({ url, init });
         const a = answers.shift()!;
-        return new Response(JSON.stringify(a.body), { status: a.status, headers: { 'Content-Type': 'application/json', 'Retry-After': '1' } });
+        return new Response(JSON.stringify(a.body), {
+          status: a.status,
+          headers: { 'Content-Type': 'application/json', 'Retry-After': '1' },
+        });
       }),
     );
     const result = apiFetch('/api/stations/s1/load', { method: 'POST', body: {}, idempotencyKey: 'key-8', schema: okSchema });
@@ -221,7 +225,9 @@ describe('apiFetch while the database is unreachable (503 DB_UNAVAILABLE)', () =
     expect(calls).toHaveLength(3);
     // Without an outage first, the same 409 is an error at once.
     answer(409, { error: { code: 'IDEMPOTENCY_IN_PROGRESS', message: 'still running' } });
-    await expect(apiFetch('/api/stations/s1/load', { method: 'POST', body: {}, idempotencyKey: 'key-9', schema: okSchema })).rejects.toMatchObject({ status: 409 });
+    await expect(
+      apiFetch('/api/stations/s1/load', { method: 'POST', body: {}, idempotencyKey: 'key-9', schema: okSchema }),
+    ).rejects.toMatchObject({ status: 409 });
   });
 
   it('a write without a key is not repeated: it fails with DB_UNAVAILABLE and the banner shows', async () => {
@@ -236,7 +242,11 @@ describe('apiFetch while the database is unreachable (503 DB_UNAVAILABLE)', () =
 
   it('another 503 is an error at once, and an abort ends the wait', async () => {
     answer(503, { error: { code: 'MAINTENANCE', message: 'Down for maintenance.' } });
-    await expect(apiFetch('/api/lots', { schema: okSchema })).rejects.toMatchObject({ status: 503, code: 'HTTP_ERROR', serverCode: 'MAINTENANCE' });
+    await expect(apiFetch('/api/lots', { schema: okSchema })).rejects.toMatchObject({
+      status: 503,
+      code: 'HTTP_ERROR',
+      serverCode: 'MAINTENANCE',
+    });
     expect(connection.databaseDown).toBe(false);
 
     downThenUp(5);

@@ -4,7 +4,8 @@ import type { Material } from '../../shared/schemas/materials';
 import type { Supplier } from '../../shared/schemas/suppliers';
 
 // Every fetcher fails unless a test says what it answers: an unexpected request fails the test.
-const unexpected = (name: string) => vi.fn((...args: unknown[]) => Promise.reject(new Error(`unexpected request: ${name}(${JSON.stringify(args)})`)));
+const unexpected = (name: string) =>
+  vi.fn((...args: unknown[]) => Promise.reject(new Error(`unexpected request: ${name}(${JSON.stringify(args)})`)));
 
 vi.mock('@/api/materials', () => ({
   listMaterials: unexpected('listMaterials'),
@@ -30,19 +31,48 @@ const T = '2026-03-01T08:00:00.000Z';
 
 function material(over: Partial<Material>): Material {
   return {
-    id: '00000000-0000-4000-8000-000000000001', code: 'ADH-AN-220', name: 'Anaerobic acrylic', kind: 'adhesive', unit: 'g',
-    storageClass: 'ambient', shelfLifeDays: 365, openLifeHours: 720, thawedLifeHours: null, outOfStorageAllowanceHours: null,
-    potLifeMinutes: null, partnerMaterialId: null, mixRatio: null, cure: null, requiresInspection: true,
-    hazards: { signalWord: 'Warning', pictograms: ['GHS07'], statements: ['H317'] }, gtin: '09501101530003',
-    sdsAttachmentId: null, reorderPoint: null, orderQuantity: null, leadTimeDays: null, active: true, createdAt: T, updatedAt: T,
+    id: '00000000-0000-4000-8000-000000000001',
+    code: 'ADH-AN-220',
+    name: 'Anaerobic acrylic',
+    kind: 'adhesive',
+    unit: 'g',
+    storageClass: 'ambient',
+    shelfLifeDays: 365,
+    openLifeHours: 720,
+    thawedLifeHours: null,
+    outOfStorageAllowanceHours: null,
+    potLifeMinutes: null,
+    partnerMaterialId: null,
+    mixRatio: null,
+    cure: null,
+    requiresInspection: true,
+    hazards: { signalWord: 'Warning', pictograms: ['GHS07'], statements: ['H317'] },
+    gtin: '09501101530003',
+    sdsAttachmentId: null,
+    reorderPoint: null,
+    orderQuantity: null,
+    leadTimeDays: null,
+    active: true,
+    createdAt: T,
+    updatedAt: T,
     ...over,
   };
 }
 
 function supplier(over: Partial<Supplier>): Supplier {
   return {
-    id: '00000000-0000-4000-8000-0000000000a1', code: 'SUP-A', name: 'Alder Test Supplies', contactName: null, email: null,
-    phone: null, address: null, notes: null, active: true, createdAt: T, updatedAt: T, ...over,
+    id: '00000000-0000-4000-8000-0000000000a1',
+    code: 'SUP-A',
+    name: 'Alder Test Supplies',
+    contactName: null,
+    email: null,
+    phone: null,
+    address: null,
+    notes: null,
+    active: true,
+    createdAt: T,
+    updatedAt: T,
+    ...over,
   };
 }
 

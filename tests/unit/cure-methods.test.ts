@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { humidityWindowCheck, methodCureTimes, minutesNeededAt, scheduleMinutesAt, uvDose, uvExposureSeconds } from '../../shared/cure-methods';
+import {
+  humidityWindowCheck,
+  methodCureTimes,
+  minutesNeededAt,
+  scheduleMinutesAt,
+  uvDose,
+  uvExposureSeconds,
+} from '../../shared/cure-methods';
 
 const at = (h: number, m = 0) => new Date(Date.UTC(2026, 11, 2, h, m)).toISOString();
 
@@ -84,11 +91,16 @@ describe('UV dose', () => {
   });
 });
 
-describe('humidity window (cyanoacrylates cure slowly below about 30 % RH: adhesive makers\' guidance)', () => {
+describe("humidity window (cyanoacrylates cure slowly below about 30 % RH: adhesive makers' guidance)", () => {
   const window = { rhMinPct: 40, rhMaxPct: 70 };
 
   it('passes a cure that stayed inside the window', () => {
-    expect(humidityWindowCheck(window, at(8), at(12), [{ at: at(7), rhPct: 55 }, { at: at(10), rhPct: 45 }]).ok).toBe(true);
+    expect(
+      humidityWindowCheck(window, at(8), at(12), [
+        { at: at(7), rhPct: 55 },
+        { at: at(10), rhPct: 45 },
+      ]).ok,
+    ).toBe(true);
   });
 
   it('flags a cure that crossed out of the window, with the stretch outside', () => {
@@ -102,6 +114,11 @@ describe('humidity window (cyanoacrylates cure slowly below about 30 % RH: adhes
   });
 
   it('ignores readings after the cure ended', () => {
-    expect(humidityWindowCheck(window, at(8), at(9), [{ at: at(7), rhPct: 55 }, { at: at(10), rhPct: 20 }]).ok).toBe(true);
+    expect(
+      humidityWindowCheck(window, at(8), at(9), [
+        { at: at(7), rhPct: 55 },
+        { at: at(10), rhPct: 20 },
+      ]).ok,
+    ).toBe(true);
   });
 });

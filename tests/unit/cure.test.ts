@@ -1,6 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import {
-  GAS_CONSTANT, adjustedMinutes, completionTime, cureProgress, cureTimes, potLifeEndsAt, rateFactor,
+  GAS_CONSTANT,
+  adjustedMinutes,
+  completionTime,
+  cureProgress,
+  cureTimes,
+  potLifeEndsAt,
+  rateFactor,
   type CureProfile,
 } from '../../shared/cure';
 
@@ -61,27 +67,43 @@ describe('completion time with varying temperature', () => {
   it('integrates across a temperature step', () => {
     // brief point 2 (Σ dt / t_needed(T) = 1) with the doubling rule:
     // 6 h at 25 °C = 25 %; the remaining 75 % at 35 °C needs 0.75 × 12 h = 9 h → done after 15 h
-    const readings = [{ at: T0, tempC: 25 }, { at: plus(6), tempC: 35 }];
+    const readings = [
+      { at: T0, tempC: 25 },
+      { at: plus(6), tempC: 35 },
+    ];
     expect(completionTime(T0, 24 * 60, epoxy, readings)).toBe(plus(15));
     // three steps: 6 h @25 (1/4), 8 h @15 (8/48 = 1/6), rest 7/12 @35 needs 7/12 × 12 h = 7 h → 21 h
-    const three = [{ at: plus(6), tempC: 15 }, { at: T0, tempC: 25 }, { at: plus(14), tempC: 35 }]; // unsorted on purpose
+    const three = [
+      { at: plus(6), tempC: 15 },
+      { at: T0, tempC: 25 },
+      { at: plus(14), tempC: 35 },
+    ]; // unsorted on purpose
     expect(completionTime(T0, 24 * 60, epoxy, three)).toBe(plus(21));
   });
 
   it('uses the last reading before the start, and the first reading when none precede it', () => {
-    const before = [{ at: plus(-5), tempC: 15 }, { at: plus(-2), tempC: 35 }];
+    const before = [
+      { at: plus(-5), tempC: 15 },
+      { at: plus(-2), tempC: 35 },
+    ];
     expect(completionTime(T0, 24 * 60, epoxy, before)).toBe(plus(12));
     const onlyLater = [{ at: plus(3), tempC: 15 }];
     expect(completionTime(T0, 24 * 60, epoxy, onlyLater)).toBe(plus(48));
   });
 
   it('reaches completion inside a segment, not at its end', () => {
-    const readings = [{ at: T0, tempC: 35 }, { at: plus(100), tempC: 15 }];
+    const readings = [
+      { at: T0, tempC: 35 },
+      { at: plus(100), tempC: 15 },
+    ];
     expect(completionTime(T0, 24 * 60, epoxy, readings)).toBe(plus(12));
   });
 
   it('gives handling and full-cure times and the progress between', () => {
-    const readings = [{ at: T0, tempC: 25 }, { at: plus(6), tempC: 35 }];
+    const readings = [
+      { at: T0, tempC: 25 },
+      { at: plus(6), tempC: 35 },
+    ];
     const t = cureTimes(epoxy, T0, readings);
     expect(t.handlingAt).toBe(plus(4)); // 4 h handling at the reference temperature
     expect(t.fullCureAt).toBe(plus(15));

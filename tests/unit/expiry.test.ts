@@ -1,13 +1,23 @@
 import { describe, expect, it } from 'vitest';
 import {
-  containerExpiry, expiresWithin, fefoOrder, isExpired, lotExpiry, mixExpiry,
-  type ExpiryMaterial, type ExpiryResult,
+  containerExpiry,
+  expiresWithin,
+  fefoOrder,
+  isExpired,
+  lotExpiry,
+  mixExpiry,
+  type ExpiryMaterial,
+  type ExpiryResult,
 } from '../../shared/expiry';
 import { parseGs1 } from '../../shared/gs1';
 
 const none: ExpiryMaterial = {
-  shelfLifeDays: null, openLifeHours: null, thawedLifeHours: null,
-  outOfStorageAllowanceHours: null, potLifeMinutes: null, storageClass: 'ambient',
+  shelfLifeDays: null,
+  openLifeHours: null,
+  thawedLifeHours: null,
+  outOfStorageAllowanceHours: null,
+  potLifeMinutes: null,
+  storageClass: 'ambient',
 };
 const mat = (m: Partial<ExpiryMaterial>): ExpiryMaterial => ({ ...none, ...m });
 const at = (iso: string) => new Date(iso);
@@ -16,7 +26,9 @@ describe('lot expiry', () => {
   it('supplier expiry wins when earliest and is usable through that day', () => {
     // A date printed on a label is usable through that day (common practice); ASTM D907 "shelf life"
     const r = lotExpiry(mat({ shelfLifeDays: 365 }), {
-      receivedAt: '2025-06-10T08:00:00Z', manufacturedOn: '2025-06-01', expiresOn: '2026-03-31',
+      receivedAt: '2025-06-10T08:00:00Z',
+      manufacturedOn: '2025-06-01',
+      expiresOn: '2026-03-31',
     });
     expect(r.cause).toBe('supplier_expiry');
     expect(r.at).toBe('2026-04-01T00:00:00.000Z');
@@ -31,14 +43,17 @@ describe('lot expiry', () => {
     const r = lotExpiry(none, { receivedAt: '2025-06-10T08:00:00Z', expiresOn: '2026-03-31' }, 'Europe/Berlin');
     expect(r.at).toBe('2026-03-31T22:00:00.000Z');
     // and in winter (UTC+1)
-    expect(lotExpiry(none, { receivedAt: '2025-06-10T08:00:00Z', expiresOn: '2026-01-15' }, 'Europe/Berlin').at)
-      .toBe('2026-01-15T23:00:00.000Z');
+    expect(lotExpiry(none, { receivedAt: '2025-06-10T08:00:00Z', expiresOn: '2026-01-15' }, 'Europe/Berlin').at).toBe(
+      '2026-01-15T23:00:00.000Z',
+    );
   });
 
   it('shelf life wins from the manufacture date, usable for exactly shelfLifeDays days', () => {
     // ASTM D907 "shelf life": how long a packaged adhesive stays usable under stated storage
     const r = lotExpiry(mat({ shelfLifeDays: 30 }), {
-      receivedAt: '2025-01-20T09:00:00Z', manufacturedOn: '2025-01-01', expiresOn: '2025-12-31',
+      receivedAt: '2025-01-20T09:00:00Z',
+      manufacturedOn: '2025-01-01',
+      expiresOn: '2025-12-31',
     });
     expect(r).toMatchObject({ cause: 'shelf_life', at: '2025-01-31T00:00:00.000Z' });
   });
@@ -103,8 +118,7 @@ describe('container expiry', () => {
     expect(isExpired(usedUp, now)).toBe(true);
     expect(containerExpiry(m, lot, { outOfStorageMinutes: 100 }, 'UTC', now).cause).toBe('shelf_life');
     // ambient material has no cold storage to leave
-    expect(containerExpiry({ ...m, storageClass: 'ambient' }, lot, { outOfStorageMinutes: 9999 }, 'UTC', now).cause)
-      .toBe('shelf_life');
+    expect(containerExpiry({ ...m, storageClass: 'ambient' }, lot, { outOfStorageMinutes: 9999 }, 'UTC', now).cause).toBe('shelf_life');
   });
 
   it('ignores rules whose material value is null', () => {

@@ -1,7 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import {
-  Gs1Error, gs1Century, gtinCheckDigit, isValidGtin, looksLikeGs1, parseGs1, parseGs1Date,
-  toDigitalLink, toElementString,
+  Gs1Error,
+  gs1Century,
+  gtinCheckDigit,
+  isValidGtin,
+  looksLikeGs1,
+  parseGs1,
+  parseGs1Date,
+  toDigitalLink,
+  toElementString,
 } from '../../shared/gs1';
 
 const GS = '\u001d';
@@ -174,7 +181,13 @@ describe('parseGs1: element strings in any order', () => {
 
   it('reads every order of the same elements, raw with GS, bracketed, and behind each symbology identifier', () => {
     const parts = ['0109521234543213', '17280200', `10ABC123`, '11250101'];
-    const orders = [[0, 1, 2, 3], [1, 0, 3, 2], [3, 2, 1, 0], [2, 3, 0, 1], [1, 3, 2, 0]];
+    const orders = [
+      [0, 1, 2, 3],
+      [1, 0, 3, 2],
+      [3, 2, 1, 0],
+      [2, 3, 0, 1],
+      [1, 3, 2, 0],
+    ];
     for (const order of orders) {
       // A variable-length field (10) that is not last is followed by GS.
       const raw = order.map((i, k) => (i === 2 && k < order.length - 1 ? `${parts[i]}${GS}` : parts[i])).join('');

@@ -2,10 +2,22 @@ import { createRequire } from 'node:module';
 import QRCode from 'qrcode';
 import { describe, expect, it } from 'vitest';
 import { findLayout, labelLayouts } from '../../server/services/labels/templates';
-import { PT_MM, escapeHtml, pictogramSizeMm, renderLabelsHtml, textColumnMm, useByText, type LabelData } from '../../server/services/labels/render';
+import {
+  PT_MM,
+  escapeHtml,
+  pictogramSizeMm,
+  renderLabelsHtml,
+  textColumnMm,
+  useByText,
+  type LabelData,
+} from '../../server/services/labels/render';
 import { qrSvg } from '../../server/services/labels/qr';
 import {
-  CROCKFORD_ALPHABET, containerCodeFromBody, crockfordCheckSymbol, isValidContainerCode, normalizeContainerCode,
+  CROCKFORD_ALPHABET,
+  containerCodeFromBody,
+  crockfordCheckSymbol,
+  isValidContainerCode,
+  normalizeContainerCode,
 } from '../../shared/schemas/containers';
 
 const EPS = 1e-9;
@@ -31,7 +43,10 @@ describe('label layouts', () => {
 
   it('thermal labels are exactly their nominal size, one label per page', () => {
     // 50 × 25 mm and 100 × 50 mm are usual thermal roll sizes (common practice).
-    for (const [id, w, h] of [['thermal-50x25', 50, 25], ['thermal-100x50', 100, 50]] as const) {
+    for (const [id, w, h] of [
+      ['thermal-50x25', 50, 25],
+      ['thermal-100x50', 100, 50],
+    ] as const) {
       const l = layout(id);
       expect(l.kind).toBe('thermal');
       expect(l.label).toMatchObject({ widthMm: w, heightMm: h });
@@ -131,9 +146,20 @@ describe('container codes', () => {
 
 describe('rendered HTML', () => {
   const sample = (over: Partial<LabelData> = {}): LabelData => ({
-    code: containerCodeFromBody('4D7QX2MB'), seq: 2, total: 5, materialName: 'Dust-cap adhesive', materialCode: 'ADH-DC-12',
-    supplierName: 'Brackwater Resins', supplierLot: 'K-77', receivedAt: '2026-03-04T08:00:00.000Z', quantity: 300, unit: 'g',
-    storageClass: 'ambient', effectiveExpiry: '2026-09-01T00:00:00.000Z', hazards: { signalWord: 'Warning', pictograms: ['GHS07'] }, ...over,
+    code: containerCodeFromBody('4D7QX2MB'),
+    seq: 2,
+    total: 5,
+    materialName: 'Dust-cap adhesive',
+    materialCode: 'ADH-DC-12',
+    supplierName: 'Brackwater Resins',
+    supplierLot: 'K-77',
+    receivedAt: '2026-03-04T08:00:00.000Z',
+    quantity: 300,
+    unit: 'g',
+    storageClass: 'ambient',
+    effectiveExpiry: '2026-09-01T00:00:00.000Z',
+    hazards: { signalWord: 'Warning', pictograms: ['GHS07'] },
+    ...over,
   });
 
   it('sets the physical page and label sizes in millimetres', async () => {
@@ -156,7 +182,11 @@ describe('rendered HTML', () => {
   });
 
   it('escapes every text and prints dates in the plant zone', async () => {
-    const html = await renderLabelsHtml(layout('thermal-100x50'), [sample({ materialName: '<img src=x onerror=alert(1)>', supplierLot: 'A&B"1\'' })], { zone: 'Europe/Berlin' });
+    const html = await renderLabelsHtml(
+      layout('thermal-100x50'),
+      [sample({ materialName: '<img src=x onerror=alert(1)>', supplierLot: 'A&B"1\'' })],
+      { zone: 'Europe/Berlin' },
+    );
     expect(html).not.toContain('<img');
     expect(html).toContain('&lt;img src=x onerror=alert(1)&gt;');
     expect(html).toContain('Lot A&amp;B&quot;1&#39;');
@@ -173,7 +203,9 @@ describe('rendered HTML', () => {
 
   it('shows every GHS pictogram and the signal word for hazardous material, none for other material', async () => {
     const all = ['GHS01', 'GHS02', 'GHS03', 'GHS04', 'GHS05', 'GHS06', 'GHS07', 'GHS08', 'GHS09'];
-    const html = await renderLabelsHtml(layout('thermal-50x25'), [sample({ hazards: { signalWord: 'Danger', pictograms: all } })], { zone: 'UTC' });
+    const html = await renderLabelsHtml(layout('thermal-50x25'), [sample({ hazards: { signalWord: 'Danger', pictograms: all } })], {
+      zone: 'UTC',
+    });
     for (const p of all) expect(html).toContain(`title="${p}"`);
     expect(html).toContain('<span class="signal">Danger</span>');
     // Each pictogram is a red-bordered diamond (UN GHS Annex 3: black symbol, white background, red frame).
@@ -197,10 +229,16 @@ function decodeQrSvg(svg: string): string {
   let x = 0;
   let y = 0;
   for (const [, op, args] of d.matchAll(/([Mmh])([^Mmh]*)/g)) {
-    const nums = args.trim().split(/[\s,]+/).filter(Boolean).map(Number);
+    const nums = args
+      .trim()
+      .split(/[\s,]+/)
+      .filter(Boolean)
+      .map(Number);
     if (op === 'M') [x, y] = nums;
-    else if (op === 'm') { x += nums[0]; y += nums[1]; }
-    else {
+    else if (op === 'm') {
+      x += nums[0];
+      y += nums[1];
+    } else {
       const row = Math.floor(y);
       for (let c = x; c < x + nums[0]; c++) {
         for (let a = 0; a < scale; a++) for (let b = 0; b < scale; b++) pixels[(row * scale + a) * w + c * scale + b] = 0;

@@ -60,11 +60,16 @@ describe('history lines', () => {
       { field: 'certificateExpiresOn', label: 'Certificate valid until', from: '—', to: '2027-01-31' },
     ]);
     // 06:30Z on 2026-03-02 is 07:30 CET (IANA tz database; Intl.DateTimeFormat agrees, see plant-time.test.ts).
-    expect(fieldChanges({ status: 'sealed', openedAt: null }, { status: 'open', openedAt: '2026-03-02T06:30:00.000Z' }, { zone: 'Europe/Berlin' }))
-      .toEqual([
-        { field: 'status', label: 'Status', from: 'Sealed', to: 'Open' },
-        { field: 'openedAt', label: 'Opened', from: '—', to: '2026-03-02 07:30' },
-      ]);
+    expect(
+      fieldChanges(
+        { status: 'sealed', openedAt: null },
+        { status: 'open', openedAt: '2026-03-02T06:30:00.000Z' },
+        { zone: 'Europe/Berlin' },
+      ),
+    ).toEqual([
+      { field: 'status', label: 'Status', from: 'Sealed', to: 'Open' },
+      { field: 'openedAt', label: 'Opened', from: '—', to: '2026-03-02 07:30' },
+    ]);
     expect(fieldChanges({ outOfStorageMinutes: 0 }, { outOfStorageMinutes: 200 })).toEqual([
       { field: 'outOfStorageMinutes', label: 'Time out of cold storage', from: '0 s', to: '3 h 20 min' },
     ]);

@@ -5,7 +5,8 @@ import type { Lot, LotDetail, LotListItem } from '../../shared/schemas/lots';
 import type { Material } from '../../shared/schemas/materials';
 import type { Supplier } from '../../shared/schemas/suppliers';
 
-const unexpected = (name: string) => vi.fn((...args: unknown[]) => Promise.reject(new Error(`unexpected request: ${name}(${JSON.stringify(args)})`)));
+const unexpected = (name: string) =>
+  vi.fn((...args: unknown[]) => Promise.reject(new Error(`unexpected request: ${name}(${JSON.stringify(args)})`)));
 
 vi.mock('@/api/lots', () => ({
   listLots: unexpected('listLots'),
@@ -34,16 +35,45 @@ const M = '00000000-0000-4000-8000-000000000001';
 const S = '00000000-0000-4000-8000-0000000000a1';
 
 const lot: Lot = {
-  id: LOT_ID, materialId: M, supplierId: S, supplierLot: 'E2E-1', gtin: null, status: 'on_hold', receivedAt: T,
-  manufacturedOn: null, expiresOn: '2027-12-31', certificateId: null, certificateExpiresOn: null, notes: null, receivedBy: null,
-  statusReason: null, statusChangedAt: null, effectiveExpiry: '2027-12-31T23:00:00.000Z', expiryCause: 'supplier_expiry', createdAt: T,
+  id: LOT_ID,
+  materialId: M,
+  supplierId: S,
+  supplierLot: 'E2E-1',
+  gtin: null,
+  status: 'on_hold',
+  receivedAt: T,
+  manufacturedOn: null,
+  expiresOn: '2027-12-31',
+  certificateId: null,
+  certificateExpiresOn: null,
+  notes: null,
+  receivedBy: null,
+  statusReason: null,
+  statusChangedAt: null,
+  effectiveExpiry: '2027-12-31T23:00:00.000Z',
+  expiryCause: 'supplier_expiry',
+  createdAt: T,
 };
 
 function container(id: string, seq: number, over: Partial<Container> = {}): Container {
   return {
-    id, code: `TLC-0000000${seq}X`, lotId: LOT_ID, seq, quantity: 250, remaining: 250, status: 'sealed', openedAt: null, thawedAt: null,
-    location: 'Cabinet 1', outOfStorageMinutes: 0, outOfStorageSince: null, effectiveExpiry: lot.effectiveExpiry, expiryCause: 'supplier_expiry',
-    createdAt: T, updatedAt: T, ...over,
+    id,
+    code: `TLC-0000000${seq}X`,
+    lotId: LOT_ID,
+    seq,
+    quantity: 250,
+    remaining: 250,
+    status: 'sealed',
+    openedAt: null,
+    thawedAt: null,
+    location: 'Cabinet 1',
+    outOfStorageMinutes: 0,
+    outOfStorageSince: null,
+    effectiveExpiry: lot.effectiveExpiry,
+    expiryCause: 'supplier_expiry',
+    createdAt: T,
+    updatedAt: T,
+    ...over,
   };
 }
 
@@ -58,7 +88,16 @@ const detail: LotDetail = {
   fefoNext: null,
 };
 
-const row = { ...lot, materialCode: 'ADH-AN-220', materialName: 'Acrylic', materialUnit: 'g', supplierName: 'Alder', containerCount: 2, activeContainerCount: 2, remaining: 500 } satisfies LotListItem;
+const row = {
+  ...lot,
+  materialCode: 'ADH-AN-220',
+  materialName: 'Acrylic',
+  materialUnit: 'g',
+  supplierName: 'Alder',
+  containerCount: 2,
+  activeContainerCount: 2,
+  remaining: 500,
+} satisfies LotListItem;
 
 beforeEach(() => {
   setActivePinia(createPinia());
@@ -126,7 +165,7 @@ describe('lots store: one lot', () => {
     expect(store.details[LOT_ID].lot.status).toBe('quarantined');
   });
 
-  it('puts a container action\'s answer in place, leaving the others', async () => {
+  it("puts a container action's answer in place, leaving the others", async () => {
     vi.mocked(lotsApi.getLot).mockResolvedValueOnce(detail);
     vi.mocked(containersApi.containerAction).mockResolvedValueOnce(container(C2, 2, { status: 'open', openedAt: T }));
     vi.mocked(containersApi.scrapContainer).mockResolvedValueOnce(container(C1, 1, { status: 'scrapped' }));
@@ -139,10 +178,23 @@ describe('lots store: one lot', () => {
     expect(store.details[LOT_ID].containers.map((c) => c.status)).toEqual(['scrapped', 'open']);
   });
 
-  it('refreshes a lot\'s detail and history together', async () => {
+  it("refreshes a lot's detail and history together", async () => {
     vi.mocked(lotsApi.getLot).mockResolvedValue(detail);
     vi.mocked(lotsApi.lotHistory).mockResolvedValueOnce([
-      { id: 1, at: T, actorId: null, actorName: 'Receiving clerk', action: 'lot.received', entityType: 'lot', entityId: LOT_ID, containerCode: null, before: null, after: { status: 'on_hold' }, reason: null, names: {} },
+      {
+        id: 1,
+        at: T,
+        actorId: null,
+        actorName: 'Receiving clerk',
+        action: 'lot.received',
+        entityType: 'lot',
+        entityId: LOT_ID,
+        containerCode: null,
+        before: null,
+        after: { status: 'on_hold' },
+        reason: null,
+        names: {},
+      },
     ]);
     const store = useLotsStore();
     await store.refreshLot(LOT_ID, true);
@@ -168,7 +220,17 @@ describe('lots store: one lot', () => {
     await store.receive(input, 'key-7');
     expect(lotsApi.receiveLot).toHaveBeenCalledWith(input, 'key-7');
     expect(store.lastReceipt?.containers).toHaveLength(2);
-    const att = { id: '00000000-0000-4000-8000-0000000000f1', kind: 'certificate' as const, filename: 'coa.pdf', mimeType: 'application/pdf', sizeBytes: 1000, sha256: 'a'.repeat(64), uploadedBy: null, uploadedAt: T, url: '/api/attachments/x' };
+    const att = {
+      id: '00000000-0000-4000-8000-0000000000f1',
+      kind: 'certificate' as const,
+      filename: 'coa.pdf',
+      mimeType: 'application/pdf',
+      sizeBytes: 1000,
+      sha256: 'a'.repeat(64),
+      uploadedBy: null,
+      uploadedAt: T,
+      url: '/api/attachments/x',
+    };
     vi.mocked(lotsApi.uploadCertificate).mockResolvedValueOnce({ attachment: att, lot: { ...lot, certificateId: att.id } });
     await store.uploadCertificate(LOT_ID, new File(['%PDF-1.4'], 'coa.pdf', { type: 'application/pdf' }));
     expect(store.lastReceipt?.lot.certificateId).toBe(att.id);

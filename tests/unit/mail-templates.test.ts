@@ -62,9 +62,13 @@ describe('alert e-mail', () => {
 
   it('links to the item when it has a page, and leaves the SDS caution off alerts that handle no chemical', () => {
     const mail = renderAlertMail(ctx, {
-      ...alert, kind: 'below_reorder_point', severity: 'warning', subjectWords: 'Lead wire (LW-TIN-07)',
+      ...alert,
+      kind: 'below_reorder_point',
+      severity: 'warning',
+      subjectWords: 'Lead wire (LW-TIN-07)',
       message: 'Lead wire (LW-TIN-07): 120 m on hand, below the reorder point of 500 m.',
-      itemPath: '/lots?materialId=8f1c2d4e-0000-4000-8000-000000000001', itemLabel: 'Lots of this material',
+      itemPath: '/lots?materialId=8f1c2d4e-0000-4000-8000-000000000001',
+      itemLabel: 'Lots of this material',
     });
     expect(mail.subject).toBe('[Tacklog] Warning: Below reorder point – Lead wire (LW-TIN-07)');
     expect(mail.text).toContain('Lots of this material: http://127.0.0.1:3000/lots?materialId=8f1c2d4e-0000-4000-8000-000000000001');
@@ -76,8 +80,12 @@ describe('alert e-mail', () => {
 describe('alert resolved e-mail', () => {
   it('says who resolved it, when and what was done', () => {
     const mail = renderAlertResolvedMail(ctx, {
-      kind: 'expired_in_stock', subjectWords: 'container TLC-7Q2 of Dust-cap adhesive, lot DC-4410',
-      resolution: 'Container scrapped and logged.', resolvedAt: new Date('2026-07-14T07:45:00Z'), resolvedBy: 'Ana Brandt', recipientName: 'Jo',
+      kind: 'expired_in_stock',
+      subjectWords: 'container TLC-7Q2 of Dust-cap adhesive, lot DC-4410',
+      resolution: 'Container scrapped and logged.',
+      resolvedAt: new Date('2026-07-14T07:45:00Z'),
+      resolvedBy: 'Ana Brandt',
+      recipientName: 'Jo',
     });
     expect(mail.subject).toBe('[Tacklog] Resolved: Expired material in stock – container TLC-7Q2 of Dust-cap adhesive, lot DC-4410');
     expect(mail.text).toContain('Resolved 2026-07-14 08:45 by Ana Brandt');
@@ -92,14 +100,24 @@ describe('daily digest e-mail', () => {
     plantDate: '2026-07-14',
     purchasing: {
       source: "from today's alerts and lots",
-      runOuts: [{ title: 'Lead wire (LW-TIN-07)', detail: '120 m on hand, below the reorder point of 500 m. Lead time 21 days.', path: '/lots?materialId=x' }],
+      runOuts: [
+        {
+          title: 'Lead wire (LW-TIN-07)',
+          detail: '120 m on hand, below the reorder point of 500 m. Lead time 21 days.',
+          path: '/lots?materialId=x',
+        },
+      ],
       predictedWaste: [],
-      expiringLots: [{ title: 'Lot DC-4410 of Dust-cap adhesive', detail: '900 g in stock; expires 2026-07-20 00:00 (in 5 d 18 h).', path: '/lots/abc' }],
+      expiringLots: [
+        { title: 'Lot DC-4410 of Dust-cap adhesive', detail: '900 g in stock; expires 2026-07-20 00:00 (in 5 d 18 h).', path: '/lots/abc' },
+      ],
       windowDays: 14,
     },
     quality: {
       openAlertsByKind: [{ kind: 'Pot life passed', open: 1, acknowledged: 0, critical: 1 }],
-      lotsOnHold: [{ title: 'Lot AC-2231 of Anaerobic retainer', detail: 'received 2026-07-12 09:15, waiting 1 d 20 h.', path: '/lots/def' }],
+      lotsOnHold: [
+        { title: 'Lot AC-2231 of Anaerobic retainer', detail: 'received 2026-07-12 09:15, waiting 1 d 20 h.', path: '/lots/def' },
+      ],
       shortCures: [],
     },
     alerts: [],

@@ -7,9 +7,25 @@ const adhesive = () => ({ ...emptyDraft(), code: 'MB-1', name: 'Magnet-bond epox
 describe('material form: cure method fields', () => {
   it('a heat cure sends its schedule (and no minimum temperature); the server schema accepts it', () => {
     const d = adhesive();
-    d.cure = { ...d.cure, handlingMinutes: 30, fullCureMinutes: 30, method: 'heat', minTempC: 10, schedule: [{ tempC: 120, minutes: 30 }, { tempC: 150, minutes: 15 }] };
+    d.cure = {
+      ...d.cure,
+      handlingMinutes: 30,
+      fullCureMinutes: 30,
+      method: 'heat',
+      minTempC: 10,
+      schedule: [
+        { tempC: 120, minutes: 30 },
+        { tempC: 150, minutes: 15 },
+      ],
+    };
     const input = draftToInput(d);
-    expect(input.cure).toMatchObject({ method: 'heat', schedule: [{ tempC: 120, minutes: 30 }, { tempC: 150, minutes: 15 }] });
+    expect(input.cure).toMatchObject({
+      method: 'heat',
+      schedule: [
+        { tempC: 120, minutes: 30 },
+        { tempC: 150, minutes: 15 },
+      ],
+    });
     expect(input.cure).not.toHaveProperty('minTempC');
     expect(materialInputSchema.safeParse(input).success).toBe(true);
   });

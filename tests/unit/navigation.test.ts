@@ -6,7 +6,10 @@ import { safeRedirect } from '@/router/redirect';
 
 const everyRoute = () => true;
 /** `can` as the session answers it for someone holding `roles` (from the one permission map). */
-const canAs = (roles: Role[]) => (...actions: Action[]) => actions.some((a) => can(roles, a));
+const canAs =
+  (roles: Role[]) =>
+  (...actions: Action[]) =>
+    actions.some((a) => can(roles, a));
 const labelsFor = (roles: Role[], exists: (name: string) => boolean = everyRoute) =>
   visibleNavItems(canAs(roles), exists).map((item) => item.label);
 
@@ -83,7 +86,17 @@ describe('safeRedirect (after sign-in, only paths inside this app are followed)'
   });
 
   it('refuses other sites, odd values and the sign-in page itself', () => {
-    for (const value of ['//evil.test/x', '/\\evil.test', 'https://evil.test/', 'lots', '', null, undefined, '/sign-in', '/sign-in?redirect=/x']) {
+    for (const value of [
+      '//evil.test/x',
+      '/\\evil.test',
+      'https://evil.test/',
+      'lots',
+      '',
+      null,
+      undefined,
+      '/sign-in',
+      '/sign-in?redirect=/x',
+    ]) {
       expect(safeRedirect(value)).toBeNull();
     }
   });

@@ -6,24 +6,43 @@ import { digestCron } from '../../server/jobs/mail';
 import { modeFor } from '../../server/services/notifications/alert-mail';
 
 describe('notification defaults by role', () => {
-  it('critical kinds in the role\'s audience at once, its other kinds in the digest, the rest not at all', () => {
+  it("critical kinds in the role's audience at once, its other kinds in the digest, the rest not at all", () => {
     expect(defaultModes(['assembler'])).toEqual({
-      pot_life_exceeded: 'immediate', short_cure: 'none', expired_in_stock: 'immediate',
-      expiring_soon: 'none', quarantine_advised: 'none', below_reorder_point: 'none', audit_chain_broken: 'none',
-      lamp_check_due: 'none', humidity_out_of_window: 'none',
+      pot_life_exceeded: 'immediate',
+      short_cure: 'none',
+      expired_in_stock: 'immediate',
+      expiring_soon: 'none',
+      quarantine_advised: 'none',
+      below_reorder_point: 'none',
+      audit_chain_broken: 'none',
+      lamp_check_due: 'none',
+      humidity_out_of_window: 'none',
     });
-    expect(defaultModes(['purchasing'])).toMatchObject({ below_reorder_point: 'digest', expiring_soon: 'digest', pot_life_exceeded: 'none' });
+    expect(defaultModes(['purchasing'])).toMatchObject({
+      below_reorder_point: 'digest',
+      expiring_soon: 'digest',
+      pot_life_exceeded: 'none',
+    });
     // Several roles: the widest default wins kind by kind.
-    expect(defaultModes(['purchasing', 'quality'])).toMatchObject({ short_cure: 'immediate', below_reorder_point: 'digest', quarantine_advised: 'digest' });
+    expect(defaultModes(['purchasing', 'quality'])).toMatchObject({
+      short_cure: 'immediate',
+      below_reorder_point: 'digest',
+      quarantine_advised: 'digest',
+    });
   });
 
   it('an administrator may choose every kind but by default gets only what concerns admin (a broken audit trail, at once)', () => {
     expect(kindsFor(['admin'])).toEqual([...ALERT_KINDS]);
-    expect(defaultModes(['admin'])).toEqual(Object.fromEntries(ALERT_KINDS.map((k) => [k, k === 'audit_chain_broken' ? 'immediate' : 'none'])));
+    expect(defaultModes(['admin'])).toEqual(
+      Object.fromEntries(ALERT_KINDS.map((k) => [k, k === 'audit_chain_broken' ? 'immediate' : 'none'])),
+    );
   });
 
   it('choices override defaults, kind by kind', () => {
-    expect(effectiveModes(['quality'], { pot_life_exceeded: 'none' })).toMatchObject({ pot_life_exceeded: 'none', short_cure: 'immediate' });
+    expect(effectiveModes(['quality'], { pot_life_exceeded: 'none' })).toMatchObject({
+      pot_life_exceeded: 'none',
+      short_cure: 'immediate',
+    });
   });
 
   it('a kind outside the roles is never e-mailed, whatever was stored; an unknown kind only when critical', () => {
@@ -46,7 +65,11 @@ describe('digest time', () => {
 describe('HTML part in the Mailbox frame', () => {
   it('gets a policy that loads nothing, and links that leave the frame', () => {
     const page = guardedHtml('<!DOCTYPE html><html><head><title>x</title></head><body><img src="http://example.test/a.png"></body></html>');
-    expect(page).toMatch(/<head><meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:; font-src data:"><base target="_blank"><title>/);
-    expect(guardedHtml('<p>bare</p>')).toMatch(/^<!DOCTYPE html><html><head><meta http-equiv="Content-Security-Policy"[^>]+><base target="_blank"><\/head><body><p>bare<\/p><\/body><\/html>$/);
+    expect(page).toMatch(
+      /<head><meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:; font-src data:"><base target="_blank"><title>/,
+    );
+    expect(guardedHtml('<p>bare</p>')).toMatch(
+      /^<!DOCTYPE html><html><head><meta http-equiv="Content-Security-Policy"[^>]+><base target="_blank"><\/head><body><p>bare<\/p><\/body><\/html>$/,
+    );
   });
 });

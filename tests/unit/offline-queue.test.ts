@@ -50,7 +50,13 @@ describe('offline queue', () => {
     expect(JSON.parse(storage.data.get('q')!)).toHaveLength(2);
 
     // A reload: a new queue over the same storage finds both, in order.
-    const again = createOfflineQueue({ storageKey: 'q', send, storage, newKey: keys, onResult: (a, o) => results.push(`${a.label}:${o.ok}`) });
+    const again = createOfflineQueue({
+      storageKey: 'q',
+      send,
+      storage,
+      newKey: keys,
+      onResult: (a, o) => results.push(`${a.label}:${o.ok}`),
+    });
     expect(again.items.value.map((a) => a.label)).toEqual(['Load A', 'Start 1']);
 
     reachable = true;
@@ -68,14 +74,21 @@ describe('offline queue', () => {
     });
     const results: { label: string; code?: string }[] = [];
     const q = createOfflineQueue({
-      storageKey: 'q', send, storage: memoryStorage(), newKey: keys, initiallyOnline: false,
+      storageKey: 'q',
+      send,
+      storage: memoryStorage(),
+      newKey: keys,
+      initiallyOnline: false,
       onResult: (a, o) => results.push({ label: a.label, code: o.ok ? undefined : o.error.code }),
     });
     q.submit('load', {}, 'bad');
     q.submit('load', {}, 'good');
     expect(send).not.toHaveBeenCalled();
     await q.flush();
-    expect(results).toEqual([{ label: 'bad', code: 'WRONG_MATERIAL' }, { label: 'good', code: undefined }]);
+    expect(results).toEqual([
+      { label: 'bad', code: 'WRONG_MATERIAL' },
+      { label: 'good', code: undefined },
+    ]);
   });
 
   it('stops at a 401 and waits for an explicit flush (signing in again)', async () => {
@@ -97,7 +110,12 @@ describe('offline queue', () => {
 
   it('runs one flush at a time (no action is sent twice concurrently)', async () => {
     let release: () => void = () => undefined;
-    const send = vi.fn(() => new Promise((resolve) => { release = () => resolve('ok'); }));
+    const send = vi.fn(
+      () =>
+        new Promise((resolve) => {
+          release = () => resolve('ok');
+        }),
+    );
     const q = createOfflineQueue({ storageKey: 'q', send, storage: memoryStorage(), newKey: keys, initiallyOnline: false });
     q.submit('load', {}, 'A');
     const a = q.flush();

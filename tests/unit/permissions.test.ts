@@ -43,7 +43,7 @@ describe('permission map', () => {
     expect(both).toContain('lots.release');
   });
 
-  it('keeps the decisions of issue 8: receiving does not empty containers; only quality and admin read a lot\'s full history', () => {
+  it("keeps the decisions of issue 8: receiving does not empty containers; only quality and admin read a lot's full history", () => {
     expect(can(['receiving'], 'containers.empty')).toBe(false);
     expect(can(['receiving'], 'containers.handle')).toBe(true);
     expect([...rolesFor('lots.readHistory')].sort()).toEqual(['admin', 'quality']);
@@ -55,7 +55,14 @@ describe('route table against the permission map', () => {
 
   it('finds the routes the app registers (a sample the API contract names)', () => {
     const keys = routes.map((r) => `${r.method} ${r.path}`);
-    for (const key of ['POST /api/auth/login', 'GET /api/auth/me', 'POST /api/lots', 'POST /api/lots/:id/status', 'POST /api/stations/:id/load', 'GET /api/drivers/:serial/trace']) {
+    for (const key of [
+      'POST /api/auth/login',
+      'GET /api/auth/me',
+      'POST /api/lots',
+      'POST /api/lots/:id/status',
+      'POST /api/stations/:id/load',
+      'GET /api/drivers/:serial/trace',
+    ]) {
       expect(keys).toContain(key);
     }
     expect(routes.length).toBeGreaterThan(60);

@@ -1,6 +1,14 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import {
-  formatDate, formatDateTime, formatDuration, formatRelative, formatTime, formatWhen, isKnownZone, plantDaysFrom, plantGreeting,
+  formatDate,
+  formatDateTime,
+  formatDuration,
+  formatRelative,
+  formatTime,
+  formatWhen,
+  isKnownZone,
+  plantDaysFrom,
+  plantGreeting,
 } from '../../shared/plant-time';
 
 /**
@@ -10,7 +18,13 @@ import {
  */
 function intlWallClock(iso: string, zone: string): { date: string; time: string; weekday: string } {
   const parts = new Intl.DateTimeFormat('en-GB', {
-    timeZone: zone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', weekday: 'short',
+    timeZone: zone,
+    year: 'numeric',
+    month: '2-digit',
+    day: '2-digit',
+    hour: '2-digit',
+    minute: '2-digit',
+    weekday: 'short',
     hourCycle: 'h23',
   }).formatToParts(new Date(iso));
   const p = (type: string) => parts.find((x) => x.type === type)!.value;
@@ -52,9 +66,17 @@ describe('plant time: instants in two zones, across daylight-saving changes', ()
   });
 
   const instants = [
-    '2026-01-15T12:00:00Z', '2026-03-29T00:30:00Z', '2026-03-29T01:30:00Z', '2026-06-30T22:15:00Z',
-    '2026-10-25T00:30:00Z', '2026-10-25T01:00:00Z', '2026-10-25T01:30:00Z', '2026-11-01T05:30:00Z', '2026-11-01T06:30:00Z',
-    '2026-12-02T17:31:00Z', '2028-02-29T23:45:00Z',
+    '2026-01-15T12:00:00Z',
+    '2026-03-29T00:30:00Z',
+    '2026-03-29T01:30:00Z',
+    '2026-06-30T22:15:00Z',
+    '2026-10-25T00:30:00Z',
+    '2026-10-25T01:00:00Z',
+    '2026-10-25T01:30:00Z',
+    '2026-11-01T05:30:00Z',
+    '2026-11-01T06:30:00Z',
+    '2026-12-02T17:31:00Z',
+    '2028-02-29T23:45:00Z',
   ];
   for (const zone of [BERLIN, NEW_YORK, 'UTC', 'Asia/Kolkata']) {
     it(`agrees with Intl.DateTimeFormat (ECMA-402 reference) in ${zone}`, () => {

@@ -7,9 +7,16 @@ describe('Pareto of failures by defect code', () => {
   // in Excel"): ten defect causes with 102, 97, 23, 12, 9, 7, 6, 5, 4, 2 defects, total 267;
   // the first two causes give about 75 % of the defects (199 / 267 = 74.53 %, computed).
   const counts = [
-    { defectCode: '1', count: 2 }, { defectCode: '2', count: 23 }, { defectCode: '3', count: 97 }, { defectCode: '4', count: 6 },
-    { defectCode: '5', count: 102 }, { defectCode: '6', count: 12 }, { defectCode: '7', count: 4 }, { defectCode: '8', count: 9 },
-    { defectCode: '9', count: 5 }, { defectCode: '10', count: 7 },
+    { defectCode: '1', count: 2 },
+    { defectCode: '2', count: 23 },
+    { defectCode: '3', count: 97 },
+    { defectCode: '4', count: 6 },
+    { defectCode: '5', count: 102 },
+    { defectCode: '6', count: 12 },
+    { defectCode: '7', count: 4 },
+    { defectCode: '8', count: 9 },
+    { defectCode: '9', count: 5 },
+    { defectCode: '10', count: 7 },
   ];
 
   it('orders the bars largest first, as the worked example does', () => {
@@ -25,7 +32,12 @@ describe('Pareto of failures by defect code', () => {
   });
 
   it('leaves out codes with no failure and refuses negative counts', () => {
-    expect(pareto([{ defectCode: 'A', count: 0 }, { defectCode: 'B', count: 3 }])).toEqual([{ defectCode: 'B', count: 3, cumulativePct: 100 }]);
+    expect(
+      pareto([
+        { defectCode: 'A', count: 0 },
+        { defectCode: 'B', count: 3 },
+      ]),
+    ).toEqual([{ defectCode: 'B', count: 3, cumulativePct: 100 }]);
     expect(() => pareto([{ defectCode: 'A', count: -1 }])).toThrow(/whole number/);
   });
 });

@@ -16,6 +16,13 @@ describe('recipe editor drafts', () => {
     const result = driverModelInputSchema.safeParse({ code: 'HB15X', name: 'Test woofer', steps: stepsInput([step]) });
     expect(result.success).toBe(false);
     const fields = result.success ? [] : result.error.issues.map((i) => i.path.join('.'));
-    expect(fields).toEqual(expect.arrayContaining(['steps.0.name', 'steps.0.stationKind', 'steps.0.materials.0.materialId', 'steps.0.materials.0.amountPerUnit']));
+    expect(fields).toEqual(
+      expect.arrayContaining([
+        'steps.0.name',
+        'steps.0.stationKind',
+        'steps.0.materials.0.materialId',
+        'steps.0.materials.0.amountPerUnit',
+      ]),
+    );
   });
 });

@@ -50,14 +50,25 @@ for (const file of files) {
 
 describe('refusal catalogue', () => {
   it('finds the codes the source uses (the scan works)', () => {
-    for (const code of ['LOT_ON_HOLD', 'WRONG_MATERIAL', 'CURE_INCOMPLETE', 'VALIDATION_FAILED', 'MALFORMED_JSON', 'TOO_MANY_ATTEMPTS', 'NETWORK', 'DUPLICATE_LOT']) {
+    for (const code of [
+      'LOT_ON_HOLD',
+      'WRONG_MATERIAL',
+      'CURE_INCOMPLETE',
+      'VALIDATION_FAILED',
+      'MALFORMED_JSON',
+      'TOO_MANY_ATTEMPTS',
+      'NETWORK',
+      'DUPLICATE_LOT',
+    ]) {
       expect(used.has(code), code).toBe(true);
     }
     expect(used.size).toBeGreaterThan(50);
   });
 
   it('every code thrown, sent or compared anywhere in server/ and src/ is in the catalogue', () => {
-    const missing = [...used.entries()].filter(([code]) => !isRefusalCode(code)).map(([code, where]) => `${code} (${[...new Set(where)].join(', ')})`);
+    const missing = [...used.entries()]
+      .filter(([code]) => !isRefusalCode(code))
+      .map(([code, where]) => `${code} (${[...new Set(where)].join(', ')})`);
     expect(missing).toEqual([]);
   });
 
@@ -70,7 +81,8 @@ describe('refusal catalogue', () => {
       expect(status === 0 || (status >= 400 && status < 600), code).toBe(true);
     }
     // Plant rules refusing a request are 409 (API contract).
-    for (const code of ['LOT_ON_HOLD', 'EXPIRED', 'POT_LIFE_EXCEEDED', 'CURE_INCOMPLETE', 'WRONG_MATERIAL'] as const) expect(refusalStatus(code)).toBe(409);
+    for (const code of ['LOT_ON_HOLD', 'EXPIRED', 'POT_LIFE_EXCEEDED', 'CURE_INCOMPLETE', 'WRONG_MATERIAL'] as const)
+      expect(refusalStatus(code)).toBe(409);
   });
 
   it('titles are unique enough to tell refusals apart (only transport codes share one)', () => {

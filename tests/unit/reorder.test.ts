@@ -7,11 +7,21 @@ const day = (n: number) => new Date(Date.parse(NOW) + n * 86_400_000).toISOStrin
 describe('daily use', () => {
   it('from history: what finished runs drew over the window ÷ window days', () => {
     // 840 g over 28 days → 30 g/day.
-    expect(chooseDailyUse({ historyQuantity: 840, windowDays: 28, planQuantity: 0, planDays: 1 })).toEqual({ dailyUse: 30, source: 'history', history: 30, plan: null });
+    expect(chooseDailyUse({ historyQuantity: 840, windowDays: 28, planQuantity: 0, planDays: 1 })).toEqual({
+      dailyUse: 30,
+      source: 'history',
+      history: 30,
+      plan: null,
+    });
   });
   it('from the plan when open batches still need the material, saying so and keeping the history figure', () => {
     // open batches need 450 g over 3 planned days → 150 g/day.
-    expect(chooseDailyUse({ historyQuantity: 840, windowDays: 28, planQuantity: 450, planDays: 3 })).toEqual({ dailyUse: 150, source: 'plan', history: 30, plan: 150 });
+    expect(chooseDailyUse({ historyQuantity: 840, windowDays: 28, planQuantity: 450, planDays: 3 })).toEqual({
+      dailyUse: 150,
+      source: 'plan',
+      history: 30,
+      plan: 150,
+    });
   });
 });
 
@@ -29,7 +39,9 @@ describe('pack size warning', () => {
     // above 2.8 kg is 2 kg (1 kg would do too; 2 kg is fewer openings).
     const w = packWaste({ dailyUse: 0.4, packSize: 5, openLifeHours: 7 * 24, lifeAtArrivalDays: 200 });
     expect(w).toEqual({ packSize: 5, usablePerPack: 2.8, wastePerPack: 2.2, limitedBy: 'open_life', suggestedPackSize: 2 });
-    expect(packWarningText(w!, 0.4, 'kg', 168, 200)).toBe('At 0.4 kg/day a 5 kg pack open for 7 days wastes 2.2 kg each time; 2 kg packs would waste none.');
+    expect(packWarningText(w!, 0.4, 'kg', 168, 200)).toBe(
+      'At 0.4 kg/day a 5 kg pack open for 7 days wastes 2.2 kg each time; 2 kg packs would waste none.',
+    );
   });
   it('no warning when a pack is used up in time', () => {
     // 1 kg/day × 7 days = 7 kg ≥ 5 kg pack.
@@ -49,8 +61,17 @@ describe('pack size warning', () => {
 
 describe('reorder advice', () => {
   const base: AdviceInput = {
-    now: NOW, dailyUse: 100, runsOutAt: day(30), usableOnHand: 3000, reorderPoint: 1000, orderQuantity: 2000,
-    leadTimeDays: 14, safetyDays: 3, packSize: 500, openLifeHours: null, lifeAtArrivalDays: 300,
+    now: NOW,
+    dailyUse: 100,
+    runsOutAt: day(30),
+    usableOnHand: 3000,
+    reorderPoint: 1000,
+    orderQuantity: 2000,
+    leadTimeDays: 14,
+    safetyDays: 3,
+    packSize: 500,
+    openLifeHours: null,
+    lifeAtArrivalDays: 300,
   };
 
   it('order by run-out − lead time − safety margin', () => {

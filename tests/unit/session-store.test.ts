@@ -149,7 +149,10 @@ describe('signIn and signOut', () => {
 describe('permissions', () => {
   it('can() answers from the permissions the server sent, any of several actions, false when signed out', async () => {
     // What the server sends for someone holding quality and purchasing (the one permission map).
-    api.login.mockResolvedValueOnce({ token: 'opaque', user: { ...quality, roles: ['quality', 'purchasing'], permissions: permissionsFor(['quality', 'purchasing']) } });
+    api.login.mockResolvedValueOnce({
+      token: 'opaque',
+      user: { ...quality, roles: ['quality', 'purchasing'], permissions: permissionsFor(['quality', 'purchasing']) },
+    });
     const session = useSessionStore();
     expect(session.can('lots.release')).toBe(false);
 
@@ -163,7 +166,7 @@ describe('permissions', () => {
     expect(session.can()).toBe(false);
   });
 
-  it('trusts the server\'s list, not the roles: an action the server did not send is refused', async () => {
+  it("trusts the server's list, not the roles: an action the server did not send is refused", async () => {
     api.me.mockResolvedValueOnce({ ...quality, roles: ['admin'], permissions: ['lots.readHistory'] });
     const session = useSessionStore();
     await session.load();

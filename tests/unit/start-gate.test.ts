@@ -6,18 +6,39 @@ const id = (n: number) => `00000000-0000-4000-8000-${String(n).padStart(12, '0')
 
 function step(seq: number, over: Partial<TravelerStep> = {}): TravelerStep {
   return {
-    id: id(seq), seq, name: `Step ${seq}`, stationKind: `kind-${seq}`, waitForCure: false, materials: [], state: 'pending',
-    run: null, handlingAt: null, cureCompleteAt: null, ...over,
+    id: id(seq),
+    seq,
+    name: `Step ${seq}`,
+    stationKind: `kind-${seq}`,
+    waitForCure: false,
+    materials: [],
+    state: 'pending',
+    run: null,
+    handlingAt: null,
+    cureCompleteAt: null,
+    ...over,
   };
 }
 
 function traveler(steps: TravelerStep[]): BatchDetail {
   return {
     batch: {
-      id: id(900), code: 'HB12W-261202-01', modelId: id(901), modelCode: 'HB12W', modelRevision: 1, modelName: '12 in woofer', quantity: 80,
-      status: 'in_process', createdBy: null, createdAt: '2026-12-02T06:00:00.000Z', completedAt: null,
+      id: id(900),
+      code: 'HB12W-261202-01',
+      modelId: id(901),
+      modelCode: 'HB12W',
+      modelRevision: 1,
+      modelName: '12 in woofer',
+      quantity: 80,
+      status: 'in_process',
+      createdBy: null,
+      createdAt: '2026-12-02T06:00:00.000Z',
+      completedAt: null,
     },
-    steps, currentStepId: steps.find((s) => s.state === 'pending')?.id ?? null, drivers: [], reworkRuns: [],
+    steps,
+    currentStepId: steps.find((s) => s.state === 'pending')?.id ?? null,
+    drivers: [],
+    reworkRuns: [],
   };
 }
 
@@ -54,6 +75,9 @@ describe('why the station cannot start a step yet', () => {
     const b = step(2);
     expect(startBlock(traveler([a, b]), null, NOW, 'UTC')?.kind).toBe('no-step');
     expect(startBlock(traveler([a, b]), a, NOW, 'UTC')).toMatchObject({ kind: 'running' });
-    expect(startBlock(traveler([a, b]), b, NOW, 'UTC')).toMatchObject({ kind: 'out-of-order', text: 'Step 1 "Magnet assembly" must be finished first.' });
+    expect(startBlock(traveler([a, b]), b, NOW, 'UTC')).toMatchObject({
+      kind: 'out-of-order',
+      text: 'Step 1 "Magnet assembly" must be finished first.',
+    });
   });
 });

@@ -3,7 +3,12 @@ import { cacheControlFor } from '../../server/static';
 
 describe('cache headers of the built client', () => {
   it('keeps content-hashed assets (and their .br / .gz copies) for a year', () => {
-    for (const file of ['/srv/dist/assets/index-fdG373jM.js', '/srv/dist/assets/index-DgLf69L-.css.br', '/srv/dist/assets/QTable-BeKumtSB.js.gz', '/srv/dist/assets/noto-sans-latin-400-normal-C2Y8JxHr.woff2']) {
+    for (const file of [
+      '/srv/dist/assets/index-fdG373jM.js',
+      '/srv/dist/assets/index-DgLf69L-.css.br',
+      '/srv/dist/assets/QTable-BeKumtSB.js.gz',
+      '/srv/dist/assets/noto-sans-latin-400-normal-C2Y8JxHr.woff2',
+    ]) {
       expect(cacheControlFor(file)).toBe('public, max-age=31536000, immutable');
     }
   });

@@ -5,18 +5,40 @@ import { describeCountdown } from '@/composables/useCountdown';
 
 const MIN = 60_000;
 const base = {
-  id: '00000000-0000-4000-8000-000000000001', stationId: '00000000-0000-4000-8000-000000000002', batchId: '00000000-0000-4000-8000-000000000003',
-  batchCode: 'HB12W-260304-01', loadedAt: '2026-03-04T08:00:00.000Z', loadedBy: null,
+  id: '00000000-0000-4000-8000-000000000001',
+  stationId: '00000000-0000-4000-8000-000000000002',
+  batchId: '00000000-0000-4000-8000-000000000003',
+  batchCode: 'HB12W-260304-01',
+  loadedAt: '2026-03-04T08:00:00.000Z',
+  loadedBy: null,
   lot: { id: '00000000-0000-4000-8000-000000000004', supplierLot: 'L1', status: 'released' as const },
-  material: { id: '00000000-0000-4000-8000-000000000005', code: 'ADH', name: 'Adhesive', kind: 'adhesive' as const, unit: 'g', hazards: { pictograms: [], statements: [] }, sdsAttachmentId: null },
+  material: {
+    id: '00000000-0000-4000-8000-000000000005',
+    code: 'ADH',
+    name: 'Adhesive',
+    kind: 'adhesive' as const,
+    unit: 'g',
+    hazards: { pictograms: [], statements: [] },
+    sdsAttachmentId: null,
+  },
   partMaterial: null,
   partLot: null,
 };
 
 function mixLoad(mixedAt: string, endsAt: string): StationLoad {
   return {
-    ...base, container: null, expiryCause: 'pot_life', expiresAt: endsAt,
-    mix: { id: '00000000-0000-4000-8000-000000000006', code: 'MX-260304-1', remaining: 50, status: 'active', mixedAt, potLifeEndsAt: endsAt },
+    ...base,
+    container: null,
+    expiryCause: 'pot_life',
+    expiresAt: endsAt,
+    mix: {
+      id: '00000000-0000-4000-8000-000000000006',
+      code: 'MX-260304-1',
+      remaining: 50,
+      status: 'active',
+      mixedAt,
+      potLifeEndsAt: endsAt,
+    },
   };
 }
 
@@ -37,8 +59,19 @@ describe('station countdown thresholds', () => {
 
   it('an opened container warns in the last fifth of its after-opening life', () => {
     const load: StationLoad = {
-      ...base, mix: null, expiryCause: 'open_life', expiresAt: '2026-03-09T08:00:00.000Z',
-      container: { id: '00000000-0000-4000-8000-000000000007', code: 'TLC-4D7QX2MB9', lotId: base.lot.id, quantity: 50, remaining: 40, status: 'open', openedAt: '2026-03-04T08:00:00.000Z' },
+      ...base,
+      mix: null,
+      expiryCause: 'open_life',
+      expiresAt: '2026-03-09T08:00:00.000Z',
+      container: {
+        id: '00000000-0000-4000-8000-000000000007',
+        code: 'TLC-4D7QX2MB9',
+        lotId: base.lot.id,
+        quantity: 50,
+        remaining: 40,
+        status: 'open',
+        openedAt: '2026-03-04T08:00:00.000Z',
+      },
     };
     expect(loadSoonMs(load)).toBe(24 * 60 * MIN); // 5 days / 5
     expect(loadLimitText(load)).toBe('after-opening life');

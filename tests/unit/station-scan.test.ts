@@ -3,8 +3,14 @@ import type { Station } from '@shared/schemas/stations';
 import { interpretScan } from '@/stores/station-scan';
 
 const station: Station = {
-  id: '00000000-0000-4000-8000-000000000001', code: 'ST-MAG-1', name: 'Magnet bond robot 1', kind: 'magnet_assembly',
-  area: 'Line A', cureEnvironment: 'area', active: true, createdAt: '2026-03-04T08:00:00.000Z',
+  id: '00000000-0000-4000-8000-000000000001',
+  code: 'ST-MAG-1',
+  name: 'Magnet bond robot 1',
+  kind: 'magnet_assembly',
+  area: 'Line A',
+  cureEnvironment: 'area',
+  active: true,
+  createdAt: '2026-03-04T08:00:00.000Z',
 };
 
 describe('what a scan at the station means', () => {

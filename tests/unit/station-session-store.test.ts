@@ -7,11 +7,14 @@ import type { StepRun } from '@shared/schemas/steps';
 import { ApiError } from '@/api/http';
 
 // Every API call the store may make is mocked; any call a test did not set up fails the test.
-const unexpected = (name: string) => vi.fn((...args: unknown[]) => {
-  throw new Error(`unexpected request: ${name}(${JSON.stringify(args)})`);
-});
+const unexpected = (name: string) =>
+  vi.fn((...args: unknown[]) => {
+    throw new Error(`unexpected request: ${name}(${JSON.stringify(args)})`);
+  });
 vi.mock('@/api/stations', () => ({
-  listStations: unexpected('listStations'), loadAtStation: unexpected('loadAtStation'), listLoaded: unexpected('listLoaded'),
+  listStations: unexpected('listStations'),
+  loadAtStation: unexpected('loadAtStation'),
+  listLoaded: unexpected('listLoaded'),
   unloadAtStation: unexpected('unloadAtStation'),
 }));
 vi.mock('@/api/batches', () => ({ listBatches: unexpected('listBatches'), getBatch: unexpected('getBatch') }));
@@ -26,35 +29,96 @@ const { useStationSessionStore } = await import('@/stores/station-session');
 const id = (n: number) => `00000000-0000-4000-8000-${String(n).padStart(12, '0')}`;
 const NOW = '2026-03-04T08:00:00.000Z';
 
-const magStation: Station = { id: id(1), code: 'ST-MAG-1', name: 'Magnet bond robot 1', kind: 'magnet_assembly', area: 'Line A', cureEnvironment: 'area', active: true, createdAt: NOW };
-const capStation: Station = { id: id(2), code: 'ST-CAP-1', name: 'Dust cap bench 1', kind: 'dust_cap', area: 'Line A', cureEnvironment: 'area', active: true, createdAt: NOW };
+const magStation: Station = {
+  id: id(1),
+  code: 'ST-MAG-1',
+  name: 'Magnet bond robot 1',
+  kind: 'magnet_assembly',
+  area: 'Line A',
+  cureEnvironment: 'area',
+  active: true,
+  createdAt: NOW,
+};
+const capStation: Station = {
+  id: id(2),
+  code: 'ST-CAP-1',
+  name: 'Dust cap bench 1',
+  kind: 'dust_cap',
+  area: 'Line A',
+  cureEnvironment: 'area',
+  active: true,
+  createdAt: NOW,
+};
 
 function step(n: number, name: string, kind: string, state: TravelerStep['state'], extra: Partial<TravelerStep> = {}): TravelerStep {
-  return { id: id(100 + n), seq: n, name, stationKind: kind, waitForCure: false, materials: [], state, run: null, handlingAt: null, cureCompleteAt: null, ...extra };
+  return {
+    id: id(100 + n),
+    seq: n,
+    name,
+    stationKind: kind,
+    waitForCure: false,
+    materials: [],
+    state,
+    run: null,
+    handlingAt: null,
+    cureCompleteAt: null,
+    ...extra,
+  };
 }
 
 function traveler(steps: TravelerStep[]): BatchDetail {
   return {
     batch: {
-      id: id(50), code: 'HB12W-260304-01', modelId: id(60), modelCode: 'HB12W', modelName: '12 in woofer', modelRevision: 1, quantity: 4,
-      status: 'open', createdBy: null, createdAt: NOW, completedAt: null,
+      id: id(50),
+      code: 'HB12W-260304-01',
+      modelId: id(60),
+      modelCode: 'HB12W',
+      modelName: '12 in woofer',
+      modelRevision: 1,
+      quantity: 4,
+      status: 'open',
+      createdBy: null,
+      createdAt: NOW,
+      completedAt: null,
     },
-    steps, currentStepId: steps[0].id, drivers: [], reworkRuns: [],
+    steps,
+    currentStepId: steps[0].id,
+    drivers: [],
+    reworkRuns: [],
   };
 }
 
-const magTraveler = () => traveler([step(1, 'Magnet assembly', 'magnet_assembly', 'pending'), step(2, 'Moving parts', 'moving_parts', 'pending')]);
+const magTraveler = () =>
+  traveler([step(1, 'Magnet assembly', 'magnet_assembly', 'pending'), step(2, 'Moving parts', 'moving_parts', 'pending')]);
 
 function loadResult(code: string): LoadResult {
   return {
-    id: id(200), stationId: magStation.id, batchId: id(50), batchCode: 'HB12W-260304-01', loadedAt: NOW, loadedBy: null,
+    id: id(200),
+    stationId: magStation.id,
+    batchId: id(50),
+    batchCode: 'HB12W-260304-01',
+    loadedAt: NOW,
+    loadedBy: null,
     container: { id: id(300), code, lotId: id(400), quantity: 50, remaining: 50, status: 'open', openedAt: NOW },
-    mix: null, lot: { id: id(400), supplierLot: 'AN-2207', status: 'released' },
-    material: { id: id(500), code: 'ADH-AN-220', name: 'Anaerobic bond 220', kind: 'adhesive', unit: 'g', hazards: { pictograms: ['GHS07'], statements: ['H317'] }, sdsAttachmentId: null },
+    mix: null,
+    lot: { id: id(400), supplierLot: 'AN-2207', status: 'released' },
+    material: {
+      id: id(500),
+      code: 'ADH-AN-220',
+      name: 'Anaerobic bond 220',
+      kind: 'adhesive',
+      unit: 'g',
+      hazards: { pictograms: ['GHS07'], statements: ['H317'] },
+      sdsAttachmentId: null,
+    },
     partMaterial: null,
     partLot: null,
-    expiresAt: '2026-03-05T08:00:00.000Z', expiryCause: 'open_life',
-    accepted: true, step: { id: id(101), seq: 1, name: 'Magnet assembly' }, opened: true, alreadyLoaded: false,
+    expiresAt: '2026-03-05T08:00:00.000Z',
+    expiryCause: 'open_life',
+    accepted: true,
+    step: { id: id(101), seq: 1, name: 'Magnet assembly' },
+    opened: true,
+    alreadyLoaded: false,
   };
 }
 
@@ -76,7 +140,12 @@ beforeEach(() => {
   vi.clearAllMocks();
   storage = memoryLocalStorage();
   vi.stubGlobal('localStorage', storage);
-  vi.stubGlobal('fetch', vi.fn(() => { throw new Error('unexpected fetch: the store must call src/api only'); }));
+  vi.stubGlobal(
+    'fetch',
+    vi.fn(() => {
+      throw new Error('unexpected fetch: the store must call src/api only');
+    }),
+  );
   setActivePinia(createPinia());
 });
 afterEach(() => vi.unstubAllGlobals());
@@ -107,7 +176,11 @@ describe('station session store', () => {
     const store = useStationSessionStore();
     vi.mocked(stationsApi.listLoaded).mockResolvedValue({ items: [], now: NOW });
     let arrive: (list: Station[]) => void = () => undefined;
-    vi.mocked(stationsApi.listStations).mockReturnValueOnce(new Promise((resolve) => { arrive = resolve; }));
+    vi.mocked(stationsApi.listStations).mockReturnValueOnce(
+      new Promise((resolve) => {
+        arrive = resolve;
+      }),
+    );
     const listing = store.refreshStations();
     const scanning = store.scan('ST-MAG-1'); // a fast scanner, right after the page opened
     arrive([magStation, capStation]);
@@ -188,9 +261,23 @@ describe('station session store', () => {
   it('starts and finishes the step that runs at this station', async () => {
     const store = await sessionAtMagnetStation();
     const run: StepRun = {
-      id: id(700), batchId: id(50), stepId: id(101), stationId: magStation.id, driverId: null, serial: null, kind: 'build',
-      startedAt: NOW, finishedAt: null, startedBy: null, finishedBy: null, handlingAt: null, cureCompleteAt: null,
-      shortCure: false, deviationId: null, unitsDone: null, materials: [],
+      id: id(700),
+      batchId: id(50),
+      stepId: id(101),
+      stationId: magStation.id,
+      driverId: null,
+      serial: null,
+      kind: 'build',
+      startedAt: NOW,
+      finishedAt: null,
+      startedBy: null,
+      finishedBy: null,
+      handlingAt: null,
+      cureCompleteAt: null,
+      shortCure: false,
+      deviationId: null,
+      unitsDone: null,
+      materials: [],
     };
     vi.mocked(stepsApi.startStep).mockResolvedValueOnce({ stepRun: run });
     store.startStep();
@@ -230,7 +317,10 @@ describe('station session store', () => {
     await flush();
     await flush();
     const bodies = vi.mocked(stationsApi.loadAtStation).mock.calls.map((c) => c[1]);
-    expect(bodies).toEqual([{ batchId: id(50), containerCode: 'XYZ-1' }, { batchId: id(50), mixCode: 'XYZ-1' }]);
+    expect(bodies).toEqual([
+      { batchId: id(50), containerCode: 'XYZ-1' },
+      { batchId: id(50), mixCode: 'XYZ-1' },
+    ]);
     expect(store.feedback).toMatchObject({ kind: 'refuse', code: 'NOT_FOUND' });
   });
 });

@@ -2,8 +2,16 @@ import { describe, expect, it } from 'vitest';
 import binomialTest from '@stdlib/stats-binomial-test';
 import stdlibCdf from '@stdlib/stats-base-dists-binomial-cdf';
 import {
-  benjaminiHochberg, binomialCdf, binomialPmf, binomialTestGreater, binomialTestTwoSided, binomialUpperTail,
-  clopperPearson, flagLots, pChart, pChartLimits,
+  benjaminiHochberg,
+  binomialCdf,
+  binomialPmf,
+  binomialTestGreater,
+  binomialTestTwoSided,
+  binomialUpperTail,
+  clopperPearson,
+  flagLots,
+  pChart,
+  pChartLimits,
 } from '../../shared/stats';
 
 /** Small seeded PRNG (mulberry32) so the random cross-checks are repeatable. */
@@ -38,7 +46,11 @@ describe('p-chart', () => {
   });
 
   it('flags points outside, floors the LCL at 0 and varies limits with sample size', () => {
-    const chart = pChart([{ defectives: 2, inspected: 100 }, { defectives: 2, inspected: 100 }, { defectives: 20, inspected: 100 }]);
+    const chart = pChart([
+      { defectives: 2, inspected: 100 },
+      { defectives: 2, inspected: 100 },
+      { defectives: 20, inspected: 100 },
+    ]);
     expect(chart.center).toBeCloseTo(24 / 300, 12);
     expect(chart.points[2].above).toBe(true);
     // Montgomery §7.3: a negative lower limit is set to 0
@@ -113,7 +125,12 @@ describe('exact binomial test', () => {
   // Speed is the benchmark's business, not a test's: this only checks agreement at large n.
   // The @stdlib reference takes a few seconds per case at n = 1e6, hence the long timeout.
   it('agrees with @stdlib up to n = 1e6', { timeout: 120_000 }, () => {
-    const cases = [[10_300, 1_000_000, 0.01], [9_800, 1_000_000, 0.01], [500_400, 1_000_000, 0.5], [12, 1_000_000, 1e-5]];
+    const cases = [
+      [10_300, 1_000_000, 0.01],
+      [9_800, 1_000_000, 0.01],
+      [500_400, 1_000_000, 0.5],
+      [12, 1_000_000, 1e-5],
+    ];
     const ours = cases.map(([k, n, p]) => [binomialUpperTail(k, n, p), binomialTestTwoSided(k, n, p)]);
     cases.forEach(([k, n, p], i) => {
       expect(close(ours[i][0], 1 - stdlibCdf(k - 1, n, p), 1e-8, 1e-12), `upper(${k}, ${n}, ${p})`).toBe(true);

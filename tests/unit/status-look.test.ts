@@ -20,7 +20,10 @@ describe('status as shown: past its effective expiry reads Expired, whatever the
   });
 
   it('before its expiry, or with none, the recorded status shows', () => {
-    expect(statusLook('lot', 'released', { expiresAt: future, cause: 'shelf_life', nowMs: NOW })).toMatchObject({ label: 'Released', color: 'positive' });
+    expect(statusLook('lot', 'released', { expiresAt: future, cause: 'shelf_life', nowMs: NOW })).toMatchObject({
+      label: 'Released',
+      color: 'positive',
+    });
     expect(statusLook('lot', 'released', { expiresAt: null, nowMs: NOW }).label).toBe('Released');
     expect(statusLook('lot', 'released').label).toBe('Released');
   });

@@ -93,7 +93,8 @@ describe('FEFO simulation, hand-worked', () => {
     // The open container is not set aside: it runs days 0–10. The delivery expires sealed at
     // day 8 → 10 kg waste. Runs out at day 10.
     const r = simulateFefo({
-      start: START, dailyUse: 1,
+      start: START,
+      dailyUse: 1,
       containers: [{ quantity: 10, expiresAt: day(40) }],
       incoming: [{ arrivesAt: day(2), quantity: 10, expiresAt: day(8) }],
     });
@@ -106,8 +107,14 @@ describe('FEFO simulation, hand-worked', () => {
     // 2 kg expiring day 30 → waste at day 30; 3 kg expiring day 500 (after a 365-day horizon) →
     // left at the horizon; 1 kg with no expiry → left.
     const r = simulateFefo({
-      start: START, dailyUse: 0, horizonDays: 365,
-      containers: [{ quantity: 2, expiresAt: day(30) }, { quantity: 3, expiresAt: day(500) }, { quantity: 1, expiresAt: null }],
+      start: START,
+      dailyUse: 0,
+      horizonDays: 365,
+      containers: [
+        { quantity: 2, expiresAt: day(30) },
+        { quantity: 3, expiresAt: day(500) },
+        { quantity: 1, expiresAt: null },
+      ],
     });
     expect(r.runsOutAt).toBeNull();
     expect(r.used).toBe(0);
@@ -121,10 +128,22 @@ describe('FEFO simulation, hand-worked', () => {
     // 6 kg that expired 2 days before the start: waste 6, ended at its expiry (day −2).
     // 4 kg expiring day 10 at 1 kg/day: used by day 4 → runs out at day 4 (not day 10).
     const r = simulateFefo({
-      start: START, dailyUse: 1,
-      containers: [{ quantity: 6, expiresAt: day(-2) }, { quantity: 4, expiresAt: day(10) }],
+      start: START,
+      dailyUse: 1,
+      containers: [
+        { quantity: 6, expiresAt: day(-2) },
+        { quantity: 4, expiresAt: day(10) },
+      ],
     });
-    expect(r.containers[0]).toEqual({ used: 0, wasted: 6, left: 0, openedAt: null, expiresAt: day(-2), endedAt: day(-2), endedBy: 'expired' });
+    expect(r.containers[0]).toEqual({
+      used: 0,
+      wasted: 6,
+      left: 0,
+      openedAt: null,
+      expiresAt: day(-2),
+      endedAt: day(-2),
+      endedBy: 'expired',
+    });
     expect(r.containers[1]).toMatchObject({ used: 4, endedAt: day(4), endedBy: 'empty' });
     expect(r.runsOutAt).toBe(day(4));
     expect(r.wasted).toBe(6);
@@ -135,9 +154,14 @@ describe('FEFO simulation, hand-worked', () => {
     // Delivery B: 4 kg arriving day 40, horizon 30 days → not reached: left 4, ended at the horizon.
     // On hand 10 kg (no expiry) at 1 kg/day: used up at day 10; A is never usable → runs out at day 10.
     const r = simulateFefo({
-      start: START, dailyUse: 1, horizonDays: 30,
+      start: START,
+      dailyUse: 1,
+      horizonDays: 30,
       containers: [{ quantity: 10, expiresAt: null }],
-      incoming: [{ arrivesAt: day(3), quantity: 5, expiresAt: day(2) }, { arrivesAt: day(40), quantity: 4, expiresAt: null }],
+      incoming: [
+        { arrivesAt: day(3), quantity: 5, expiresAt: day(2) },
+        { arrivesAt: day(40), quantity: 4, expiresAt: null },
+      ],
     });
     expect(r.incoming[0]).toMatchObject({ used: 0, wasted: 5, openedAt: null, endedAt: day(3), endedBy: 'expired' });
     expect(r.incoming[1]).toMatchObject({ used: 0, wasted: 0, left: 4, endedAt: day(30), endedBy: 'horizon' });
@@ -155,7 +179,9 @@ describe('FEFO simulation, hand-worked', () => {
   it('refuses input it cannot use', () => {
     expect(() => simulateFefo({ start: 'soon', dailyUse: 1, containers: [] })).toThrow(/start/);
     expect(() => simulateFefo({ start: START, dailyUse: -1, containers: [] })).toThrow(/dailyUse/);
-    expect(() => simulateFefo({ start: START, dailyUse: 1, containers: [{ quantity: 1, expiresAt: null, openedAt: day(1) }] })).toThrow(/openedAt/);
+    expect(() => simulateFefo({ start: START, dailyUse: 1, containers: [{ quantity: 1, expiresAt: null, openedAt: day(1) }] })).toThrow(
+      /openedAt/,
+    );
   });
 });
 
@@ -206,7 +232,8 @@ describe('FEFO simulation, properties (fast-check)', () => {
         const r = simulateFefo({ start: START, ...i });
         expect(r.used).toBeLessThanOrEqual(i.dailyUse * i.horizonDays + 1e-6);
         for (const c of [...r.containers, ...r.incoming]) {
-          if (c.expiresAt !== null) expect(Date.parse(c.endedAt)).toBeLessThanOrEqual(Math.max(Date.parse(c.expiresAt), Date.parse(r.horizonAt)));
+          if (c.expiresAt !== null)
+            expect(Date.parse(c.endedAt)).toBeLessThanOrEqual(Math.max(Date.parse(c.expiresAt), Date.parse(r.horizonAt)));
           if (c.used > 0) expect(c.openedAt).not.toBeNull();
           expect(Date.parse(c.endedAt)).toBeLessThanOrEqual(Date.parse(r.horizonAt));
         }
@@ -223,7 +250,12 @@ describe('FEFO simulation, properties (fast-check)', () => {
         fc.double({ min: 0.1, max: 50, noNaN: true }),
         (quantities, dailyUse) => {
           const onHand = quantities.reduce((s, q) => s + q, 0);
-          const r = simulateFefo({ start: START, dailyUse, horizonDays: 10_000, containers: quantities.map((q) => ({ quantity: q, expiresAt: null })) });
+          const r = simulateFefo({
+            start: START,
+            dailyUse,
+            horizonDays: 10_000,
+            containers: quantities.map((q) => ({ quantity: q, expiresAt: null })),
+          });
           const days = (Date.parse(r.runsOutAt!) - Date.parse(START)) / 86_400_000;
           expect(days).toBeCloseTo(onHand / dailyUse, 4);
           expect(r.wasted).toBe(0);

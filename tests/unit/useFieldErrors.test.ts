@@ -5,8 +5,19 @@ import { ApiError } from '../../src/api/http';
 import { fieldFor, pathToField, sortIssues, useFieldErrors } from '../../src/composables/useFieldErrors';
 
 const MATERIAL_FIELDS = [
-  'code', 'name', 'kind', 'unit', 'storageClass', 'thawedLifeHours', 'cure', 'cure.refTempC',
-  'cure.handlingMinutes', 'cure.fullCureMinutes', 'hazards.statements', 'hazards.pictograms', 'gtin',
+  'code',
+  'name',
+  'kind',
+  'unit',
+  'storageClass',
+  'thawedLifeHours',
+  'cure',
+  'cure.refTempC',
+  'cure.handlingMinutes',
+  'cure.fullCureMinutes',
+  'hazards.statements',
+  'hazards.pictograms',
+  'gtin',
 ];
 
 describe('field names', () => {
@@ -40,10 +51,14 @@ describe('field names', () => {
 });
 
 describe('useFieldErrors with the shared schemas', () => {
-  it('puts the material schema\'s cross-field rules at the fields they name', () => {
+  it("puts the material schema's cross-field rules at the fields they name", () => {
     const form = useFieldErrors(MATERIAL_FIELDS);
     const data = form.validate(materialInputSchema, {
-      code: 'ADH-X', name: 'Test adhesive', kind: 'adhesive', unit: 'g', storageClass: 'frozen',
+      code: 'ADH-X',
+      name: 'Test adhesive',
+      kind: 'adhesive',
+      unit: 'g',
+      storageClass: 'frozen',
       cure: { refTempC: 23, handlingMinutes: 200, fullCureMinutes: 100 },
       hazards: { pictograms: [], statements: ['H317', 'nonsense'] },
     });
@@ -61,7 +76,11 @@ describe('useFieldErrors with the shared schemas', () => {
     form.show([{ field: 'code', message: 'is taken' }]);
     // GTIN 09501101530003 of the demo adhesive: check digit 3 by the GS1 mod-10 rule (gs1.org).
     const data = form.validate(materialInputSchema, {
-      code: 'ADH-Y', name: 'Test adhesive', kind: 'adhesive', unit: 'g', gtin: '9501101530003',
+      code: 'ADH-Y',
+      name: 'Test adhesive',
+      kind: 'adhesive',
+      unit: 'g',
+      gtin: '9501101530003',
     });
     expect(data?.gtin).toBe('09501101530003');
     expect(form.errors).toEqual({});
@@ -75,7 +94,7 @@ describe('useFieldErrors with the shared schemas', () => {
     expect(form.errors.gtin).toBe('has a wrong check digit');
   });
 
-  it('maps a server 400\'s details onto the named fields', () => {
+  it("maps a server 400's details onto the named fields", () => {
     const form = useFieldErrors(['supplierLot', 'expiresOn']);
     const shown = form.fromApiError(
       new ApiError(400, 'VALIDATION_FAILED', 'Check the body: expiresOn must not be before manufacturedOn', [
@@ -87,7 +106,7 @@ describe('useFieldErrors with the shared schemas', () => {
     expect(form.formError.value).toBe('');
   });
 
-  it('shows a refusal without fields (409, network) as the form\'s message', () => {
+  it("shows a refusal without fields (409, network) as the form's message", () => {
     const form = useFieldErrors(['supplierLot']);
     form.fromApiError(new ApiError(409, 'DUPLICATE_LOT', 'Lot L-9 of this material was received on 2026-03-01.'));
     // The catalogue's plain title, then the server's message; never the code.
@@ -97,9 +116,11 @@ describe('useFieldErrors with the shared schemas', () => {
 
   it('names a 400 field the form does not have in the form message', () => {
     const form = useFieldErrors(['supplierLot']);
-    form.fromApiError(new ApiError(400, 'VALIDATION_FAILED', 'Check the body: gtin has a wrong check digit', [
-      { field: 'gtin', message: 'has a wrong check digit' },
-    ]));
+    form.fromApiError(
+      new ApiError(400, 'VALIDATION_FAILED', 'Check the body: gtin has a wrong check digit', [
+        { field: 'gtin', message: 'has a wrong check digit' },
+      ]),
+    );
     expect(form.errors).toEqual({});
     expect(form.formError.value).toMatch(/gtin has a wrong check digit/);
   });

@@ -18,14 +18,20 @@ describe('scan keys', () => {
 
   it('trims what the wedge adds but keeps GS inside the code', () => {
     expect(cleanScan('  TLC-4D7QX2MB9\r\n')).toBe('TLC-4D7QX2MB9');
-    expect(cleanScan(`0109501101530003${'10'}LOT7${GROUP_SEPARATOR}17271231\t`)).toBe(`0109501101530003${'10'}LOT7${GROUP_SEPARATOR}17271231`);
+    expect(cleanScan(`0109501101530003${'10'}LOT7${GROUP_SEPARATOR}17271231\t`)).toBe(
+      `0109501101530003${'10'}LOT7${GROUP_SEPARATOR}17271231`,
+    );
   });
 });
 
 describe('useScanner', () => {
   it('hands a GS1 element string typed with Ctrl+] to onScan, readable by the GS1 parser', async () => {
     const scans: string[] = [];
-    const scanner = useScanner({ onScan: (code) => { scans.push(code); } });
+    const scanner = useScanner({
+      onScan: (code) => {
+        scans.push(code);
+      },
+    });
     scanner.value.value = '0109501101530003' + '10E2E-7';
     scanner.onKeydown({ key: ']', ctrlKey: true });
     scanner.value.value += '17271231';
@@ -43,7 +49,9 @@ describe('useScanner', () => {
     const scanner = useScanner({
       onScan: (code) => {
         scans.push(code);
-        return new Promise<void>((resolve) => { release = resolve; });
+        return new Promise<void>((resolve) => {
+          release = resolve;
+        });
       },
     });
     expect(await scanner.submit()).toBe(false);
@@ -61,7 +69,13 @@ describe('useScanner', () => {
   it('drops a double read of the same code but takes it again later', async () => {
     let t = 1000;
     const scans: string[] = [];
-    const scanner = useScanner({ onScan: (code) => { scans.push(code); }, repeatMs: 800, clock: () => t });
+    const scanner = useScanner({
+      onScan: (code) => {
+        scans.push(code);
+      },
+      repeatMs: 800,
+      clock: () => t,
+    });
     scanner.value.value = 'TLC-4D7QX2MB9';
     await scanner.submit();
     t += 200;
@@ -75,7 +89,11 @@ describe('useScanner', () => {
   });
 
   it('frees the field when onScan fails', async () => {
-    const scanner = useScanner({ onScan: () => { throw new Error('server down'); } });
+    const scanner = useScanner({
+      onScan: () => {
+        throw new Error('server down');
+      },
+    });
     scanner.value.value = 'X';
     await expect(scanner.submit()).rejects.toThrow('server down');
     expect(scanner.busy.value).toBe(false);

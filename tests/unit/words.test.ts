@@ -1,12 +1,33 @@
 /** Plain words for internal values (shared/words.ts): every listed value has words, none reads as the value. */
 import { describe, expect, it } from 'vitest';
 import {
-  ALERT_KINDS, ALERT_SEVERITIES, ALERT_STATES, BATCH_STATUSES, CONTAINER_STATUSES, DRIVER_STATUSES, LOT_STATUSES,
-  MATERIAL_KINDS, MIX_STATUSES, ROLES, STORAGE_CLASSES,
+  ALERT_KINDS,
+  ALERT_SEVERITIES,
+  ALERT_STATES,
+  BATCH_STATUSES,
+  CONTAINER_STATUSES,
+  DRIVER_STATUSES,
+  LOT_STATUSES,
+  MATERIAL_KINDS,
+  MIX_STATUSES,
+  ROLES,
+  STORAGE_CLASSES,
 } from '../../shared/constants';
 import {
-  alertKindWords, alertSeverityWords, alertStateWords, batchStatusWords, containerStatusWords, driverStatusWords, humanize,
-  lotStatusWords, materialKindWords, mixStatusWords, roleWord, roleWords, stationKindWords, storageClassWords,
+  alertKindWords,
+  alertSeverityWords,
+  alertStateWords,
+  batchStatusWords,
+  containerStatusWords,
+  driverStatusWords,
+  humanize,
+  lotStatusWords,
+  materialKindWords,
+  mixStatusWords,
+  roleWord,
+  roleWords,
+  stationKindWords,
+  storageClassWords,
 } from '../../shared/words';
 
 const lists: [string, readonly string[], (v: string) => string][] = [

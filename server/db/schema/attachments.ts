@@ -17,8 +17,5 @@ export const attachments = pgTable(
     uploadedBy: uuid('uploaded_by').references(() => users.id),
     uploadedAt: timestamp('uploaded_at', { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [
-    check('attachments_size_ck', sql`${t.sizeBytes} > 0`),
-    check('attachments_sha_ck', sql`${t.sha256} ~ '^[0-9a-f]{64}$'`),
-  ],
+  (t) => [check('attachments_size_ck', sql`${t.sizeBytes} > 0`), check('attachments_sha_ck', sql`${t.sha256} ~ '^[0-9a-f]{64}$'`)],
 );

@@ -1,6 +1,17 @@
 import { sql } from 'drizzle-orm';
 import {
-  boolean, check, index, integer, jsonb, numeric, pgTable, text, timestamp, uniqueIndex, uuid, type AnyPgColumn,
+  boolean,
+  check,
+  index,
+  integer,
+  jsonb,
+  numeric,
+  pgTable,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+  type AnyPgColumn,
 } from 'drizzle-orm/pg-core';
 import { materialKindEnum, storageClassEnum } from './enums';
 import { attachments } from './attachments';
@@ -130,7 +141,9 @@ export const driverModels = pgTable(
   },
   (t) => [
     uniqueIndex('driver_models_code_revision_uq').on(t.code, t.revision),
-    uniqueIndex('driver_models_current_uq').on(t.code).where(sql`${t.current}`),
+    uniqueIndex('driver_models_current_uq')
+      .on(t.code)
+      .where(sql`${t.current}`),
     check('driver_models_revision_ck', sql`${t.revision} >= 1`),
   ],
 );
@@ -139,7 +152,9 @@ export const recipeSteps = pgTable(
   'recipe_steps',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    modelId: uuid('model_id').notNull().references(() => driverModels.id, { onDelete: 'cascade' }),
+    modelId: uuid('model_id')
+      .notNull()
+      .references(() => driverModels.id, { onDelete: 'cascade' }),
     seq: integer('seq').notNull(),
     name: text('name').notNull(),
     stationKind: text('station_kind').notNull(),
@@ -153,8 +168,12 @@ export const recipeStepMaterials = pgTable(
   'recipe_step_materials',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    stepId: uuid('step_id').notNull().references(() => recipeSteps.id, { onDelete: 'cascade' }),
-    materialId: uuid('material_id').notNull().references(() => materials.id),
+    stepId: uuid('step_id')
+      .notNull()
+      .references(() => recipeSteps.id, { onDelete: 'cascade' }),
+    materialId: uuid('material_id')
+      .notNull()
+      .references(() => materials.id),
     amountPerUnit: numeric('amount_per_unit', { precision: 14, scale: 4 }).notNull(),
   },
   (t) => [

@@ -10,8 +10,12 @@ export const lots = pgTable(
   'lots',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    materialId: uuid('material_id').notNull().references(() => materials.id),
-    supplierId: uuid('supplier_id').notNull().references(() => suppliers.id),
+    materialId: uuid('material_id')
+      .notNull()
+      .references(() => materials.id),
+    supplierId: uuid('supplier_id')
+      .notNull()
+      .references(() => suppliers.id),
     supplierLot: text('supplier_lot').notNull(),
     gtin: text('gtin'),
     status: lotStatusEnum('status').notNull().default('on_hold'),
@@ -43,7 +47,9 @@ export const containers = pgTable(
   {
     id: uuid('id').primaryKey().defaultRandom(),
     code: text('code').notNull(),
-    lotId: uuid('lot_id').notNull().references(() => lots.id),
+    lotId: uuid('lot_id')
+      .notNull()
+      .references(() => lots.id),
     seq: integer('seq').notNull(),
     quantity: numeric('quantity', { precision: 14, scale: 3 }).notNull(),
     remaining: numeric('remaining', { precision: 14, scale: 3 }).notNull(),
@@ -74,9 +80,15 @@ export const mixes = pgTable(
   {
     id: uuid('id').primaryKey().defaultRandom(),
     code: text('code').notNull(),
-    stationId: uuid('station_id').notNull().references(() => stations.id),
-    resinContainerId: uuid('resin_container_id').notNull().references(() => containers.id),
-    hardenerContainerId: uuid('hardener_container_id').notNull().references(() => containers.id),
+    stationId: uuid('station_id')
+      .notNull()
+      .references(() => stations.id),
+    resinContainerId: uuid('resin_container_id')
+      .notNull()
+      .references(() => containers.id),
+    hardenerContainerId: uuid('hardener_container_id')
+      .notNull()
+      .references(() => containers.id),
     resinQuantity: numeric('resin_quantity', { precision: 14, scale: 3 }).notNull(),
     hardenerQuantity: numeric('hardener_quantity', { precision: 14, scale: 3 }).notNull(),
     remaining: numeric('remaining', { precision: 14, scale: 3 }).notNull(),

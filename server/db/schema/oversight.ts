@@ -1,5 +1,18 @@
 import { sql } from 'drizzle-orm';
-import { bigint, bigserial, boolean, index, integer, jsonb, pgTable, primaryKey, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
+import {
+  bigint,
+  bigserial,
+  boolean,
+  index,
+  integer,
+  jsonb,
+  pgTable,
+  primaryKey,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from 'drizzle-orm/pg-core';
 import type { NotificationMode } from '../../../shared/notifications';
 import { alertSeverityEnum, alertStateEnum, emailKindEnum, emailStatusEnum, roleEnum } from './enums';
 import { users } from './users';
@@ -16,7 +29,10 @@ export const alerts = pgTable(
     subjectId: text('subject_id').notNull(),
     message: text('message').notNull(),
     /** Roles that should hear of it. */
-    audience: roleEnum('audience').array().notNull().default(sql`'{}'::role[]`),
+    audience: roleEnum('audience')
+      .array()
+      .notNull()
+      .default(sql`'{}'::role[]`),
     data: jsonb('data').$type<Record<string, unknown>>(),
     raisedAt: timestamp('raised_at', { withTimezone: true }).notNull().defaultNow(),
     acknowledgedAt: timestamp('acknowledged_at', { withTimezone: true }),
@@ -27,7 +43,9 @@ export const alerts = pgTable(
   },
   (t) => [
     // One live alert per kind and subject: the watch never raises a duplicate.
-    uniqueIndex('alerts_live_uq').on(t.kind, t.subjectType, t.subjectId).where(sql`${t.state} <> 'resolved'`),
+    uniqueIndex('alerts_live_uq')
+      .on(t.kind, t.subjectType, t.subjectId)
+      .where(sql`${t.state} <> 'resolved'`),
     index('alerts_state_idx').on(t.state, t.raisedAt),
   ],
 );
@@ -52,7 +70,9 @@ export const outgoingEmails = pgTable(
     /** The HTML part (inline styles only, no remote images). */
     html: text('html'),
     /** RFC 5322 Message-ID, fixed when queued, so a repeated send is the same message. */
-    messageId: text('message_id').notNull().default(sql`'<' || gen_random_uuid() || '@tacklog.invalid>'`),
+    messageId: text('message_id')
+      .notNull()
+      .default(sql`'<' || gen_random_uuid() || '@tacklog.invalid>'`),
     /** Once-only key (alert+recipient, digest user+plant date): a second insert does nothing. */
     dedupeKey: text('dedupe_key'),
     recipientUserId: uuid('recipient_user_id').references(() => users.id),
@@ -107,7 +127,9 @@ export const capturedEmails = pgTable(
  * an alert they were e-mailed about is resolved.
  */
 export const notificationSettings = pgTable('notification_settings', {
-  userId: uuid('user_id').primaryKey().references(() => users.id),
+  userId: uuid('user_id')
+    .primaryKey()
+    .references(() => users.id),
   modes: jsonb('modes').$type<Record<string, NotificationMode>>().notNull().default({}),
   whenResolved: boolean('when_resolved').notNull().default(false),
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
@@ -119,7 +141,9 @@ export const idempotencyKeys = pgTable(
   'idempotency_keys',
   {
     key: text('key').notNull(),
-    actorId: uuid('actor_id').notNull().references(() => users.id),
+    actorId: uuid('actor_id')
+      .notNull()
+      .references(() => users.id),
     method: text('method').notNull(),
     path: text('path').notNull(),
     /** SHA-256 of the first request's query and JSON body: a repeat with another body is refused. */

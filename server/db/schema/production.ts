@@ -11,7 +11,9 @@ export const buildBatches = pgTable(
   {
     id: uuid('id').primaryKey().defaultRandom(),
     code: text('code').notNull(),
-    modelId: uuid('model_id').notNull().references(() => driverModels.id),
+    modelId: uuid('model_id')
+      .notNull()
+      .references(() => driverModels.id),
     quantity: integer('quantity').notNull(),
     status: batchStatusEnum('status').notNull().default('open'),
     createdBy: uuid('created_by').references(() => users.id),
@@ -30,7 +32,9 @@ export const drivers = pgTable(
   {
     id: uuid('id').primaryKey().defaultRandom(),
     serial: text('serial').notNull(),
-    batchId: uuid('batch_id').notNull().references(() => buildBatches.id),
+    batchId: uuid('batch_id')
+      .notNull()
+      .references(() => buildBatches.id),
     status: driverStatusEnum('status').notNull().default('in_process'),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },
@@ -49,7 +53,9 @@ export const deviations = pgTable(
     reason: text('reason').notNull(),
     /** Meaning of the signature (21 CFR 11.50): e.g. 'approval'. */
     meaning: text('meaning').notNull().default('approval'),
-    signedBy: uuid('signed_by').notNull().references(() => users.id),
+    signedBy: uuid('signed_by')
+      .notNull()
+      .references(() => users.id),
     signedAt: timestamp('signed_at', { withTimezone: true }).notNull().defaultNow(),
     usedAt: timestamp('used_at', { withTimezone: true }),
   },
@@ -61,9 +67,15 @@ export const stepRuns = pgTable(
   'step_runs',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    batchId: uuid('batch_id').notNull().references(() => buildBatches.id),
-    stepId: uuid('step_id').notNull().references(() => recipeSteps.id),
-    stationId: uuid('station_id').notNull().references(() => stations.id),
+    batchId: uuid('batch_id')
+      .notNull()
+      .references(() => buildBatches.id),
+    stepId: uuid('step_id')
+      .notNull()
+      .references(() => recipeSteps.id),
+    stationId: uuid('station_id')
+      .notNull()
+      .references(() => stations.id),
     /** Set for a single-unit run (rework); null when the whole batch ran. */
     driverId: uuid('driver_id').references(() => drivers.id),
     kind: stepRunKindEnum('kind').notNull().default('build'),
@@ -92,7 +104,9 @@ export const stepRunMaterials = pgTable(
   'step_run_materials',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    stepRunId: uuid('step_run_id').notNull().references(() => stepRuns.id),
+    stepRunId: uuid('step_run_id')
+      .notNull()
+      .references(() => stepRuns.id),
     containerId: uuid('container_id').references(() => containers.id),
     mixId: uuid('mix_id').references(() => mixes.id),
     quantityUsed: numeric('quantity_used', { precision: 14, scale: 3 }).notNull().default('0'),
@@ -113,8 +127,12 @@ export const stationLoads = pgTable(
   'station_loads',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    stationId: uuid('station_id').notNull().references(() => stations.id),
-    batchId: uuid('batch_id').notNull().references(() => buildBatches.id),
+    stationId: uuid('station_id')
+      .notNull()
+      .references(() => stations.id),
+    batchId: uuid('batch_id')
+      .notNull()
+      .references(() => buildBatches.id),
     containerId: uuid('container_id').references(() => containers.id),
     mixId: uuid('mix_id').references(() => mixes.id),
     loadedAt: timestamp('loaded_at', { withTimezone: true }).notNull().defaultNow(),
@@ -124,13 +142,19 @@ export const stationLoads = pgTable(
   (t) => [
     index('station_loads_station_idx').on(t.stationId, t.unloadedAt),
     // One active load of a container or mix per batch and station, even when loads race.
-    uniqueIndex('station_loads_active_container_uq').on(t.stationId, t.batchId, t.containerId)
+    uniqueIndex('station_loads_active_container_uq')
+      .on(t.stationId, t.batchId, t.containerId)
       .where(sql`${t.unloadedAt} IS NULL AND ${t.containerId} IS NOT NULL`),
-    uniqueIndex('station_loads_active_mix_uq').on(t.stationId, t.batchId, t.mixId)
+    uniqueIndex('station_loads_active_mix_uq')
+      .on(t.stationId, t.batchId, t.mixId)
       .where(sql`${t.unloadedAt} IS NULL AND ${t.mixId} IS NOT NULL`),
     // "Is this container (mix) loaded now?": one index entry per open load, whatever the history.
-    index('station_loads_open_container_idx').on(t.containerId).where(sql`${t.unloadedAt} IS NULL`),
-    index('station_loads_open_mix_idx').on(t.mixId).where(sql`${t.unloadedAt} IS NULL`),
+    index('station_loads_open_container_idx')
+      .on(t.containerId)
+      .where(sql`${t.unloadedAt} IS NULL`),
+    index('station_loads_open_mix_idx')
+      .on(t.mixId)
+      .where(sql`${t.unloadedAt} IS NULL`),
     check('station_loads_one_ck', sql`(${t.containerId} IS NULL) <> (${t.mixId} IS NULL)`),
   ],
 );
@@ -139,7 +163,9 @@ export const testResults = pgTable(
   'test_results',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    driverId: uuid('driver_id').notNull().references(() => drivers.id),
+    driverId: uuid('driver_id')
+      .notNull()
+      .references(() => drivers.id),
     result: testResultEnum('result').notNull(),
     defectCode: text('defect_code').references(() => defectCodes.code),
     measurements: jsonb('measurements').$type<Record<string, number>>(),
@@ -206,7 +232,9 @@ export const materialUses = pgView('material_uses', {
  * every driver and test of a year.
  */
 export const batchOutcomes = pgTable('batch_outcomes', {
-  batchId: uuid('batch_id').primaryKey().references(() => buildBatches.id),
+  batchId: uuid('batch_id')
+    .primaryKey()
+    .references(() => buildBatches.id),
   drivers: integer('drivers').notNull().default(0),
   tested: integer('tested').notNull().default(0),
   failed: integer('failed').notNull().default(0),

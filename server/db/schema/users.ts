@@ -9,15 +9,15 @@ export const users = pgTable(
     email: text('email').notNull(),
     name: text('name').notNull(),
     passwordHash: text('password_hash').notNull(),
-    roles: roleEnum('roles').array().notNull().default(sql`'{}'::role[]`),
+    roles: roleEnum('roles')
+      .array()
+      .notNull()
+      .default(sql`'{}'::role[]`),
     active: boolean('active').notNull().default(true),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [
-    uniqueIndex('users_email_lower_uq').on(sql`lower(${t.email})`),
-    check('users_email_ck', sql`position('@' in ${t.email}) > 1`),
-  ],
+  (t) => [uniqueIndex('users_email_lower_uq').on(sql`lower(${t.email})`), check('users_email_ck', sql`position('@' in ${t.email}) > 1`)],
 );
 
 /**
@@ -28,7 +28,9 @@ export const sessions = pgTable(
   'sessions',
   {
     id: uuid('id').primaryKey().defaultRandom(),
-    userId: uuid('user_id').notNull().references(() => users.id),
+    userId: uuid('user_id')
+      .notNull()
+      .references(() => users.id),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
     expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
     revokedAt: timestamp('revoked_at', { withTimezone: true }),

@@ -123,11 +123,7 @@ function shopTemp(at: DateTime, rnd: () => number, base: number): number {
   return Math.round((base + swing + (rnd() - 0.5) * 0.6) * 10) / 10;
 }
 
-export function simulateHistory(
-  now: DateTime,
-  materials: DemoMaterial[],
-  models: { code: string; steps: DemoStep[] }[],
-): History {
+export function simulateHistory(now: DateTime, materials: DemoMaterial[], models: { code: string; steps: DemoStep[] }[]): History {
   const rnd = mulberry32(20261201);
   const byCode = new Map(materials.map((m) => [m.code, m]));
   const lots: SimLot[] = [];
@@ -153,24 +149,28 @@ export function simulateHistory(
       key,
       materialCode,
       supplierCode: m.supplier,
-      supplierLot: opts.supplierLot ?? `${materialCode.split('-')[0]}${receivedAt.toFormat('yyMM')}-${String(1000 + lotCounter * 37).slice(-4)}`,
+      supplierLot:
+        opts.supplierLot ?? `${materialCode.split('-')[0]}${receivedAt.toFormat('yyMM')}-${String(1000 + lotCounter * 37).slice(-4)}`,
       status: opts.status ?? 'released',
       statusReason: opts.statusReason,
       receivedAt,
       manufacturedOn: opts.manufacturedOn !== undefined ? opts.manufacturedOn : dateOnly(manufactured),
       expiresOn:
-        opts.expiresOn !== undefined
-          ? opts.expiresOn
-          : m.shelfLifeDays
-            ? dateOnly(manufactured.plus({ days: m.shelfLifeDays }))
-            : null,
+        opts.expiresOn !== undefined ? opts.expiresOn : m.shelfLifeDays ? dateOnly(manufactured.plus({ days: m.shelfLifeDays })) : null,
       containers: [],
     };
     const storage = m.storageClass === 'frozen' ? 'Freezer F1' : m.storageClass === 'refrigerated' ? 'Fridge R1' : 'Cabinet A';
     for (let i = 1; i <= containers; i++) {
       lot.containers.push({
-        key: `${key}-${i}`, lotKey: key, materialCode, seq: i, quantity: m.perContainer, remaining: m.perContainer,
-        openedAt: null, thawedAt: null, location: `${storage}, shelf ${1 + (i % 4)}`,
+        key: `${key}-${i}`,
+        lotKey: key,
+        materialCode,
+        seq: i,
+        quantity: m.perContainer,
+        remaining: m.perContainer,
+        openedAt: null,
+        thawedAt: null,
+        location: `${storage}, shelf ${1 + (i % 4)}`,
       });
     }
     lots.push(lot);
@@ -374,13 +374,17 @@ export function simulateHistory(
     const last = d.tests[d.tests.length - 1].at;
     const startedAt = last.plus({ hours: 3 + i });
     const model = modelByCode.get(b.modelCode)!;
-    const uses = [
-      ...consume(b.modelCode === 'HB12W' ? 'CON-12P' : 'CON-6P', 1, startedAt),
-      ...consume('ADH-CA-40', 0.5, startedAt),
-    ];
+    const uses = [...consume(b.modelCode === 'HB12W' ? 'CON-12P' : 'CON-6P', 1, startedAt), ...consume('ADH-CA-40', 0.5, startedAt)];
     stepRuns.push({
-      batchKey: b.key, stepIndex: 1, stationCode: 'ST-RWK-1', driverSerial: d.serial, kind: 'rework',
-      startedAt, finishedAt: startedAt.plus({ minutes: 40 }), shortCure: false, uses,
+      batchKey: b.key,
+      stepIndex: 1,
+      stationCode: 'ST-RWK-1',
+      driverSerial: d.serial,
+      kind: 'rework',
+      startedAt,
+      finishedAt: startedAt.plus({ minutes: 40 }),
+      shortCure: false,
+      uses,
     });
     void model;
     d.status = 'passed';
@@ -407,7 +411,8 @@ export function simulateHistory(
   running.status = 'in_process';
   runStep(running, fullRange, 0, now.minus({ hours: 1, minutes: 40 }), 50);
   const movingRun = runStep(running, fullRange, 1, now.minus({ minutes: 40 }), 0, { finished: false });
-  for (const u of movingRun.uses) if (u.container) loads.push({ stationCode: 'ST-MOV-2', batchKey: running.key, container: u.container, at: movingRun.startedAt });
+  for (const u of movingRun.uses)
+    if (u.container) loads.push({ stationCode: 'ST-MOV-2', batchKey: running.key, container: u.container, at: movingRun.startedAt });
 
   // A third batch, just released to the line: epoxy mixed at the moving-parts bench.
   const next = newBatch('HB12W', 80, now.minus({ hours: 1 }));
@@ -418,13 +423,26 @@ export function simulateHistory(
   const resinC = resinLots.flatMap((l) => l.containers).find((c) => c.remaining >= 300)!;
   const hardC = hardLots.flatMap((l) => l.containers).find((c) => c.remaining >= 300)!;
   const potLife = byCode.get('ADH-EP-410A')!.potLifeMinutes!;
-  for (const [minutesAgo, status, station] of [[37, 'active', 'ST-MOV-1'], [75, 'active', 'ST-RWK-1']] as const) {
+  for (const [minutesAgo, status, station] of [
+    [37, 'active', 'ST-MOV-1'],
+    [75, 'active', 'ST-RWK-1'],
+  ] as const) {
     const mixedAt = now.minus({ minutes: minutesAgo });
-    resinC.remaining -= 120; hardC.remaining -= 120;
-    resinC.openedAt ??= mixedAt; hardC.openedAt ??= mixedAt;
+    resinC.remaining -= 120;
+    hardC.remaining -= 120;
+    resinC.openedAt ??= mixedAt;
+    hardC.openedAt ??= mixedAt;
     const mix: SimMix = {
-      key: `M${mixes.length + 1}`, stationCode: station, resin: resinC, hardener: hardC, resinQuantity: 120,
-      hardenerQuantity: 120, remaining: 240, mixedAt, potLifeEndsAt: mixedAt.plus({ minutes: potLife }), status,
+      key: `M${mixes.length + 1}`,
+      stationCode: station,
+      resin: resinC,
+      hardener: hardC,
+      resinQuantity: 120,
+      hardenerQuantity: 120,
+      remaining: 240,
+      mixedAt,
+      potLifeEndsAt: mixedAt.plus({ minutes: potLife }),
+      status,
     };
     mixes.push(mix);
     loads.push({ stationCode: station, batchKey: next.key, mix, at: mixedAt.plus({ minutes: 2 }) });
@@ -434,7 +452,8 @@ export function simulateHistory(
   receive('ADH-AN-220', now.minus({ hours: 20 }), 6, { status: 'on_hold' });
   receive('WIR-AL-EW', now.minus({ hours: 5 }), 3, { status: 'on_hold' });
   receive('CON-12P', now.minus({ days: 9 }), 5, {
-    status: 'quarantined', statusReason: 'Cones warped in transit; moisture damage suspected, awaiting supplier response.',
+    status: 'quarantined',
+    statusReason: 'Cones warped in transit; moisture damage suspected, awaiting supplier response.',
   });
   // A large cyanoacrylate lot bought near the end of its life: more than the line can use in the
   // 9 days left, so purchasing sees predicted waste and days of cover shorter than on hand ÷ use.
@@ -451,7 +470,10 @@ export function simulateHistory(
   // its lead time plus four weeks of a full working day's use (so the stock page shows most
   // materials with enough cover, and the exceptions stand out).
   const dayUse = new Map<string, number>();
-  for (const [model, qty] of [[woofer, 120], [fullRange, 150]] as const) {
+  for (const [model, qty] of [
+    [woofer, 120],
+    [fullRange, 150],
+  ] as const) {
     for (const step of model.steps) for (const [code, perUnit] of step.materials) dayUse.set(code, (dayUse.get(code) ?? 0) + perUnit * qty);
   }
   for (const m of materials) {

@@ -28,28 +28,44 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
   const assembler = users['assembler@tacklog.test'];
   const quality = users['quality@tacklog.test'];
 
-  const supplierRows = await tx.insert(s.suppliers).values(DEMO_SUPPLIERS.map((x) => ({ ...x }))).returning();
+  const supplierRows = await tx
+    .insert(s.suppliers)
+    .values(DEMO_SUPPLIERS.map((x) => ({ ...x })))
+    .returning();
   const supplierId = new Map(supplierRows.map((r) => [r.code, r.id]));
 
   const materialRows = await tx
     .insert(s.materials)
     .values(
       DEMO_MATERIALS.map((m) => ({
-        code: m.code, name: m.name, kind: m.kind, unit: m.unit, storageClass: m.storageClass,
-        shelfLifeDays: m.shelfLifeDays ?? null, openLifeHours: m.openLifeHours ?? null,
-        thawedLifeHours: m.thawedLifeHours ?? null, outOfStorageAllowanceHours: m.outOfStorageAllowanceHours ?? null,
-        potLifeMinutes: m.potLifeMinutes ?? null, mixRatio: m.mixRatio != null ? String(m.mixRatio) : null,
-        cure: m.cure ?? null, requiresInspection: m.requiresInspection,
-        hazards: m.hazards ?? { pictograms: [], statements: [] }, gtin: m.gtin ?? null,
+        code: m.code,
+        name: m.name,
+        kind: m.kind,
+        unit: m.unit,
+        storageClass: m.storageClass,
+        shelfLifeDays: m.shelfLifeDays ?? null,
+        openLifeHours: m.openLifeHours ?? null,
+        thawedLifeHours: m.thawedLifeHours ?? null,
+        outOfStorageAllowanceHours: m.outOfStorageAllowanceHours ?? null,
+        potLifeMinutes: m.potLifeMinutes ?? null,
+        mixRatio: m.mixRatio != null ? String(m.mixRatio) : null,
+        cure: m.cure ?? null,
+        requiresInspection: m.requiresInspection,
+        hazards: m.hazards ?? { pictograms: [], statements: [] },
+        gtin: m.gtin ?? null,
         reorderPoint: m.reorderPoint != null ? String(m.reorderPoint) : null,
-        orderQuantity: m.orderQuantity != null ? String(m.orderQuantity) : null, leadTimeDays: m.leadTimeDays ?? null,
+        orderQuantity: m.orderQuantity != null ? String(m.orderQuantity) : null,
+        leadTimeDays: m.leadTimeDays ?? null,
       })),
     )
     .returning();
   const materialId = new Map(materialRows.map((r) => [r.code, r.id]));
   for (const m of DEMO_MATERIALS) {
     if (!m.partner) continue;
-    await tx.update(s.materials).set({ partnerMaterialId: materialId.get(m.partner)! }).where(eq(s.materials.id, materialId.get(m.code)!));
+    await tx
+      .update(s.materials)
+      .set({ partnerMaterialId: materialId.get(m.partner)! })
+      .where(eq(s.materials.id, materialId.get(m.code)!));
   }
 
   const stationRows = await tx.insert(s.stations).values(DEMO_STATIONS).returning();
@@ -57,7 +73,10 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
 
   const stepIds = new Map<string, string[]>();
   for (const model of DEMO_MODELS) {
-    const [row] = await tx.insert(s.driverModels).values({ code: model.code, name: model.name, description: model.description }).returning();
+    const [row] = await tx
+      .insert(s.driverModels)
+      .values({ code: model.code, name: model.name, description: model.description })
+      .returning();
     const ids: string[] = [];
     for (const [i, step] of model.steps.entries()) {
       const [st] = await tx
@@ -66,9 +85,11 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
         .returning();
       ids.push(st.id);
       if (step.materials.length) {
-        await tx.insert(s.recipeStepMaterials).values(
-          step.materials.map(([code, amount]) => ({ stepId: st.id, materialId: materialId.get(code)!, amountPerUnit: String(amount) })),
-        );
+        await tx
+          .insert(s.recipeStepMaterials)
+          .values(
+            step.materials.map(([code, amount]) => ({ stepId: st.id, materialId: materialId.get(code)!, amountPerUnit: String(amount) })),
+          );
       }
     }
     stepIds.set(model.code, ids);
@@ -84,9 +105,14 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
     const [row] = await tx
       .insert(s.lots)
       .values({
-        materialId: materialId.get(lot.materialCode)!, supplierId: supplierId.get(lot.supplierCode)!,
-        supplierLot: lot.supplierLot, status: lot.status, receivedAt: iso(lot.receivedAt),
-        manufacturedOn: lot.manufacturedOn, expiresOn: lot.expiresOn, receivedBy: receiving,
+        materialId: materialId.get(lot.materialCode)!,
+        supplierId: supplierId.get(lot.supplierCode)!,
+        supplierLot: lot.supplierLot,
+        status: lot.status,
+        receivedAt: iso(lot.receivedAt),
+        manufacturedOn: lot.manufacturedOn,
+        expiresOn: lot.expiresOn,
+        receivedBy: receiving,
         statusReason: lot.statusReason ?? null,
         statusChangedAt: lot.status === 'on_hold' ? null : iso(lot.receivedAt.plus({ hours: 4 })),
         statusChangedBy: lot.status === 'on_hold' ? null : quality,
@@ -96,21 +122,37 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
       .insert(s.containers)
       .values(
         lot.containers.map((c) => ({
-          code: demoContainerCode(), lotId: row.id, seq: c.seq, quantity: String(c.quantity), remaining: String(Math.max(0, c.remaining)),
+          code: demoContainerCode(),
+          lotId: row.id,
+          seq: c.seq,
+          quantity: String(c.quantity),
+          remaining: String(Math.max(0, c.remaining)),
           status: c.remaining <= 0 ? ('empty' as const) : c.openedAt ? ('open' as const) : ('sealed' as const),
-          openedAt: c.openedAt ? iso(c.openedAt) : null, thawedAt: c.thawedAt ? iso(c.thawedAt) : null, location: c.location,
+          openedAt: c.openedAt ? iso(c.openedAt) : null,
+          thawedAt: c.thawedAt ? iso(c.thawedAt) : null,
+          location: c.location,
         })),
       )
       .returning({ id: s.containers.id, seq: s.containers.seq });
     for (const c of lot.containers) containerId.set(c, cRows.find((r) => r.seq === c.seq)!.id);
     await tx.insert(s.auditLog).values({
-      at: iso(lot.receivedAt), actorId: receiving, action: 'lot.receive', entityType: 'lot', entityId: row.id,
+      at: iso(lot.receivedAt),
+      actorId: receiving,
+      action: 'lot.receive',
+      entityType: 'lot',
+      entityId: row.id,
       after: { supplierLot: lot.supplierLot, containers: lot.containers.length, status: 'on_hold' },
     });
     if (lot.status !== 'on_hold') {
       await tx.insert(s.auditLog).values({
-        at: iso(lot.receivedAt.plus({ hours: 4 })), actorId: quality, action: 'lot.status', entityType: 'lot', entityId: row.id,
-        before: { status: 'on_hold' }, after: { status: lot.status === 'used_up' ? 'released' : lot.status }, reason: lot.statusReason ?? 'Incoming inspection passed.',
+        at: iso(lot.receivedAt.plus({ hours: 4 })),
+        actorId: quality,
+        action: 'lot.status',
+        entityType: 'lot',
+        entityId: row.id,
+        before: { status: 'on_hold' },
+        after: { status: lot.status === 'used_up' ? 'released' : lot.status },
+        reason: lot.statusReason ?? 'Incoming inspection passed.',
       });
     }
   }
@@ -126,10 +168,18 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
     const [row] = await tx
       .insert(s.mixes)
       .values({
-        code: `MX-${day}-${String(seq).padStart(3, '0')}`, stationId: station.get(m.stationCode)!.id, resinContainerId: containerId.get(m.resin)!,
-        hardenerContainerId: containerId.get(m.hardener)!, resinQuantity: String(m.resinQuantity),
-        hardenerQuantity: String(m.hardenerQuantity), remaining: String(m.remaining), mixedAt: iso(m.mixedAt),
-        potLifeEndsAt: iso(m.potLifeEndsAt), tempC: '23', status: m.status, mixedBy: assembler,
+        code: `MX-${day}-${String(seq).padStart(3, '0')}`,
+        stationId: station.get(m.stationCode)!.id,
+        resinContainerId: containerId.get(m.resin)!,
+        hardenerContainerId: containerId.get(m.hardener)!,
+        resinQuantity: String(m.resinQuantity),
+        hardenerQuantity: String(m.hardenerQuantity),
+        remaining: String(m.remaining),
+        mixedAt: iso(m.mixedAt),
+        potLifeEndsAt: iso(m.potLifeEndsAt),
+        tempC: '23',
+        status: m.status,
+        mixedBy: assembler,
       })
       .returning({ id: s.mixes.id });
     mixId.set(m, row.id);
@@ -142,8 +192,13 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
     const [row] = await tx
       .insert(s.buildBatches)
       .values({
-        code: b.code, modelId: stepIds.get(`${b.modelCode}:model`)![0], quantity: b.quantity, status: b.status,
-        createdBy: assembler, createdAt: iso(b.createdAt), completedAt: b.status === 'completed' && b.completedAt ? iso(b.completedAt) : null,
+        code: b.code,
+        modelId: stepIds.get(`${b.modelCode}:model`)![0],
+        quantity: b.quantity,
+        status: b.status,
+        createdBy: assembler,
+        createdAt: iso(b.createdAt),
+        completedAt: b.status === 'completed' && b.completedAt ? iso(b.completedAt) : null,
       })
       .returning({ id: s.buildBatches.id });
     batchId.set(b.key, row.id);
@@ -156,7 +211,11 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
   const tests = h.batches.flatMap((b) =>
     b.drivers.flatMap((d) =>
       d.tests.map((t) => ({
-        driverId: driverId.get(d.serial)!, result: t.result, defectCode: t.defectCode ?? null, testedAt: iso(t.at), testedBy: assembler,
+        driverId: driverId.get(d.serial)!,
+        result: t.result,
+        defectCode: t.defectCode ?? null,
+        testedAt: iso(t.at),
+        testedBy: assembler,
       })),
     ),
   );
@@ -171,8 +230,13 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
       const [dev] = await tx
         .insert(s.deviations)
         .values({
-          kind: 'early_start', batchId: batchId.get(run.batchKey)!, stepId, reason: run.deviationReason,
-          signedBy: quality, signedAt: iso(run.startedAt.minus({ minutes: 20 })), usedAt: iso(run.startedAt),
+          kind: 'early_start',
+          batchId: batchId.get(run.batchKey)!,
+          stepId,
+          reason: run.deviationReason,
+          signedBy: quality,
+          signedAt: iso(run.startedAt.minus({ minutes: 20 })),
+          usedAt: iso(run.startedAt),
         })
         .returning({ id: s.deviations.id });
       deviationId = dev.id;
@@ -181,20 +245,31 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
     const [row] = await tx
       .insert(s.stepRuns)
       .values({
-        batchId: batchId.get(run.batchKey)!, stepId, stationId: station.get(run.stationCode)!.id,
-        driverId: run.driverSerial ? driverId.get(run.driverSerial)! : null, kind: run.kind,
-        startedAt: iso(run.startedAt), finishedAt: run.finishedAt ? iso(run.finishedAt) : null,
-        startedBy: assembler, finishedBy: run.finishedAt ? assembler : null,
+        batchId: batchId.get(run.batchKey)!,
+        stepId,
+        stationId: station.get(run.stationCode)!.id,
+        driverId: run.driverSerial ? driverId.get(run.driverSerial)! : null,
+        kind: run.kind,
+        startedAt: iso(run.startedAt),
+        finishedAt: run.finishedAt ? iso(run.finishedAt) : null,
+        startedBy: assembler,
+        finishedBy: run.finishedAt ? assembler : null,
         handlingAt: cure ? iso(run.finishedAt!.plus({ minutes: run.cureMinutes!.handling })) : null,
         cureCompleteAt: cure ? iso(run.finishedAt!.plus({ minutes: run.cureMinutes!.full })) : null,
-        shortCure: run.shortCure, deviationId, unitsDone: run.finishedAt ? (run.driverSerial ? 1 : batch.quantity) : null,
+        shortCure: run.shortCure,
+        deviationId,
+        unitsDone: run.finishedAt ? (run.driverSerial ? 1 : batch.quantity) : null,
       })
       .returning({ id: s.stepRuns.id });
     if (run.uses.length) {
       await tx.insert(s.stepRunMaterials).values(
         run.uses.map((u) => ({
-          stepRunId: row.id, containerId: u.container ? containerId.get(u.container)! : null, mixId: u.mix ? mixId.get(u.mix)! : null,
-          quantityUsed: String(Math.round(u.quantity * 1000) / 1000), loadedAt: iso(run.startedAt), loadedBy: assembler,
+          stepRunId: row.id,
+          containerId: u.container ? containerId.get(u.container)! : null,
+          mixId: u.mix ? mixId.get(u.mix)! : null,
+          quantityUsed: String(Math.round(u.quantity * 1000) / 1000),
+          loadedAt: iso(run.startedAt),
+          loadedBy: assembler,
         })),
       );
     }
@@ -204,16 +279,26 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
   if (h.loads.length) {
     await tx.insert(s.stationLoads).values(
       h.loads.map((l) => ({
-        stationId: station.get(l.stationCode)!.id, batchId: batchId.get(l.batchKey)!,
-        containerId: l.container ? containerId.get(l.container)! : null, mixId: l.mix ? mixId.get(l.mix)! : null,
-        loadedAt: iso(l.at), loadedBy: assembler,
+        stationId: station.get(l.stationCode)!.id,
+        batchId: batchId.get(l.batchKey)!,
+        containerId: l.container ? containerId.get(l.container)! : null,
+        mixId: l.mix ? mixId.get(l.mix)! : null,
+        loadedAt: iso(l.at),
+        loadedBy: assembler,
       })),
     );
   }
 
   await insertChunked(h.readings, 2000, (chunk) =>
     tx.insert(s.readings).values(
-      chunk.map((r) => ({ area: r.area, at: iso(r.at), tempC: String(r.tempC), rhPct: String(r.rhPct), source: 'sensor', recordedBy: admin })),
+      chunk.map((r) => ({
+        area: r.area,
+        at: iso(r.at),
+        tempC: String(r.tempC),
+        rhPct: String(r.rhPct),
+        source: 'sensor',
+        recordedBy: admin,
+      })),
     ),
   );
 
@@ -223,10 +308,18 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
   const lamp = stationRows.find((r) => r.code === 'ST-UV-1');
   if (oven && lamp) {
     const ovenReadings = Array.from({ length: 17 }, (_, i) => ({
-      stationId: oven.id, at: iso(now.minus({ minutes: 480 - i * 30 })), tempC: String(i === 0 ? 25 : 150 - (i % 3)), source: 'oven controller', recordedBy: admin,
+      stationId: oven.id,
+      at: iso(now.minus({ minutes: 480 - i * 30 })),
+      tempC: String(i === 0 ? 25 : 150 - (i % 3)),
+      source: 'oven controller',
+      recordedBy: admin,
     }));
     const lampReadings = [23, 16, 9].map((days, i) => ({
-      stationId: lamp.id, at: iso(now.minus({ days })), irradianceMWcm2: String([104, 101, 97][i]), source: 'radiometer', recordedBy: admin,
+      stationId: lamp.id,
+      at: iso(now.minus({ days })),
+      irradianceMWcm2: String([104, 101, 97][i]),
+      source: 'radiometer',
+      recordedBy: admin,
     }));
     await tx.insert(s.readings).values([...ovenReadings, ...lampReadings]);
   }

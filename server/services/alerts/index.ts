@@ -23,11 +23,22 @@ async function namesOf(tx: DbOrTx, rows: AlertRow[]): Promise<Map<string, string
 export function toAlert(r: AlertRow, names: ReadonlyMap<string, string> = new Map()): Alert {
   const detail = r.data && typeof r.data.detail === 'string' ? r.data.detail : null;
   return {
-    id: r.id, kind: r.kind, severity: r.severity, state: r.state, subjectType: r.subjectType, subjectId: r.subjectId,
-    message: r.message, detail, audience: r.audience, data: r.data ?? null, raisedAt: r.raisedAt.toISOString(),
-    acknowledgedAt: r.acknowledgedAt?.toISOString() ?? null, acknowledgedBy: r.acknowledgedBy,
+    id: r.id,
+    kind: r.kind,
+    severity: r.severity,
+    state: r.state,
+    subjectType: r.subjectType,
+    subjectId: r.subjectId,
+    message: r.message,
+    detail,
+    audience: r.audience,
+    data: r.data ?? null,
+    raisedAt: r.raisedAt.toISOString(),
+    acknowledgedAt: r.acknowledgedAt?.toISOString() ?? null,
+    acknowledgedBy: r.acknowledgedBy,
     acknowledgedByName: r.acknowledgedBy ? (names.get(r.acknowledgedBy) ?? null) : null,
-    resolvedAt: r.resolvedAt?.toISOString() ?? null, resolvedBy: r.resolvedBy,
+    resolvedAt: r.resolvedAt?.toISOString() ?? null,
+    resolvedBy: r.resolvedBy,
     resolvedByName: r.resolvedBy ? (names.get(r.resolvedBy) ?? null) : null,
     resolution: r.resolution,
   };
@@ -63,8 +74,13 @@ async function changeState(actor: Actor, id: string, to: 'acknowledged' | 'resol
         : { state: to, resolvedAt: now, resolvedBy: actor.id, resolution: resolution ?? null };
     const [updated] = await tx.update(alerts).set(change).where(eq(alerts.id, id)).returning();
     await recordAudit(tx, {
-      actorId: actor.id, action: `alert.${to === 'acknowledged' ? 'acknowledge' : 'resolve'}`, entityType: 'alert', entityId: id,
-      before: { state: row.state }, after: { state: to }, reason: resolution ?? null,
+      actorId: actor.id,
+      action: `alert.${to === 'acknowledged' ? 'acknowledge' : 'resolve'}`,
+      entityType: 'alert',
+      entityId: id,
+      before: { state: row.state },
+      after: { state: to },
+      reason: resolution ?? null,
     });
     // Resolving e-mails only those who asked to hear of it (their notification settings).
     if (to === 'resolved') await queueAlertResolvedMails(tx, row, resolution ?? '', now, actor.name);

@@ -24,7 +24,11 @@ export async function readAttachment(_actor: Actor, id: string): Promise<{ attac
     return { attachment: toAttachment(row), bytes };
   } catch (err) {
     if ((err as NodeJS.ErrnoException).code === 'ENOENT') {
-      throw new AppError('FILE_MISSING', `The file of ${row.filename} is missing from the server's upload folder; ask an administrator to restore it.`, 404);
+      throw new AppError(
+        'FILE_MISSING',
+        `The file of ${row.filename} is missing from the server's upload folder; ask an administrator to restore it.`,
+        404,
+      );
     }
     throw err;
   }
@@ -36,7 +40,9 @@ export async function readAttachment(_actor: Actor, id: string): Promise<{ attac
  * cleaned on upload get the same treatment).
  */
 export function contentDisposition(filename: string, inline: boolean, mimeType: string): string {
-  const name = (ALLOWED_UPLOAD_TYPES as readonly string[]).includes(mimeType) ? cleanFilename(filename, mimeType as UploadType) : cleanFilename(filename, 'application/pdf');
+  const name = (ALLOWED_UPLOAD_TYPES as readonly string[]).includes(mimeType)
+    ? cleanFilename(filename, mimeType as UploadType)
+    : cleanFilename(filename, 'application/pdf');
   const ascii = name.replace(/[^\x20-\x7e]/g, '_').replace(/["\\]/g, '_');
   const encoded = encodeURIComponent(name).replace(/['()*]/g, (c) => `%${c.charCodeAt(0).toString(16).toUpperCase()}`);
   return `${inline ? 'inline' : 'attachment'}; filename="${ascii}"; filename*=UTF-8''${encoded}`;

@@ -53,7 +53,10 @@ export function checkUpload(file: UploadedFile | undefined): UploadType {
   }
   const actual = sniffType(file.buffer);
   if (actual !== declared) {
-    throw fieldError(UPLOAD_FIELD, `content is not a ${EXTENSIONS[declared as UploadType].toUpperCase()} file, although it was sent as ${declared}`);
+    throw fieldError(
+      UPLOAD_FIELD,
+      `content is not a ${EXTENSIONS[declared as UploadType].toUpperCase()} file, although it was sent as ${declared}`,
+    );
   }
   return actual;
 }
@@ -100,7 +103,11 @@ export function storedPath(storagePath: string): string {
  * Writes the checked file to disk, then runs `work` (which records the row in a transaction).
  * If `work` fails, the file is deleted again and the error rethrown.
  */
-export async function withStoredFile<T>(file: UploadedFile, type: UploadType, work: (stored: { storagePath: string; sha256: string }) => Promise<T>): Promise<T> {
+export async function withStoredFile<T>(
+  file: UploadedFile,
+  type: UploadType,
+  work: (stored: { storagePath: string; sha256: string }) => Promise<T>,
+): Promise<T> {
   const storagePath = `${crypto.randomUUID()}.${EXTENSIONS[type]}`;
   const full = storedPath(storagePath);
   const sha256 = crypto.createHash('sha256').update(file.buffer).digest('hex');

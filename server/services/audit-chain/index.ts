@@ -51,7 +51,8 @@ export async function verifyAuditChain(tx: DbOrTx = db): Promise<AuditVerifyResu
         LIMIT ${BATCH}`)
     ).rows;
     for (const row of rows) {
-      if ((row.prev_hash ?? null) !== prev) return broken(row, 'its link to the previous entry does not match (an entry was removed, added or changed before it)');
+      if ((row.prev_hash ?? null) !== prev)
+        return broken(row, 'its link to the previous entry does not match (an entry was removed, added or changed before it)');
       const hash = crypto.createHash('sha256').update(row.canonical, 'utf8').digest('hex');
       if (hash !== row.hash) return broken(row, 'its content no longer matches its seal (a field was changed)');
       prev = row.hash;
@@ -92,9 +93,19 @@ export async function listAudit(actor: Actor, query: AuditQuery): Promise<AuditP
   if (query.cursor) where.push(sql`a.id < ${query.cursor}`);
   const rows = (
     await db.execute<{
-      id: string; at: Date; actor_id: string | null; actor_name: string | null; actor_email: string | null;
-      action: string; entity_type: string; entity_id: string; before: unknown; after: unknown; reason: string | null;
-      prev_hash: string | null; hash: string | null;
+      id: string;
+      at: Date;
+      actor_id: string | null;
+      actor_name: string | null;
+      actor_email: string | null;
+      action: string;
+      entity_type: string;
+      entity_id: string;
+      before: unknown;
+      after: unknown;
+      reason: string | null;
+      prev_hash: string | null;
+      hash: string | null;
     }>(sql`
       SELECT a.id, a.at, a.actor_id, u.name AS actor_name, u.email AS actor_email, a.action, a.entity_type, a.entity_id,
              a.before, a.after, a.reason, a.prev_hash, a.hash

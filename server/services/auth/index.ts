@@ -27,10 +27,12 @@ let lastPrune = 0;
 function pruneExpiredSessions(): void {
   if (Date.now() - lastPrune < 3600 * 1000) return;
   lastPrune = Date.now();
-  db.delete(sessions).where(lt(sessions.expiresAt, sql`now()`)).then(
-    () => undefined,
-    (err: unknown) => logger.error({ err }, 'pruning expired sessions failed'),
-  );
+  db.delete(sessions)
+    .where(lt(sessions.expiresAt, sql`now()`))
+    .then(
+      () => undefined,
+      (err: unknown) => logger.error({ err }, 'pruning expired sessions failed'),
+    );
 }
 
 /** A new session row for the user and its signed token (valid for TACKLOG_SESSION_HOURS). */
@@ -42,7 +44,11 @@ export async function createSession(userId: string): Promise<{ token: string; se
 }
 
 export async function login(input: LoginInput): Promise<{ token: string; user: User }> {
-  const [row] = await db.select().from(users).where(eq(sql`lower(${users.email})`, input.email.toLowerCase())).limit(1);
+  const [row] = await db
+    .select()
+    .from(users)
+    .where(eq(sql`lower(${users.email})`, input.email.toLowerCase()))
+    .limit(1);
   const ok = await bcrypt.compare(input.password, row?.passwordHash ?? DUMMY_HASH);
   if (!row || !ok || !row.active) {
     throw new AppError('BAD_CREDENTIALS', 'The e-mail or password is not right.', 401);
@@ -101,10 +107,14 @@ export async function logout(actor: Actor): Promise<void> {
 export async function changePassword(actor: Actor, input: PasswordChangeInput): Promise<{ endedSessions: number }> {
   const [row] = await db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, actor.id)).limit(1);
   if (!row || !(await bcrypt.compare(input.currentPassword, row.passwordHash))) {
-    throw new AppError('VALIDATION_FAILED', 'The current password is not right.', 400, [{ field: 'currentPassword', message: 'is not right' }]);
+    throw new AppError('VALIDATION_FAILED', 'The current password is not right.', 400, [
+      { field: 'currentPassword', message: 'is not right' },
+    ]);
   }
   if (input.currentPassword === input.newPassword) {
-    throw new AppError('VALIDATION_FAILED', 'The new password must differ from the current one.', 400, [{ field: 'newPassword', message: 'must differ from the current password' }]);
+    throw new AppError('VALIDATION_FAILED', 'The new password must differ from the current one.', 400, [
+      { field: 'newPassword', message: 'must differ from the current password' },
+    ]);
   }
   const passwordHash = await hashPassword(input.newPassword);
   return db.transaction(async (tx) => {

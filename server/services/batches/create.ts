@@ -26,7 +26,10 @@ export async function createBatch(actor: Actor, input: BatchInput, now: Date = n
       throw conflict('MODEL_RETIRED', `The model ${model.code} is retired; ask an administrator to reactivate it or pick another model.`);
     }
     if (!model.current) {
-      const [current] = await tx.select().from(driverModels).where(and(eq(driverModels.code, model.code), eq(driverModels.current, true)));
+      const [current] = await tx
+        .select()
+        .from(driverModels)
+        .where(and(eq(driverModels.code, model.code), eq(driverModels.current, true)));
       throw conflict(
         'MODEL_NOT_CURRENT',
         `${revisionLabel(model)} is not the current recipe of ${model.code}${current ? `; build with ${revisionLabel(current)}` : ''}.`,
@@ -34,7 +37,8 @@ export async function createBatch(actor: Actor, input: BatchInput, now: Date = n
       );
     }
     const [{ n: steps }] = await tx.select({ n: count() }).from(recipeSteps).where(eq(recipeSteps.modelId, model.id));
-    if (steps === 0) throw conflict('MODEL_HAS_NO_STEPS', `The model ${model.code} has no recipe steps yet; an administrator must add them first.`);
+    if (steps === 0)
+      throw conflict('MODEL_HAS_NO_STEPS', `The model ${model.code} has no recipe steps yet; an administrator must add them first.`);
 
     // <model code>-<yyMMdd of the plant day>-<seq of the day>; one writer per model and day at a time.
     const prefix = `${model.code}-${DateTime.fromJSDate(now).setZone(config.plantZone).toFormat('yyMMdd')}-`;
@@ -52,7 +56,12 @@ export async function createBatch(actor: Actor, input: BatchInput, now: Date = n
     const units = Array.from({ length: input.quantity }, (_, i) => ({ serial: serialFor(code, i + 1), batchId: row.id, createdAt: now }));
     const driverRows = [];
     for (let i = 0; i < units.length; i += 1000) {
-      driverRows.push(...(await tx.insert(drivers).values(units.slice(i, i + 1000)).returning()));
+      driverRows.push(
+        ...(await tx
+          .insert(drivers)
+          .values(units.slice(i, i + 1000))
+          .returning()),
+      );
     }
     const batch = toBatch(row, model);
     await recordAudit(tx, {

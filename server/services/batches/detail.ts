@@ -13,7 +13,16 @@ export async function getBatchDetail(id: string, now: Date = new Date()): Promis
   const progress = await batchProgress(db, row);
   const materialIds = [...new Set(progress.steps.flatMap((s) => s.materials.map((m) => m.materialId)))];
   const mats = materialIds.length
-    ? await db.select({ id: materials.id, code: materials.code, name: materials.name, unit: materials.unit, partnerMaterialId: materials.partnerMaterialId }).from(materials).where(inArray(materials.id, materialIds))
+    ? await db
+        .select({
+          id: materials.id,
+          code: materials.code,
+          name: materials.name,
+          unit: materials.unit,
+          partnerMaterialId: materials.partnerMaterialId,
+        })
+        .from(materials)
+        .where(inArray(materials.id, materialIds))
     : [];
   const buildRunRows = [...progress.buildRuns.values()];
   const reworkRows = await db
@@ -22,10 +31,23 @@ export async function getBatchDetail(id: string, now: Date = new Date()): Promis
     .where(and(eq(stepRuns.batchId, row.id), isNotNull(stepRuns.driverId)))
     .orderBy(asc(stepRuns.startedAt));
   const [buildRuns, reworkRuns] = await Promise.all([describeRuns(db, buildRunRows), describeRuns(db, reworkRows)]);
-  const profiles = await profilesForRuns(db, buildRunRows.filter((r) => r.finishedAt).map((r) => r.id));
+  const profiles = await profilesForRuns(
+    db,
+    buildRunRows.filter((r) => r.finishedAt).map((r) => r.id),
+  );
   const areas = new Map(
     buildRunRows.length
-      ? (await db.select({ id: stations.id, area: stations.area }).from(stations).where(inArray(stations.id, buildRunRows.map((r) => r.stationId)))).map((s) => [s.id, s.area])
+      ? (
+          await db
+            .select({ id: stations.id, area: stations.area })
+            .from(stations)
+            .where(
+              inArray(
+                stations.id,
+                buildRunRows.map((r) => r.stationId),
+              ),
+            )
+        ).map((s) => [s.id, s.area])
       : [],
   );
 
@@ -38,7 +60,12 @@ export async function getBatchDetail(id: string, now: Date = new Date()): Promis
     let cureCompleteAt: string | null = null;
     if (runRow && !runRow.finishedAt) state = 'running';
     if (runRow?.finishedAt) {
-      const cure = await cureOfRun(db, { finishedAt: runRow.finishedAt, area: areas.get(runRow.stationId) ?? '', stationId: runRow.stationId }, profiles.get(runRow.id) ?? [], now);
+      const cure = await cureOfRun(
+        db,
+        { finishedAt: runRow.finishedAt, area: areas.get(runRow.stationId) ?? '', stationId: runRow.stationId },
+        profiles.get(runRow.id) ?? [],
+        now,
+      );
       handlingAt = cure?.handlingAt ?? null;
       cureCompleteAt = cure?.cureCompleteAt ?? null;
       state = cure && (cure.cureCompleteAt === null || Date.parse(cure.cureCompleteAt) > now.getTime()) ? 'curing' : 'done';

@@ -31,6 +31,9 @@ export async function batchProgress(tx: DbOrTx, batch: { id: string; modelId: st
 
 export function checkBatchOpen(batch: { code: string; status: string }, allowCompleted = false): void {
   if (batch.status === 'cancelled' || (batch.status === 'completed' && !allowCompleted)) {
-    throw conflict('BATCH_CLOSED', `Batch ${batch.code} is ${batchStatusWords(batch.status).toLowerCase()}; nothing more can be loaded or run for it. Scan the batch you are building.`);
+    throw conflict(
+      'BATCH_CLOSED',
+      `Batch ${batch.code} is ${batchStatusWords(batch.status).toLowerCase()}; nothing more can be loaded or run for it. Scan the batch you are building.`,
+    );
   }
 }

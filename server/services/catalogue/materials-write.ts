@@ -6,9 +6,7 @@ import { zodIssues } from '../../middleware/errors';
 import type { Actor } from '../auth/actor';
 import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
-import {
-  materialInputSchema, type Material, type MaterialPatch, type MaterialValues,
-} from '../../../shared/schemas/materials';
+import { materialInputSchema, type Material, type MaterialPatch, type MaterialValues } from '../../../shared/schemas/materials';
 import { findMaterial, toMaterial, type MaterialRow } from './materials-read';
 import { checkPartner, relinkPartners } from './partners';
 
@@ -45,14 +43,26 @@ function columns(v: MaterialValues) {
 
 async function checkUnique(tx: Tx, v: MaterialValues, exceptId: string | null): Promise<void> {
   const notSelf = exceptId ? ne(materials.id, exceptId) : undefined;
-  const [sameCode] = await tx.select({ id: materials.id }).from(materials).where(and(eq(materials.code, v.code), notSelf)).limit(1);
+  const [sameCode] = await tx
+    .select({ id: materials.id })
+    .from(materials)
+    .where(and(eq(materials.code, v.code), notSelf))
+    .limit(1);
   if (sameCode) {
-    throw conflict('DUPLICATE_CODE', `A material with the code "${v.code}" already exists; choose another code.`, [{ field: 'code', message: 'is already used' }]);
+    throw conflict('DUPLICATE_CODE', `A material with the code "${v.code}" already exists; choose another code.`, [
+      { field: 'code', message: 'is already used' },
+    ]);
   }
   if (v.gtin) {
-    const [sameGtin] = await tx.select({ code: materials.code }).from(materials).where(and(eq(materials.gtin, v.gtin), notSelf)).limit(1);
+    const [sameGtin] = await tx
+      .select({ code: materials.code })
+      .from(materials)
+      .where(and(eq(materials.gtin, v.gtin), notSelf))
+      .limit(1);
     if (sameGtin) {
-      throw conflict('DUPLICATE_GTIN', `The GTIN ${v.gtin} already belongs to ${sameGtin.code}; one GTIN identifies one material.`, [{ field: 'gtin', message: 'is already used' }]);
+      throw conflict('DUPLICATE_GTIN', `The GTIN ${v.gtin} already belongs to ${sameGtin.code}; one GTIN identifies one material.`, [
+        { field: 'gtin', message: 'is already used' },
+      ]);
     }
   }
 }
@@ -114,8 +124,12 @@ export async function retireMaterial(actor: Actor, id: string): Promise<Material
     if (!row.active) return toMaterial(row);
     const [updated] = await tx.update(materials).set({ active: false, updatedAt: new Date() }).where(eq(materials.id, id)).returning();
     await recordAudit(tx, {
-      actorId: actor.id, action: 'material.retire', entityType: 'material', entityId: id,
-      before: { active: true }, after: { active: false },
+      actorId: actor.id,
+      action: 'material.retire',
+      entityType: 'material',
+      entityId: id,
+      before: { active: true },
+      after: { active: false },
     });
     return toMaterial(updated);
   });

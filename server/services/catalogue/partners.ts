@@ -14,10 +14,12 @@ import type { MaterialRow } from './materials-read';
 
 export function checkPairKinds(kind: MaterialKind, partnerKind: MaterialKind): void {
   const ok =
-    (kind === 'adhesive' && CURING_AGENT_KINDS.includes(partnerKind)) ||
-    (CURING_AGENT_KINDS.includes(kind) && partnerKind === 'adhesive');
+    (kind === 'adhesive' && CURING_AGENT_KINDS.includes(partnerKind)) || (CURING_AGENT_KINDS.includes(kind) && partnerKind === 'adhesive');
   if (!ok) {
-    throw fieldError('partnerMaterialId', `must pair an adhesive with a hardener or activator (this is ${kind}, the partner is ${partnerKind})`);
+    throw fieldError(
+      'partnerMaterialId',
+      `must pair an adhesive with a hardener or activator (this is ${kind}, the partner is ${partnerKind})`,
+    );
   }
 }
 
@@ -42,7 +44,13 @@ async function setPartner(tx: Tx, actor: Actor, row: MaterialRow, partnerId: str
  * Checks the partner a material is about to have (call before writing the material).
  * Returns the partner row, or null for no partner.
  */
-export async function checkPartner(tx: Tx, selfId: string | null, kind: MaterialKind, partnerId: string | null, changed: boolean): Promise<MaterialRow | null> {
+export async function checkPartner(
+  tx: Tx,
+  selfId: string | null,
+  kind: MaterialKind,
+  partnerId: string | null,
+  changed: boolean,
+): Promise<MaterialRow | null> {
   if (!partnerId) return null;
   if (partnerId === selfId) throw fieldError('partnerMaterialId', 'must be a different material');
   const partner = await lockRow(tx, partnerId);
@@ -68,9 +76,11 @@ export async function relinkPartners(tx: Tx, actor: Actor, self: MaterialRow, ol
     const old = await lockRow(tx, oldId);
     if (old && old.partnerMaterialId === self.id) {
       if (old.potLifeMinutes) {
-        throw conflict('PARTNER_STILL_NEEDED', `${old.code} has a pot life and needs its mix partner; remove its pot life or give it another partner first.`, [
-          { field: 'partnerMaterialId', message: `${old.code} still needs this material as its partner` },
-        ]);
+        throw conflict(
+          'PARTNER_STILL_NEEDED',
+          `${old.code} has a pot life and needs its mix partner; remove its pot life or give it another partner first.`,
+          [{ field: 'partnerMaterialId', message: `${old.code} still needs this material as its partner` }],
+        );
       }
       await setPartner(tx, actor, old, null);
     }

@@ -11,7 +11,11 @@ import type { Attachment } from '../../../shared/schemas/attachments';
 import type { Material } from '../../../shared/schemas/materials';
 
 /** Stores a material's safety data sheet; the previous one stays in the records. */
-export async function attachSds(actor: Actor, materialId: string, file: UploadedFile | undefined): Promise<{ attachment: Attachment; material: Material }> {
+export async function attachSds(
+  actor: Actor,
+  materialId: string,
+  file: UploadedFile | undefined,
+): Promise<{ attachment: Attachment; material: Material }> {
   requirePermission(actor, 'materials.edit');
   const type = checkUpload(file);
   await findMaterial(db, materialId); // 404 before anything is written
@@ -20,9 +24,16 @@ export async function attachSds(actor: Actor, materialId: string, file: Uploaded
     db.transaction(async (tx) => {
       const row = await findMaterial(tx, materialId, true);
       const attachment = await insertAttachment(tx, { kind: 'sds', file: upload, type, ...stored, uploadedBy: actor.id });
-      const [updated] = await tx.update(materials).set({ sdsAttachmentId: attachment.id, updatedAt: new Date() }).where(eq(materials.id, materialId)).returning();
+      const [updated] = await tx
+        .update(materials)
+        .set({ sdsAttachmentId: attachment.id, updatedAt: new Date() })
+        .where(eq(materials.id, materialId))
+        .returning();
       await recordAudit(tx, {
-        actorId: actor.id, action: 'material.sds', entityType: 'material', entityId: materialId,
+        actorId: actor.id,
+        action: 'material.sds',
+        entityType: 'material',
+        entityId: materialId,
         before: { sdsAttachmentId: row.sdsAttachmentId },
         after: { sdsAttachmentId: attachment.id, filename: attachment.filename, sha256: attachment.sha256 },
       });

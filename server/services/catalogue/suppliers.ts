@@ -45,21 +45,42 @@ export async function getSupplier(id: string): Promise<Supplier> {
 async function checkUnique(tx: Tx, name: string | undefined, code: string | undefined, exceptId: string | null): Promise<void> {
   const notSelf = exceptId ? ne(suppliers.id, exceptId) : undefined;
   if (name !== undefined) {
-    const [same] = await tx.select({ id: suppliers.id }).from(suppliers)
-      .where(and(eq(sql`lower(${suppliers.name})`, name.toLowerCase()), notSelf)).limit(1);
-    if (same) throw conflict('DUPLICATE_NAME', `A supplier named "${name}" already exists.`, [{ field: 'name', message: 'is already used' }]);
+    const [same] = await tx
+      .select({ id: suppliers.id })
+      .from(suppliers)
+      .where(and(eq(sql`lower(${suppliers.name})`, name.toLowerCase()), notSelf))
+      .limit(1);
+    if (same)
+      throw conflict('DUPLICATE_NAME', `A supplier named "${name}" already exists.`, [{ field: 'name', message: 'is already used' }]);
   }
   if (code !== undefined) {
-    const [same] = await tx.select({ id: suppliers.id }).from(suppliers).where(and(eq(suppliers.code, code), notSelf)).limit(1);
-    if (same) throw conflict('DUPLICATE_CODE', `A supplier with the code "${code}" already exists; choose another code.`, [{ field: 'code', message: 'is already used' }]);
+    const [same] = await tx
+      .select({ id: suppliers.id })
+      .from(suppliers)
+      .where(and(eq(suppliers.code, code), notSelf))
+      .limit(1);
+    if (same)
+      throw conflict('DUPLICATE_CODE', `A supplier with the code "${code}" already exists; choose another code.`, [
+        { field: 'code', message: 'is already used' },
+      ]);
   }
 }
 
 /** "Corvane Bonding Supplies" → SUP-CORVANEBOND, with -2, -3 … when taken. */
 async function deriveCode(tx: Tx, name: string): Promise<string> {
-  const stem = `SUP-${name.toUpperCase().replace(/[^A-Z0-9]/g, '').slice(0, 12) || 'X'}`;
+  const stem = `SUP-${
+    name
+      .toUpperCase()
+      .replace(/[^A-Z0-9]/g, '')
+      .slice(0, 12) || 'X'
+  }`;
   const taken = new Set(
-    (await tx.select({ code: suppliers.code }).from(suppliers).where(sql`${suppliers.code} LIKE ${`${stem}%`}`)).map((r) => r.code),
+    (
+      await tx
+        .select({ code: suppliers.code })
+        .from(suppliers)
+        .where(sql`${suppliers.code} LIKE ${`${stem}%`}`)
+    ).map((r) => r.code),
   );
   if (!taken.has(stem)) return stem;
   for (let i = 2; ; i++) if (!taken.has(`${stem}-${i}`)) return `${stem}-${i}`;
@@ -73,8 +94,13 @@ export async function createSupplier(actor: Actor, input: SupplierValues): Promi
     const [row] = await tx
       .insert(suppliers)
       .values({
-        name: input.name, code, contactName: input.contactName ?? null, email: input.email ?? null,
-        phone: input.phone ?? null, address: input.address ?? null, notes: input.notes ?? null,
+        name: input.name,
+        code,
+        contactName: input.contactName ?? null,
+        email: input.email ?? null,
+        phone: input.phone ?? null,
+        address: input.address ?? null,
+        notes: input.notes ?? null,
       })
       .onConflictDoNothing()
       .returning();
@@ -91,7 +117,11 @@ export async function updateSupplier(actor: Actor, id: string, patch: SupplierPa
     const row = await findSupplier(tx, id, true);
     const changes = Object.fromEntries(Object.entries(patch).filter(([, v]) => v !== undefined)) as Partial<SupplierRow>;
     await checkUnique(tx, changes.name, changes.code, id);
-    const [updated] = await tx.update(suppliers).set({ ...changes, updatedAt: new Date() }).where(eq(suppliers.id, id)).returning();
+    const [updated] = await tx
+      .update(suppliers)
+      .set({ ...changes, updatedAt: new Date() })
+      .where(eq(suppliers.id, id))
+      .returning();
     const before = toSupplier(row);
     const after = toSupplier(updated);
     await recordAudit(tx, { actorId: actor.id, action: 'supplier.update', entityType: 'supplier', entityId: id, before, after });
@@ -107,8 +137,12 @@ export async function retireSupplier(actor: Actor, id: string): Promise<Supplier
     if (!row.active) return toSupplier(row);
     const [updated] = await tx.update(suppliers).set({ active: false, updatedAt: new Date() }).where(eq(suppliers.id, id)).returning();
     await recordAudit(tx, {
-      actorId: actor.id, action: 'supplier.retire', entityType: 'supplier', entityId: id,
-      before: { active: true }, after: { active: false },
+      actorId: actor.id,
+      action: 'supplier.retire',
+      entityType: 'supplier',
+      entityId: id,
+      before: { active: true },
+      after: { active: false },
     });
     return toSupplier(updated);
   });

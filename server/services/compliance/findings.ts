@@ -51,7 +51,6 @@ function expiryWords(at: Date): string {
   return `at ${when(at)}`;
 }
 
-
 /** A mix past its pot life while still loaded at a station. */
 export async function potLifeExceeded(tx: DbOrTx, now: Date): Promise<Finding[]> {
   const rows = await tx
@@ -61,7 +60,11 @@ export async function potLifeExceeded(tx: DbOrTx, now: Date): Promise<Finding[]>
     .innerJoin(stations, eq(stations.id, stationLoads.stationId))
     .where(and(isNull(stationLoads.unloadedAt), eq(mixes.status, 'active'), lte(mixes.potLifeEndsAt, now)));
   return rows.map((r) => ({
-    kind: 'pot_life_exceeded', severity: 'critical', subjectType: 'mix', subjectId: r.id, audience: ['assembler', 'quality'],
+    kind: 'pot_life_exceeded',
+    severity: 'critical',
+    subjectType: 'mix',
+    subjectId: r.id,
+    audience: ['assembler', 'quality'],
     message: `Mix ${r.code} at station ${r.station} passed its pot life at ${when(r.endsAt)} and is still loaded: unload it and dispose of it as its safety data sheet says.`,
     data: { mixCode: r.code, station: r.station, potLifeEndsAt: r.endsAt.toISOString() },
   }));
@@ -73,7 +76,11 @@ export async function shortCures(tx: DbOrTx, now: Date): Promise<Finding[]> {
   const since = new Date(now.getTime() - lookbackDays * 86_400_000);
   const rows = await tx
     .select({
-      id: stepRuns.id, batch: buildBatches.code, step: recipeSteps.name, startedAt: stepRuns.startedAt, deviationId: stepRuns.deviationId,
+      id: stepRuns.id,
+      batch: buildBatches.code,
+      step: recipeSteps.name,
+      startedAt: stepRuns.startedAt,
+      deviationId: stepRuns.deviationId,
       // The run it had to wait for: the latest finished run of the step before, for the batch or the unit.
       prevRunId: sql<string | null>`(
         SELECT p.id FROM step_runs p JOIN recipe_steps ps ON ps.id = p.step_id
@@ -89,7 +96,13 @@ export async function shortCures(tx: DbOrTx, now: Date): Promise<Finding[]> {
   const prevIds = rows.flatMap((r) => (r.prevRunId ? [r.prevRunId] : []));
   const prevRuns = prevIds.length
     ? await tx
-        .select({ id: stepRuns.id, finishedAt: stepRuns.finishedAt, cureCompleteAt: stepRuns.cureCompleteAt, area: stations.area, stationId: stepRuns.stationId })
+        .select({
+          id: stepRuns.id,
+          finishedAt: stepRuns.finishedAt,
+          cureCompleteAt: stepRuns.cureCompleteAt,
+          area: stations.area,
+          stationId: stepRuns.stationId,
+        })
         .from(stepRuns)
         .innerJoin(stations, eq(stations.id, stepRuns.stationId))
         .where(inArray(stepRuns.id, prevIds))
@@ -102,16 +115,31 @@ export async function shortCures(tx: DbOrTx, now: Date): Promise<Finding[]> {
     // station and the cure board showed it; else the time computed at the previous finish.
     const prev = r.prevRunId ? prevById.get(r.prevRunId) : undefined;
     const seen = prev?.finishedAt
-      ? await cureOfRun(tx, { finishedAt: prev.finishedAt, area: prev.area, stationId: prev.stationId }, profiles.get(prev.id) ?? [], r.startedAt)
+      ? await cureOfRun(
+          tx,
+          { finishedAt: prev.finishedAt, area: prev.area, stationId: prev.stationId },
+          profiles.get(prev.id) ?? [],
+          r.startedAt,
+        )
       : null;
     const cureAt = seen?.cureCompleteAt ? new Date(seen.cureCompleteAt) : (prev?.cureCompleteAt ?? null);
     const cure = cureAt
       ? `, before the previous step's adhesive was fully cured (full cure at ${when(cureAt)})`
       : ", before the previous step's adhesive was fully cured";
     out.push({
-      kind: 'short_cure', severity: r.deviationId ? 'warning' : 'critical', subjectType: 'step_run', subjectId: r.id, audience: ['quality'],
+      kind: 'short_cure',
+      severity: r.deviationId ? 'warning' : 'critical',
+      subjectType: 'step_run',
+      subjectId: r.id,
+      audience: ['quality'],
       message: `Batch ${r.batch}: step "${r.step}" started at ${when(r.startedAt)}${cure}, ${r.deviationId ? 'under a recorded deviation' : 'without a deviation'}. Review the drivers of this batch.`,
-      data: { batchCode: r.batch, step: r.step, deviationId: r.deviationId, startedAt: r.startedAt.toISOString(), cureCompleteAt: cureAt?.toISOString() ?? null },
+      data: {
+        batchCode: r.batch,
+        step: r.step,
+        deviationId: r.deviationId,
+        startedAt: r.startedAt.toISOString(),
+        cureCompleteAt: cureAt?.toISOString() ?? null,
+      },
     });
   }
   return out;
@@ -141,9 +169,7 @@ export async function expiredInStock(tx: DbOrTx, now: Date): Promise<Finding[]> 
       ),
     );
   const loaded = new Set(
-    (
-      await tx.select({ id: stationLoads.containerId }).from(stationLoads).where(isNull(stationLoads.unloadedAt))
-    ).map((r) => r.id),
+    (await tx.select({ id: stationLoads.containerId }).from(stationLoads).where(isNull(stationLoads.unloadedAt))).map((r) => r.id),
   );
   const out: Finding[] = [];
   for (const { c, l, m } of rows) {
@@ -151,7 +177,10 @@ export async function expiredInStock(tx: DbOrTx, now: Date): Promise<Finding[]> 
     if (!exp.at || new Date(exp.at) > now) continue;
     const isLoaded = loaded.has(c.id);
     out.push({
-      kind: 'expired_in_stock', severity: isLoaded ? 'critical' : 'warning', subjectType: 'container', subjectId: c.id,
+      kind: 'expired_in_stock',
+      severity: isLoaded ? 'critical' : 'warning',
+      subjectType: 'container',
+      subjectId: c.id,
       audience: isLoaded ? ['quality', 'receiving', 'assembler'] : ['quality', 'receiving'],
       message: `Container ${c.code} (${m.name}, lot ${l.supplierLot}) passed ${exp.cause ? causeWords(exp.cause) : 'its expiry'} ${expiryWords(new Date(exp.at))} and is ${isLoaded ? 'loaded at a station' : 'still in stock'}: take it out of use.`,
       data: { containerCode: c.code, lotId: l.id, materialId: m.id, cause: exp.cause, expiredAt: exp.at, loaded: isLoaded },
@@ -179,7 +208,11 @@ export async function expiringSoon(tx: DbOrTx, now: Date): Promise<Finding[]> {
   return rows.map((r) => {
     const at = new Date(r.expiresAt as unknown as string);
     return {
-      kind: 'expiring_soon', severity: 'info', subjectType: 'lot', subjectId: r.id, audience: ['purchasing', 'quality'],
+      kind: 'expiring_soon',
+      severity: 'info',
+      subjectType: 'lot',
+      subjectId: r.id,
+      audience: ['purchasing', 'quality'],
       message: `Lot ${r.supplierLot} of ${r.material} is usable until ${expiryWords(at).replace(/^at /, '')}, within the next ${days} days: use it first or plan its disposal.`,
       data: { expiresAt: at.toISOString(), windowDays: days },
     };
@@ -198,16 +231,31 @@ export async function quarantineAdvised(tx: DbOrTx, now: Date): Promise<Finding[
   for (const f of stats.items) {
     if (!f.flagged || (f.status !== 'released' && f.status !== 'on_hold')) continue;
     const figures = {
-      tested: f.tested, failures: f.failures, baseline: stats.baseline, pValue: f.pValue, qValue: f.qValue,
-      ucl: pChartLimits(stats.baseline, f.tested).ucl, aboveUcl: f.aboveUcl,
+      tested: f.tested,
+      failures: f.failures,
+      baseline: stats.baseline,
+      pValue: f.pValue,
+      qValue: f.qValue,
+      ucl: pChartLimits(stats.baseline, f.tested).ucl,
+      aboveUcl: f.aboveUcl,
     };
     out.set(f.lotId, {
-      kind: 'quarantine_advised', severity: 'warning', subjectType: 'lot', subjectId: f.lotId, audience: ['quality'],
+      kind: 'quarantine_advised',
+      severity: 'warning',
+      subjectType: 'lot',
+      subjectId: f.lotId,
+      audience: ['quality'],
       message: `Lot ${f.supplierLot} of ${f.materialName} ${lotFailureSentence(figures)}. Consider quarantining it and tracing its drivers.`,
       detail: lotFailureDetail(figures),
       data: {
-        inspected: f.tested, defectives: f.failures, pValue: f.pValue, qValue: f.qValue, ucl: figures.ucl, aboveUcl: f.aboveUcl,
-        baseline: stats.baseline, reason: 'failure_rate',
+        inspected: f.tested,
+        defectives: f.failures,
+        pValue: f.pValue,
+        qValue: f.qValue,
+        ucl: figures.ucl,
+        aboveUcl: f.aboveUcl,
+        baseline: stats.baseline,
+        reason: 'failure_rate',
       },
     });
   }
@@ -220,20 +268,35 @@ export async function quarantineAdvised(tx: DbOrTx, now: Date): Promise<Finding[
   for (const c of certs) {
     const prev = out.get(c.id);
     const text = `its certificate of analysis expired on ${c.certExpires ? formatDate(c.certExpires, PLANT_ZONE) : 'an unknown date'}`;
-    out.set(c.id, prev
-      ? { ...prev, message: `${prev.message} Also, ${text}.` }
-      : {
-          kind: 'quarantine_advised', severity: 'warning', subjectType: 'lot', subjectId: c.id, audience: ['quality'],
-          message: `The certificate of analysis of lot ${c.supplierLot} (${c.material}) ${text.replace(/^its certificate of analysis /, '')}: quarantine the lot until a current certificate is on file.`,
-          data: { reason: 'certificate_expired', certificateExpiresOn: c.certExpires },
-        });
+    out.set(
+      c.id,
+      prev
+        ? { ...prev, message: `${prev.message} Also, ${text}.` }
+        : {
+            kind: 'quarantine_advised',
+            severity: 'warning',
+            subjectType: 'lot',
+            subjectId: c.id,
+            audience: ['quality'],
+            message: `The certificate of analysis of lot ${c.supplierLot} (${c.material}) ${text.replace(/^its certificate of analysis /, '')}: quarantine the lot until a current certificate is on file.`,
+            data: { reason: 'certificate_expired', certificateExpiresOn: c.certExpires },
+          },
+    );
   }
   return [...out.values()];
 }
 
 /** Materials whose usable stock (released or on-hold lots) is below the reorder point. */
 export async function belowReorderPoint(tx: DbOrTx): Promise<Finding[]> {
-  const rows = await tx.execute<{ id: string; code: string; name: string; unit: string; reorder_point: string; on_hand: string; order_quantity: string | null }>(sql`
+  const rows = await tx.execute<{
+    id: string;
+    code: string;
+    name: string;
+    unit: string;
+    reorder_point: string;
+    on_hand: string;
+    order_quantity: string | null;
+  }>(sql`
     SELECT m.id, m.code, m.name, m.unit, m.reorder_point, m.order_quantity,
            COALESCE(SUM(c.remaining) FILTER (WHERE l.status IN ('released', 'on_hold') AND c.status IN ('sealed', 'open')), 0) AS on_hand
     FROM materials m
@@ -243,17 +306,27 @@ export async function belowReorderPoint(tx: DbOrTx): Promise<Finding[]> {
     GROUP BY m.id
     HAVING COALESCE(SUM(c.remaining) FILTER (WHERE l.status IN ('released', 'on_hold') AND c.status IN ('sealed', 'open')), 0) < m.reorder_point`);
   return rows.rows.map((r) => ({
-    kind: 'below_reorder_point', severity: 'warning', subjectType: 'material', subjectId: r.id, audience: ['purchasing'],
+    kind: 'below_reorder_point',
+    severity: 'warning',
+    subjectType: 'material',
+    subjectId: r.id,
+    audience: ['purchasing'],
     message: `${r.name} (${r.code}): ${Number(r.on_hand)} ${r.unit} on hand, below the reorder point of ${Number(r.reorder_point)} ${r.unit}${r.order_quantity ? `; the usual order is ${Number(r.order_quantity)} ${r.unit}` : ''}.`,
     data: { onHand: Number(r.on_hand), reorderPoint: Number(r.reorder_point) },
   }));
 }
 
 export const ALL_CHECKS = [
-  potLifeExceeded, shortCures, expiredInStock, expiringSoon, quarantineAdvised, (tx: DbOrTx) => belowReorderPoint(tx), auditChainBroken,
-  lampCheckDue, humidityOutOfWindow,
+  potLifeExceeded,
+  shortCures,
+  expiredInStock,
+  expiringSoon,
+  quarantineAdvised,
+  (tx: DbOrTx) => belowReorderPoint(tx),
+  auditChainBroken,
+  lampCheckDue,
+  humidityOutOfWindow,
 ];
-
 
 /**
  * A UV station (own cure environment) whose lamp has been measured at least once, or that ran a
@@ -292,23 +365,42 @@ export async function humidityOutOfWindow(tx: DbOrTx, now: Date): Promise<Findin
   const days = await readSetting('shortCureLookbackDays', tx);
   const since = new Date(now.getTime() - days * 86_400_000);
   const runs = await tx
-    .select({ id: stepRuns.id, finishedAt: stepRuns.finishedAt, cureCompleteAt: stepRuns.cureCompleteAt, area: stations.area, batch: buildBatches.code, step: recipeSteps.name })
+    .select({
+      id: stepRuns.id,
+      finishedAt: stepRuns.finishedAt,
+      cureCompleteAt: stepRuns.cureCompleteAt,
+      area: stations.area,
+      batch: buildBatches.code,
+      step: recipeSteps.name,
+    })
     .from(stepRuns)
     .innerJoin(stations, eq(stations.id, stepRuns.stationId))
     .innerJoin(buildBatches, eq(buildBatches.id, stepRuns.batchId))
     .innerJoin(recipeSteps, eq(recipeSteps.id, stepRuns.stepId))
     .where(and(isNotNull(stepRuns.finishedAt), gte(stepRuns.finishedAt, since)));
   if (runs.length === 0) return [];
-  const profiles = await profilesForRuns(tx, runs.map((r) => r.id));
+  const profiles = await profilesForRuns(
+    tx,
+    runs.map((r) => r.id),
+  );
   const out: Finding[] = [];
   for (const r of runs) {
-    const windows = ((profiles.get(r.id) ?? []) as MethodCureProfile[]).filter((p) => typeof p.rhMinPct === 'number' || typeof p.rhMaxPct === 'number');
+    const windows = ((profiles.get(r.id) ?? []) as MethodCureProfile[]).filter(
+      (p) => typeof p.rhMinPct === 'number' || typeof p.rhMaxPct === 'number',
+    );
     if (windows.length === 0 || !r.finishedAt) continue;
     const to = r.cureCompleteAt && r.cureCompleteAt < now ? r.cureCompleteAt : now;
     const rows = await tx
       .select({ at: readings.at, rh: readings.rhPct })
       .from(readings)
-      .where(and(eq(readings.area, r.area), isNotNull(readings.rhPct), lte(readings.at, to), gte(readings.at, new Date(r.finishedAt.getTime() - 4 * 3_600_000))))
+      .where(
+        and(
+          eq(readings.area, r.area),
+          isNotNull(readings.rhPct),
+          lte(readings.at, to),
+          gte(readings.at, new Date(r.finishedAt.getTime() - 4 * 3_600_000)),
+        ),
+      )
       .orderBy(readings.at);
     const rh = rows.map((x) => ({ at: x.at.toISOString(), rhPct: Number(x.rh) }));
     for (const w of windows) {
@@ -323,7 +415,14 @@ export async function humidityOutOfWindow(tx: DbOrTx, now: Date): Promise<Findin
         subjectId: r.id,
         message: `Batch ${r.batch}, step "${r.step}": the adhesive cured while ${r.area} was at ${first.rhPct} % RH (from ${when(new Date(first.from))}), outside its data sheet range of ${range}.`,
         audience: ['quality'],
-        data: { batchCode: r.batch, step: r.step, area: r.area, outside: check.outside, rhMinPct: w.rhMinPct ?? null, rhMaxPct: w.rhMaxPct ?? null },
+        data: {
+          batchCode: r.batch,
+          step: r.step,
+          area: r.area,
+          outside: check.outside,
+          rhMinPct: w.rhMinPct ?? null,
+          rhMaxPct: w.rhMaxPct ?? null,
+        },
       });
       break;
     }

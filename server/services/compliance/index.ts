@@ -14,7 +14,14 @@ import { ALL_CHECKS, type Finding } from './findings';
 const WATCH_LOCK = 7226002;
 
 /** Kinds that clear by themselves when their condition goes; the others wait for a person. */
-const SELF_CLEARING = new Set(['pot_life_exceeded', 'expired_in_stock', 'expiring_soon', 'quarantine_advised', 'below_reorder_point', 'lamp_check_due']);
+const SELF_CLEARING = new Set([
+  'pot_life_exceeded',
+  'expired_in_stock',
+  'expiring_soon',
+  'quarantine_advised',
+  'below_reorder_point',
+  'lamp_check_due',
+]);
 
 const keyOf = (f: { kind: string; subjectType: string; subjectId: string }) => `${f.kind}|${f.subjectType}|${f.subjectId}`;
 
@@ -47,18 +54,36 @@ export async function sweep(now = new Date()): Promise<ComplianceRunResult> {
       if (existing) {
         // Keep the wording current (counts and times change) without raising it again.
         if (existing.message !== f.message || !isDeepStrictEqual(existing.data ?? null, dataOf(f))) {
-          await tx.update(alerts).set({ message: f.message, data: dataOf(f), severity: f.severity }).where(eq(alerts.id, existing.id));
+          await tx
+            .update(alerts)
+            .set({ message: f.message, data: dataOf(f), severity: f.severity })
+            .where(eq(alerts.id, existing.id));
         }
         continue;
       }
       const [row] = await tx
         .insert(alerts)
-        .values({ kind: f.kind, severity: f.severity, subjectType: f.subjectType, subjectId: f.subjectId, message: f.message, audience: f.audience, data: dataOf(f), raisedAt: now })
+        .values({
+          kind: f.kind,
+          severity: f.severity,
+          subjectType: f.subjectType,
+          subjectId: f.subjectId,
+          message: f.message,
+          audience: f.audience,
+          data: dataOf(f),
+          raisedAt: now,
+        })
         .onConflictDoNothing()
         .returning();
       if (!row) continue;
       raised += 1;
-      await recordAudit(tx, { actorId: null, action: 'alert.raise', entityType: 'alert', entityId: row.id, after: { kind: f.kind, subjectType: f.subjectType, subjectId: f.subjectId } });
+      await recordAudit(tx, {
+        actorId: null,
+        action: 'alert.raise',
+        entityType: 'alert',
+        entityId: row.id,
+        after: { kind: f.kind, subjectType: f.subjectType, subjectId: f.subjectId },
+      });
       await queueAlertMails(tx, row);
     }
 
@@ -68,7 +93,14 @@ export async function sweep(now = new Date()): Promise<ComplianceRunResult> {
       const resolution = 'The condition no longer holds (cleared by the compliance watch).';
       await tx.update(alerts).set({ state: 'resolved', resolvedAt: now, resolution }).where(eq(alerts.id, a.id));
       await queueAlertResolvedMails(tx, a, resolution, now, null);
-      await recordAudit(tx, { actorId: null, action: 'alert.clear', entityType: 'alert', entityId: a.id, before: { state: a.state }, after: { state: 'resolved' } });
+      await recordAudit(tx, {
+        actorId: null,
+        action: 'alert.clear',
+        entityType: 'alert',
+        entityId: a.id,
+        before: { state: a.state },
+        after: { state: 'resolved' },
+      });
       resolved += 1;
     }
     return { raised, resolved, ran: true };

@@ -13,7 +13,9 @@ import type { ContainerResult } from '../../../shared/schemas/containers';
 import { toContainer, type ContainerRow, type LotRow } from '../lots/present';
 import { loadContainer, type ContainerContext } from './load';
 
-export type ContainerChange = Partial<Pick<ContainerRow, 'status' | 'openedAt' | 'thawedAt' | 'location' | 'remaining' | 'outOfStorageMinutes' | 'outOfStorageSince'>>;
+export type ContainerChange = Partial<
+  Pick<ContainerRow, 'status' | 'openedAt' | 'thawedAt' | 'location' | 'remaining' | 'outOfStorageMinutes' | 'outOfStorageSince'>
+>;
 
 export interface Decision {
   set: ContainerChange;
@@ -25,10 +27,14 @@ const plain = (v: unknown) => (v instanceof Date ? v.toISOString() : v);
 /** Refuses an action on a container that is out of use. */
 export function checkInUse({ container, material }: ContainerContext): void {
   if (container.status === 'empty') {
-    throw conflict('CONTAINER_EMPTY', `Container ${container.code} (${material.name}) is recorded as empty.`, { containerId: container.id });
+    throw conflict('CONTAINER_EMPTY', `Container ${container.code} (${material.name}) is recorded as empty.`, {
+      containerId: container.id,
+    });
   }
   if (container.status === 'scrapped') {
-    throw conflict('CONTAINER_SCRAPPED', `Container ${container.code} (${material.name}) has been scrapped.`, { containerId: container.id });
+    throw conflict('CONTAINER_SCRAPPED', `Container ${container.code} (${material.name}) has been scrapped.`, {
+      containerId: container.id,
+    });
   }
 }
 
@@ -47,10 +53,18 @@ async function markUsedUpIfLast(tx: Tx, actor: Actor, lot: LotRow, now: Date): P
     .where(and(eq(containers.lotId, lot.id), inArray(containers.status, ['sealed', 'open'])));
   if (Number(n) > 0) return;
   const reason = 'Every container of the lot is empty or scrapped.';
-  await tx.update(lots).set({ status: 'used_up', statusReason: reason, statusChangedAt: now, statusChangedBy: actor.id }).where(eq(lots.id, lot.id));
+  await tx
+    .update(lots)
+    .set({ status: 'used_up', statusReason: reason, statusChangedAt: now, statusChangedBy: actor.id })
+    .where(eq(lots.id, lot.id));
   await recordAudit(tx, {
-    actorId: actor.id, action: 'lot.status', entityType: 'lot', entityId: lot.id,
-    before: { status: lot.status }, after: { status: 'used_up' }, reason,
+    actorId: actor.id,
+    action: 'lot.status',
+    entityType: 'lot',
+    entityId: lot.id,
+    before: { status: lot.status },
+    after: { status: 'used_up' },
+    reason,
   });
 }
 
@@ -64,7 +78,11 @@ export async function applyContainerAction(
     const ctx = await loadContainer(tx, id, true);
     const now = new Date();
     const { set, reason } = decide(ctx, now);
-    const [updated] = await tx.update(containers).set({ ...set, updatedAt: now }).where(eq(containers.id, id)).returning();
+    const [updated] = await tx
+      .update(containers)
+      .set({ ...set, updatedAt: now })
+      .where(eq(containers.id, id))
+      .returning();
     const keys = Object.keys(set) as (keyof ContainerChange)[];
     await recordAudit(tx, {
       actorId: actor.id,

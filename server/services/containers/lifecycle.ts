@@ -41,17 +41,27 @@ export async function openContainer(actor: Actor, id: string): Promise<Container
     const { container: c, lot, material } = ctx;
     checkInUse(ctx);
     if (c.status === 'open') {
-      throw conflict('INVALID_TRANSITION', `Container ${c.code} is already open (since ${when(c.openedAt?.toISOString() ?? '')}).`, { containerId: c.id });
+      throw conflict('INVALID_TRANSITION', `Container ${c.code} is already open (since ${when(c.openedAt?.toISOString() ?? '')}).`, {
+        containerId: c.id,
+      });
     }
     checkReleased(lot, material);
     if (material.storageClass === 'frozen' && !c.thawedAt) {
-      throw conflict('NOT_THAWED', `Container ${c.code} holds frozen material: record the end of its thaw before opening it.`, { containerId: c.id });
+      throw conflict('NOT_THAWED', `Container ${c.code} holds frozen material: record the end of its thaw before opening it.`, {
+        containerId: c.id,
+      });
     }
     const expiry = containerExpiryOf(c, lot, material, now);
     if (isExpired(expiry, now)) {
-      throw conflict('EXPIRED', `Container ${c.code} (${material.name}) is past ${CAUSE_WORDS[expiry.cause ?? ''] ?? 'its expiry'} (since ${when(expiry.at ?? '')}); do not open it. Put it aside for disposal as the SDS says.`, {
-        containerId: c.id, expiredAt: expiry.at, cause: expiry.cause,
-      });
+      throw conflict(
+        'EXPIRED',
+        `Container ${c.code} (${material.name}) is past ${CAUSE_WORDS[expiry.cause ?? ''] ?? 'its expiry'} (since ${when(expiry.at ?? '')}); do not open it. Put it aside for disposal as the SDS says.`,
+        {
+          containerId: c.id,
+          expiredAt: expiry.at,
+          cause: expiry.cause,
+        },
+      );
     }
     return { set: { status: 'open', openedAt: now } };
   });

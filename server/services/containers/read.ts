@@ -7,5 +7,9 @@ import { loadContainer } from './load';
 /** GET /api/containers/:id: the container with its lot and material (the same shape a scan gives). */
 export async function getContainer(id: string): Promise<Omit<ContainerScanResult, 'type'>> {
   const ctx = await loadContainer(db, id);
-  return { container: toContainer(ctx.container, ctx.lot, ctx.material), lot: toLot(ctx.lot, ctx.material), material: toMaterial(ctx.material) };
+  return {
+    container: toContainer(ctx.container, ctx.lot, ctx.material),
+    lot: toLot(ctx.lot, ctx.material),
+    material: toMaterial(ctx.material),
+  };
 }

@@ -14,14 +14,21 @@ export async function thawContainer(actor: Actor, id: string): Promise<Container
       throw conflict('NOT_FROZEN', `${material.name} is not frozen material; there is no thaw to record.`, { containerId: c.id });
     }
     checkInUse(ctx);
-    if (c.thawedAt) throw conflict('ALREADY_THAWED', `Container ${c.code} was already thawed at ${plantTime(c.thawedAt)}; frozen material is not refrozen.`, { containerId: c.id });
+    if (c.thawedAt)
+      throw conflict(
+        'ALREADY_THAWED',
+        `Container ${c.code} was already thawed at ${plantTime(c.thawedAt)}; frozen material is not refrozen.`,
+        { containerId: c.id },
+      );
     return { set: { thawedAt: now } };
   });
 }
 
 function checkRefrigerated(ctx: Parameters<typeof checkInUse>[0]): void {
   if (ctx.material.storageClass !== 'refrigerated') {
-    throw conflict('NOT_REFRIGERATED', `${ctx.material.name} is not refrigerated material; time out of storage is not counted for it.`, { containerId: ctx.container.id });
+    throw conflict('NOT_REFRIGERATED', `${ctx.material.name} is not refrigerated material; time out of storage is not counted for it.`, {
+      containerId: ctx.container.id,
+    });
   }
 }
 
@@ -33,7 +40,11 @@ export async function takeOutOfStorage(actor: Actor, id: string): Promise<Contai
     checkInUse(ctx);
     const c = ctx.container;
     if (c.outOfStorageSince) {
-      throw conflict('ALREADY_OUT_OF_STORAGE', `Container ${c.code} is already out of cold storage (since ${plantTime(c.outOfStorageSince)}).`, { containerId: c.id });
+      throw conflict(
+        'ALREADY_OUT_OF_STORAGE',
+        `Container ${c.code} is already out of cold storage (since ${plantTime(c.outOfStorageSince)}).`,
+        { containerId: c.id },
+      );
     }
     return { set: { outOfStorageSince: now } };
   });

@@ -34,7 +34,10 @@ async function cureItems(tx: DbOrTx, where: ReturnType<typeof and>, now: Date, i
     .where(and(where, isNotNull(stepRuns.finishedAt), isNotNull(stepRuns.cureCompleteAt)))
     .orderBy(desc(stepRuns.finishedAt));
   if (rows.length === 0) return [];
-  const profiles = await profilesForRuns(tx, rows.map((r) => r.run.id));
+  const profiles = await profilesForRuns(
+    tx,
+    rows.map((r) => r.run.id),
+  );
   const modelIds = [...new Set(rows.map((r) => r.modelId))];
   const allSteps = await tx.select().from(recipeSteps).where(inArray(recipeSteps.modelId, modelIds));
   const batchIds = [...new Set(rows.map((r) => r.run.batchId))];
@@ -45,11 +48,18 @@ async function cureItems(tx: DbOrTx, where: ReturnType<typeof and>, now: Date, i
 
   const items: CureItem[] = [];
   for (const r of rows) {
-    const cure = await cureOfRun(tx, { finishedAt: r.run.finishedAt!, area: r.area, stationId: r.run.stationId }, profiles.get(r.run.id) ?? [], now);
+    const cure = await cureOfRun(
+      tx,
+      { finishedAt: r.run.finishedAt!, area: r.area, stationId: r.run.stationId },
+      profiles.get(r.run.id) ?? [],
+      now,
+    );
     if (!cure) continue;
     const next = allSteps.filter((s) => s.modelId === r.modelId && s.seq > r.step.seq).sort((a, b) => a.seq - b.seq)[0] ?? null;
     const nextStarted = next
-      ? later.some((l) => l.batchId === r.run.batchId && l.stepId === next.id && l.driverId === r.run.driverId && l.startedAt >= r.run.finishedAt!)
+      ? later.some(
+          (l) => l.batchId === r.run.batchId && l.stepId === next.id && l.driverId === r.run.driverId && l.startedAt >= r.run.finishedAt!,
+        )
       : true;
     const ready = cure.cureCompleteAt !== null && Date.parse(cure.cureCompleteAt) <= now.getTime();
     const waitedOn = r.step.waitForCure && !nextStarted && r.batchStatus !== 'cancelled';

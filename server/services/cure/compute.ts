@@ -97,7 +97,8 @@ function oneCure(p: MethodCureProfile, start: string, history: Reading[] | null,
   return { handlingAt: t.handlingAt, cureCompleteAt: t.fullCureAt, progress, minutesBelowMin: t.minutesBelowMin };
 }
 
-const later = (a: string | null, b: string | null): string | null => (a === null || b === null ? null : Date.parse(a) >= Date.parse(b) ? a : b);
+const later = (a: string | null, b: string | null): string | null =>
+  a === null || b === null ? null : Date.parse(a) >= Date.parse(b) ? a : b;
 
 /**
  * When a finished run's adhesives may be handled and are fully cured, integrated from the finish
@@ -118,9 +119,10 @@ export async function cureOfRun(
     const [st] = await tx.select({ env: stations.cureEnvironment }).from(stations).where(eq(stations.id, run.stationId));
     if (st?.env === 'own') environment = 'own';
   }
-  const histories: (Reading[] | null)[] = environment === 'own'
-    ? await stationHistoriesFor(tx, run.stationId as string, run.finishedAt, profiles.length)
-    : await historiesFor(tx, run.area, run.finishedAt, profiles);
+  const histories: (Reading[] | null)[] =
+    environment === 'own'
+      ? await stationHistoriesFor(tx, run.stationId as string, run.finishedAt, profiles.length)
+      : await historiesFor(tx, run.area, run.finishedAt, profiles);
   const start = run.finishedAt.toISOString();
   let best: RunCure | null = null;
   profiles.forEach((p, i) => {

@@ -12,7 +12,10 @@ import type { CureEstimate, CureEstimateInput } from '../../../shared/schemas/cu
  */
 export async function estimateCure(input: CureEstimateInput): Promise<CureEstimate> {
   const [m] = await db.select({ name: materials.name, cure: materials.cure }).from(materials).where(eq(materials.id, input.materialId));
-  if (!m) throw new AppError('NOT_FOUND', 'The material was not found.', 404, [{ field: 'materialId', message: 'is not a material in the catalogue' }]);
+  if (!m)
+    throw new AppError('NOT_FOUND', 'The material was not found.', 404, [
+      { field: 'materialId', message: 'is not a material in the catalogue' },
+    ]);
   if (!m.cure) throw fieldError('materialId', `names ${m.name}, which has no cure profile in the catalogue`);
   const profile: MethodCureProfile = m.cure;
   const cureMethod = profile.method ?? 'ambient';
@@ -20,9 +23,15 @@ export async function estimateCure(input: CureEstimateInput): Promise<CureEstima
     if (input.irradianceMWcm2 === undefined) throw fieldError('irradianceMWcm2', `is required: ${m.name} cures under UV light, by dose`);
     const dose = profile.uvDoseMJcm2;
     if (dose === undefined || dose === null) throw fieldError('materialId', `names ${m.name}, which has no UV dose in the catalogue`);
-    return { cureMethod, exposureSeconds: uvExposureSeconds(dose, input.irradianceMWcm2), doseMJcm2: dose, irradianceMWcm2: input.irradianceMWcm2 };
+    return {
+      cureMethod,
+      exposureSeconds: uvExposureSeconds(dose, input.irradianceMWcm2),
+      doseMJcm2: dose,
+      irradianceMWcm2: input.irradianceMWcm2,
+    };
   }
-  if (input.irradianceMWcm2 !== undefined) throw fieldError('irradianceMWcm2', `is for UV-curing adhesives; ${m.name} cures by time and temperature`);
+  if (input.irradianceMWcm2 !== undefined)
+    throw fieldError('irradianceMWcm2', `is for UV-curing adhesives; ${m.name} cures by time and temperature`);
   const startAt = input.startAt as string;
   const t = methodCureTimes(profile, startAt, input.readings ?? (input.tempC as number));
   const start = Date.parse(startAt);

@@ -6,7 +6,11 @@ import type { CureProfile, Reading } from '../../../shared/cure';
 /** A reading older than this no longer tells the temperature in force (mixing, cure start). */
 export const AREA_READING_MAX_AGE_HOURS = 4;
 
-export interface TemperatureAt { tempC: number; source: 'reading' | 'reference'; readingAt: string | null }
+export interface TemperatureAt {
+  tempC: number;
+  source: 'reading' | 'reference';
+  readingAt: string | null;
+}
 
 /** The latest reading for the area at or before `at` and not older than the limit, if any. */
 export async function readingInForce(tx: DbOrTx, area: string, at: Date): Promise<{ at: Date; tempC: number } | null> {
@@ -23,7 +27,9 @@ export async function readingInForce(tx: DbOrTx, area: string, at: Date): Promis
 /** Temperature at an instant: the reading in force, else the profile's reference temperature. */
 export async function temperatureAt(tx: DbOrTx, area: string, at: Date, refTempC: number): Promise<TemperatureAt> {
   const r = await readingInForce(tx, area, at);
-  return r ? { tempC: r.tempC, source: 'reading', readingAt: r.at.toISOString() } : { tempC: refTempC, source: 'reference', readingAt: null };
+  return r
+    ? { tempC: r.tempC, source: 'reading', readingAt: r.at.toISOString() }
+    : { tempC: refTempC, source: 'reference', readingAt: null };
 }
 
 /**

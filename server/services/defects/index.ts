@@ -24,7 +24,10 @@ export async function createDefectCode(actor: Actor, input: DefectCodeCreate): P
   return db.transaction(async (tx) => {
     const inserted = await tx.insert(defectCodes).values(input).onConflictDoNothing().returning();
     const row = inserted[0];
-    if (!row) throw conflict('DUPLICATE', `Defect code ${input.code} already exists; edit it instead.`, [{ field: 'code', message: 'already exists' }]);
+    if (!row)
+      throw conflict('DUPLICATE', `Defect code ${input.code} already exists; edit it instead.`, [
+        { field: 'code', message: 'already exists' },
+      ]);
     await recordAudit(tx, { actorId: actor.id, action: 'defect_code.create', entityType: 'defect_code', entityId: row.code, after: row });
     return toDefectCode(row);
   });

@@ -36,7 +36,10 @@ export async function recordDeviation(actor: Actor, input: DeviationInput, now: 
     const { row: batch } = await findBatch(tx, input.batchId);
     const steps = (await loadSteps(tx, [batch.modelId])).get(batch.modelId) ?? [];
     const step = steps.find((s) => s.id === input.stepId);
-    if (!step) throw new AppError('NOT_FOUND', `That step is not in the recipe of batch ${batch.code}.`, 404, [{ field: 'stepId', message: 'is not a step of this batch' }]);
+    if (!step)
+      throw new AppError('NOT_FOUND', `That step is not in the recipe of batch ${batch.code}.`, 404, [
+        { field: 'stepId', message: 'is not a step of this batch' },
+      ]);
     const [row] = await tx
       .insert(deviations)
       .values({
@@ -50,7 +53,14 @@ export async function recordDeviation(actor: Actor, input: DeviationInput, now: 
       })
       .returning();
     const deviation = toDeviation(row, actor.name);
-    await recordAudit(tx, { actorId: actor.id, action: 'deviation.sign', entityType: 'deviation', entityId: row.id, after: deviation, reason: input.reason });
+    await recordAudit(tx, {
+      actorId: actor.id,
+      action: 'deviation.sign',
+      entityType: 'deviation',
+      entityId: row.id,
+      after: deviation,
+      reason: input.reason,
+    });
     return { deviation };
   });
 }
@@ -60,7 +70,12 @@ export async function listDeviations(query: { batchId?: string; stepId?: string 
     .select({ d: deviations, name: users.name })
     .from(deviations)
     .innerJoin(users, eq(users.id, deviations.signedBy))
-    .where(and(query.batchId ? eq(deviations.batchId, query.batchId) : undefined, query.stepId ? eq(deviations.stepId, query.stepId) : undefined))
+    .where(
+      and(
+        query.batchId ? eq(deviations.batchId, query.batchId) : undefined,
+        query.stepId ? eq(deviations.stepId, query.stepId) : undefined,
+      ),
+    )
     .orderBy(asc(deviations.signedAt))
     .limit(500);
   return { items: rows.map((r) => toDeviation(r.d, r.name)) };

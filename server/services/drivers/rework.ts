@@ -42,14 +42,24 @@ export async function finishRework(actor: Actor, serial: string, input: ReworkIn
   const current = await reworkableDriver(serial);
   // The finish (a savepoint inside this transaction) and the status change commit together.
   return db.transaction(async (tx) => {
-    const { stepRun } = await finishStep(actor, { batchId: current.batchId, stepId: input.stepId, stationId: input.stationId, serial }, new Date(), tx);
+    const { stepRun } = await finishStep(
+      actor,
+      { batchId: current.batchId, stepId: input.stepId, stationId: input.stationId, serial },
+      new Date(),
+      tx,
+    );
     const [before] = await tx.select().from(drivers).where(eq(drivers.serial, serial)).for('update');
     // Only failed → reworked: already reworked stays, and a concurrent scrap is not undone.
     if (before.status !== 'failed') return { driver: toDriver(before), stepRun };
     const [after] = await tx.update(drivers).set({ status: 'reworked' }).where(eq(drivers.id, before.id)).returning();
     await recordAudit(tx, {
-      actorId: actor.id, action: 'driver.status', entityType: 'driver', entityId: before.id,
-      before: { status: before.status }, after: { status: after.status }, reason: `rework run ${stepRun.id} finished`,
+      actorId: actor.id,
+      action: 'driver.status',
+      entityType: 'driver',
+      entityId: before.id,
+      before: { status: before.status },
+      after: { status: after.status },
+      reason: `rework run ${stepRun.id} finished`,
     });
     return { driver: toDriver(after), stepRun };
   });

@@ -22,8 +22,13 @@ export async function scrapDriver(actor: Actor, serial: string, input: ScrapInpu
     if (open) throw conflict('REWORK_IN_PROGRESS', `Driver ${serial} has a rework step still running; finish it first.`);
     const [after] = await tx.update(drivers).set({ status: 'scrapped' }).where(eq(drivers.id, driver.id)).returning();
     await recordAudit(tx, {
-      actorId: actor.id, action: 'driver.scrap', entityType: 'driver', entityId: driver.id,
-      before: { status: driver.status }, after: { status: after.status }, reason: input.reason,
+      actorId: actor.id,
+      action: 'driver.scrap',
+      entityType: 'driver',
+      entityId: driver.id,
+      before: { status: driver.status },
+      after: { status: after.status },
+      reason: input.reason,
     });
     return { driver: toDriver(after) };
   });

@@ -46,7 +46,8 @@ export async function claimKey(
     .delete(idempotencyKeys)
     .where(and(byKey(actorId, key), isNull(idempotencyKeys.statusCode), lt(idempotencyKeys.createdAt, new Date(Date.now() - STALE_MS))))
     .returning({ key: idempotencyKeys.key });
-  if (takenOver.length === 1 && (await insertKey.execute({ key, actorId, method, path, requestHash })).length === 1) return { claimed: true };
+  if (takenOver.length === 1 && (await insertKey.execute({ key, actorId, method, path, requestHash })).length === 1)
+    return { claimed: true };
   const [first] = await db.select().from(idempotencyKeys).where(byKey(actorId, key));
   return { claimed: false, first: first ?? null };
 }

@@ -53,7 +53,13 @@ async function labelData(where: { lotId?: string; containerIds?: string[] }): Pr
 export async function renderLabels(actor: Actor, query: LabelRenderQuery): Promise<string> {
   requirePermission(actor, 'labels.print');
   const layout = findLayout(query.layout);
-  if (!layout) throw fieldError('query.layout', `is not a known layout; use one of: ${labelLayouts().map((l) => l.id).join(', ')}`);
+  if (!layout)
+    throw fieldError(
+      'query.layout',
+      `is not a known layout; use one of: ${labelLayouts()
+        .map((l) => l.id)
+        .join(', ')}`,
+    );
   const perPage = layout.grid.cols * layout.grid.rows;
   if (query.skip >= perPage) throw fieldError('query.skip', `must be less than the ${perPage} labels on one page`);
   if (query.lotId) {
@@ -72,13 +78,25 @@ export async function renderLabels(actor: Actor, query: LabelRenderQuery): Promi
 export async function renderStationLabels(actor: Actor, query: StationLabelQuery): Promise<string> {
   requirePermission(actor, 'labels.print');
   const layout = findLayout(query.layout);
-  if (!layout) throw fieldError('query.layout', `is not a known layout; use one of: ${labelLayouts().map((l) => l.id).join(', ')}`);
+  if (!layout)
+    throw fieldError(
+      'query.layout',
+      `is not a known layout; use one of: ${labelLayouts()
+        .map((l) => l.id)
+        .join(', ')}`,
+    );
   const perPage = layout.grid.cols * layout.grid.rows;
   if (query.skip >= perPage) throw fieldError('query.skip', `must be less than the ${perPage} labels on one page`);
   const [station] = await db.select().from(stations).where(eq(stations.id, query.stationId));
   if (!station) throw notFound('The station');
   const data = { code: station.code, name: station.name, kind: stationKindWords(station.kind), area: station.area };
-  return renderStationLabelsHtml(layout, Array.from({ length: query.copies }, () => data), {
-    zone: PLANT_ZONE, skip: query.skip, title: `Station ${station.code} – code label`,
-  });
+  return renderStationLabelsHtml(
+    layout,
+    Array.from({ length: query.copies }, () => data),
+    {
+      zone: PLANT_ZONE,
+      skip: query.skip,
+      title: `Station ${station.code} – code label`,
+    },
+  );
 }

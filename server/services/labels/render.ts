@@ -59,15 +59,24 @@ export function useByText(expiry: string | null, zone: string): string {
 
 function fieldText(field: LabelField, d: LabelData, zone: string): string {
   switch (field) {
-    case 'materialName': return d.materialName;
-    case 'materialCode': return d.materialCode;
-    case 'supplierLot': return `Lot ${d.supplierLot}`;
-    case 'containerOfTotal': return `Container ${d.seq} of ${d.total}`;
-    case 'receivedOn': return `Received ${formatDate(d.receivedAt, zone)}`;
-    case 'effectiveExpiry': return useByText(d.effectiveExpiry, zone);
-    case 'storageClass': return STORAGE_WORDS[d.storageClass];
-    case 'quantity': return `${d.quantity} ${d.unit}`;
-    case 'supplierName': return d.supplierName;
+    case 'materialName':
+      return d.materialName;
+    case 'materialCode':
+      return d.materialCode;
+    case 'supplierLot':
+      return `Lot ${d.supplierLot}`;
+    case 'containerOfTotal':
+      return `Container ${d.seq} of ${d.total}`;
+    case 'receivedOn':
+      return `Received ${formatDate(d.receivedAt, zone)}`;
+    case 'effectiveExpiry':
+      return useByText(d.effectiveExpiry, zone);
+    case 'storageClass':
+      return STORAGE_WORDS[d.storageClass];
+    case 'quantity':
+      return `${d.quantity} ${d.unit}`;
+    case 'supplierName':
+      return d.supplierName;
   }
 }
 
@@ -96,9 +105,11 @@ function hazardBlock(layout: LabelLayout, d: LabelData): string {
   const codes = d.hazards.pictograms.filter((p): p is GhsPictogram => (GHS_PICTOGRAMS as readonly string[]).includes(p));
   if (codes.length === 0 && !d.hazards.signalWord) return '';
   const size = n(pictogramSizeMm(layout, codes.length, d.hazards.signalWord));
-  return `<div class="hazards">${codes.map((c) => `<span class="ghs" title="${c}" style="width: ${size}; height: ${size}">${ghsSvg(c)}</span>`).join('')}`
-    + (d.hazards.signalWord ? `<span class="signal">${escapeHtml(d.hazards.signalWord)}</span>` : '')
-    + '</div>';
+  return (
+    `<div class="hazards">${codes.map((c) => `<span class="ghs" title="${c}" style="width: ${size}; height: ${size}">${ghsSvg(c)}</span>`).join('')}` +
+    (d.hazards.signalWord ? `<span class="signal">${escapeHtml(d.hazards.signalWord)}</span>` : '') +
+    '</div>'
+  );
 }
 
 async function labelHtml(layout: LabelLayout, d: LabelData, zone: string): Promise<string> {
@@ -106,8 +117,10 @@ async function labelHtml(layout: LabelLayout, d: LabelData, zone: string): Promi
     const text = fields.map((f) => fieldText(f, d, zone)).join(' · ');
     return `<div class="${i === 0 ? 'line title' : 'line'}">${escapeHtml(text)}</div>`;
   });
-  return `<div class="label"><div class="qr">${await qrSvg(d.code)}<div class="code">${escapeHtml(d.code)}</div></div>`
-    + `<div class="text">${lines.join('')}${hazardBlock(layout, d)}</div></div>`;
+  return (
+    `<div class="label"><div class="qr">${await qrSvg(d.code)}<div class="code">${escapeHtml(d.code)}</div></div>` +
+    `<div class="text">${lines.join('')}${hazardBlock(layout, d)}</div></div>`
+  );
 }
 
 export function layoutCss(layout: LabelLayout): string {
@@ -160,7 +173,7 @@ export async function renderLabelsHtml(layout: LabelLayout, labels: LabelData[],
 <body>
 <div class="screen-note"><strong>${escapeHtml(layout.name)}</strong> – ${labels.length} label(s) on ${pages.length} page(s).
 Print at 100 % scale ("actual size"), with no page margins and no headers or footers, on ${escapeHtml(`${layout.page.widthMm} × ${layout.page.heightMm} mm`)} stock.
-${hazardous ? 'The hazard pictograms and signal word come from the material catalogue; the safety data sheet, local regulations and the plant\'s own safety rules govern how the material is handled.' : ''}</div>
+${hazardous ? "The hazard pictograms and signal word come from the material catalogue; the safety data sheet, local regulations and the plant's own safety rules govern how the material is handled." : ''}</div>
 ${pages.join('\n')}
 </body></html>`;
 }
@@ -174,9 +187,11 @@ export interface StationLabelData {
 }
 
 async function stationLabelHtml(d: StationLabelData): Promise<string> {
-  return `<div class="label"><div class="qr">${await qrSvg(d.code)}<div class="code">${escapeHtml(d.code)}</div></div>`
-    + `<div class="text"><div class="line title">${escapeHtml(d.name)}</div><div class="line">Station ${escapeHtml(d.code)}</div>`
-    + `<div class="line">${escapeHtml(d.kind)} · ${escapeHtml(d.area)}</div></div></div>`;
+  return (
+    `<div class="label"><div class="qr">${await qrSvg(d.code)}<div class="code">${escapeHtml(d.code)}</div></div>` +
+    `<div class="text"><div class="line title">${escapeHtml(d.name)}</div><div class="line">Station ${escapeHtml(d.code)}</div>` +
+    `<div class="line">${escapeHtml(d.kind)} · ${escapeHtml(d.area)}</div></div></div>`
+  );
 }
 
 /**

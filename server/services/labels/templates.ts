@@ -39,9 +39,7 @@ export function findLayout(id: string): LabelLayout | undefined {
 /** The inline SVG of a GHS pictogram (red diamond, black symbol). */
 export function ghsSvg(code: GhsPictogram): string {
   if (!pictograms) {
-    pictograms = new Map(
-      GHS_PICTOGRAMS.map((c) => [c, fs.readFileSync(path.join(LABELS_DIR, 'ghs', `${c}.svg`), 'utf8').trim()] as const),
-    );
+    pictograms = new Map(GHS_PICTOGRAMS.map((c) => [c, fs.readFileSync(path.join(LABELS_DIR, 'ghs', `${c}.svg`), 'utf8').trim()] as const));
   }
   const svg = pictograms.get(code);
   if (!svg) throw new Error(`no pictogram ${code}`);

@@ -7,11 +7,21 @@ import { looksLikeContainerCode, normalizeContainerCode } from '../../../shared/
 import { containerCodeIn } from '../scans/resolvers/container';
 import type { ContainerRow, LotRow, MaterialRow, MixRow } from './usability';
 
-export interface ContainerContext { container: ContainerRow; lot: LotRow; material: MaterialRow }
-export interface MixContext { mix: MixRow; resin: ContainerContext; hardener: ContainerContext }
+export interface ContainerContext {
+  container: ContainerRow;
+  lot: LotRow;
+  material: MaterialRow;
+}
+export interface MixContext {
+  mix: MixRow;
+  resin: ContainerContext;
+  hardener: ContainerContext;
+}
 
 function unknownCode(field: string, what: string, code: string): AppError {
-  return new AppError('NOT_FOUND', `No ${what} has the code "${code}". Check the label and scan again.`, 404, [{ field, message: 'is not known' }]);
+  return new AppError('NOT_FOUND', `No ${what} has the code "${code}". Check the label and scan again.`, 404, [
+    { field, message: 'is not known' },
+  ]);
 }
 
 /** A scanned container label as stored: the code itself or inside a label URL, case and O/I/L slips mended. */
@@ -29,7 +39,9 @@ export async function containerByCode(tx: DbOrTx, scanned: string, field: string
     .innerJoin(materials, eq(materials.id, lots.materialId))
     .where(eq(containers.code, code));
   // Named: the same text every time, so each connection parses and plans it once.
-  const [row] = lock ? await q.for('update', { of: containers }).prepare('loading_container_by_code_lock').execute() : await q.prepare('loading_container_by_code').execute();
+  const [row] = lock
+    ? await q.for('update', { of: containers }).prepare('loading_container_by_code_lock').execute()
+    : await q.prepare('loading_container_by_code').execute();
   if (!row) throw unknownCode(field, 'container', code);
   return row;
 }
@@ -48,7 +60,10 @@ export async function containersByIds(tx: DbOrTx, ids: string[]): Promise<Map<st
 export async function mixesByIds(tx: DbOrTx, ids: string[]): Promise<Map<string, MixContext>> {
   if (ids.length === 0) return new Map();
   const mixRows = await tx.select().from(mixes).where(inArray(mixes.id, ids));
-  const parts = await containersByIds(tx, mixRows.flatMap((m) => [m.resinContainerId, m.hardenerContainerId]));
+  const parts = await containersByIds(
+    tx,
+    mixRows.flatMap((m) => [m.resinContainerId, m.hardenerContainerId]),
+  );
   return new Map(
     mixRows.map((m) => [m.id, { mix: m, resin: parts.get(m.resinContainerId)!, hardener: parts.get(m.hardenerContainerId)! }]),
   );

@@ -46,10 +46,19 @@ export function mixSummary(m: MixContext['mix']) {
 /** Station loads with what they hold and its effective expiry now. */
 export async function describeLoads(tx: DbOrTx, rows: LoadRow[], now: Date): Promise<StationLoad[]> {
   const [cs, ms, batches] = await Promise.all([
-    containersByIds(tx, rows.flatMap((r) => (r.containerId ? [r.containerId] : []))),
-    mixesByIds(tx, rows.flatMap((r) => (r.mixId ? [r.mixId] : []))),
+    containersByIds(
+      tx,
+      rows.flatMap((r) => (r.containerId ? [r.containerId] : [])),
+    ),
+    mixesByIds(
+      tx,
+      rows.flatMap((r) => (r.mixId ? [r.mixId] : [])),
+    ),
     rows.length
-      ? tx.select({ id: buildBatches.id, code: buildBatches.code }).from(buildBatches).where(inArray(buildBatches.id, [...new Set(rows.map((r) => r.batchId))]))
+      ? tx
+          .select({ id: buildBatches.id, code: buildBatches.code })
+          .from(buildBatches)
+          .where(inArray(buildBatches.id, [...new Set(rows.map((r) => r.batchId))]))
       : Promise.resolve([]),
   ]);
   const batchCode = new Map(batches.map((b) => [b.id, b.code]));
@@ -99,7 +108,9 @@ export async function listLoaded(stationId: string, batchId?: string, now: Date 
   const rows = await db
     .select()
     .from(stationLoads)
-    .where(and(eq(stationLoads.stationId, stationId), isNull(stationLoads.unloadedAt), batchId ? eq(stationLoads.batchId, batchId) : undefined))
+    .where(
+      and(eq(stationLoads.stationId, stationId), isNull(stationLoads.unloadedAt), batchId ? eq(stationLoads.batchId, batchId) : undefined),
+    )
     .orderBy(asc(stationLoads.loadedAt));
   const items = await describeLoads(db, rows, now);
   const key = (x: StationLoad) => (x.expiresAt ? Date.parse(x.expiresAt) : Number.POSITIVE_INFINITY);

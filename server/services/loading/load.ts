@@ -16,13 +16,25 @@ import { stationKindWords } from '../../../shared/words';
 const kindWords = (kind: string) => stationKindWords(kind).toLowerCase();
 
 /** What a load needs of the station. */
-interface StationRow { id: string; code: string; kind: string; active: boolean }
+interface StationRow {
+  id: string;
+  code: string;
+  kind: string;
+  active: boolean;
+}
 type LoadRow = typeof stationLoads.$inferSelect;
 
 interface LoadContextRow {
-  station_id: string | null; station_code: string; station_kind: string; station_active: boolean;
-  batch_id: string | null; batch_code: string; batch_status: string; model_id: string;
-  steps: RecipeStep[]; done_step_ids: string[];
+  station_id: string | null;
+  station_code: string;
+  station_kind: string;
+  station_active: boolean;
+  batch_id: string | null;
+  batch_code: string;
+  batch_status: string;
+  model_id: string;
+  steps: RecipeStep[];
+  done_step_ids: string[];
 }
 
 /**
@@ -30,7 +42,10 @@ interface LoadContextRow {
  * done when its latest whole-batch run has finished (as batchProgress reads it).
  */
 async function loadContext(tx: Tx, stationId: string, batchId: string) {
-  const [r] = await runNamed<LoadContextRow>(tx, 'load_context', sql`
+  const [r] = await runNamed<LoadContextRow>(
+    tx,
+    'load_context',
+    sql`
     SELECT st.id AS station_id, st.code AS station_code, st.kind AS station_kind, st.active AS station_active,
            b.id AS batch_id, b.code AS batch_code, b.status AS batch_status, b.model_id,
            (SELECT coalesce(json_agg(json_build_object(
@@ -44,7 +59,8 @@ async function loadContext(tx: Tx, stationId: string, batchId: string) {
                  WHERE last.finished_at IS NOT NULL) AS done_step_ids
     FROM (SELECT 1) one
     LEFT JOIN stations st ON st.id = ${stationId}
-    LEFT JOIN build_batches b ON b.id = ${batchId}`);
+    LEFT JOIN build_batches b ON b.id = ${batchId}`,
+  );
   if (!r.station_id) throw notFound('The station');
   const station: StationRow = { id: r.station_id, code: r.station_code, kind: r.station_kind, active: r.station_active };
   if (!station.active) {
@@ -56,19 +72,34 @@ async function loadContext(tx: Tx, stationId: string, batchId: string) {
   return { station, batch, steps: r.steps, pending: r.steps.filter((s) => !done.has(s.id)) };
 }
 
-interface LoadWriteRow { load: Omit<LoadRow, 'loadedAt' | 'unloadedAt'> & { loadedAt: string; unloadedAt: string | null }; inserted: boolean }
+interface LoadWriteRow {
+  load: Omit<LoadRow, 'loadedAt' | 'unloadedAt'> & { loadedAt: string; unloadedAt: string | null };
+  inserted: boolean;
+}
 
 /**
  * The writes of a load in one statement: open a sealed container (with its audit), record the
  * load unless the same thing is already loaded for this batch here (with its audit), and add it
  * to the genealogy of a step running here for the batch. Data-modifying CTEs all run, each once.
  */
-async function writeLoad(tx: Tx, a: {
-  actorId: string; stationId: string; stationCode: string; batchId: string; containerId: string | null; mixId: string | null;
-  openContainer: boolean; now: Date;
-}): Promise<LoadWriteRow> {
+async function writeLoad(
+  tx: Tx,
+  a: {
+    actorId: string;
+    stationId: string;
+    stationCode: string;
+    batchId: string;
+    containerId: string | null;
+    mixId: string | null;
+    openContainer: boolean;
+    now: Date;
+  },
+): Promise<LoadWriteRow> {
   const now = a.now.toISOString();
-  const [row] = await runNamed<LoadWriteRow>(tx, 'load_write', sql`
+  const [row] = await runNamed<LoadWriteRow>(
+    tx,
+    'load_write',
+    sql`
     WITH opened AS (
       UPDATE containers SET status = 'open', opened_at = ${now}::timestamptz, updated_at = ${now}::timestamptz
       WHERE id = ${a.containerId}::uuid AND ${a.openContainer}::boolean AND status = 'sealed'
@@ -107,7 +138,8 @@ async function writeLoad(tx: Tx, a: {
     SELECT json_build_object('id', l.id, 'stationId', l.station_id, 'batchId', l.batch_id, 'containerId', l.container_id, 'mixId', l.mix_id,
                              'loadedAt', l.loaded_at, 'loadedBy', l.loaded_by, 'unloadedAt', l.unloaded_at) AS load,
            l.inserted
-    FROM (SELECT *, true AS inserted FROM inserted UNION ALL SELECT *, false FROM existing) l`);
+    FROM (SELECT *, true AS inserted FROM inserted UNION ALL SELECT *, false FROM existing) l`,
+  );
   return row;
 }
 
@@ -131,28 +163,52 @@ export function stepAtStation(station: StationRow, batchCode: string, pending: R
  * A rework load: the driver must belong to the batch and have failed (or be under rework); the
  * step is the one named, or the first of the recipe run at this station's kind.
  */
-async function reworkStep(tx: Tx, station: StationRow, batch: { id: string; code: string }, steps: RecipeStep[], serial: string, stepId?: string): Promise<RecipeStep> {
+async function reworkStep(
+  tx: Tx,
+  station: StationRow,
+  batch: { id: string; code: string },
+  steps: RecipeStep[],
+  serial: string,
+  stepId?: string,
+): Promise<RecipeStep> {
   const [driver] = await tx.select().from(drivers).where(eq(drivers.serial, serial));
-  if (!driver) throw new AppError('NOT_FOUND', `No driver has the serial "${serial}".`, 404, [{ field: 'serial', message: 'is not known' }]);
+  if (!driver)
+    throw new AppError('NOT_FOUND', `No driver has the serial "${serial}".`, 404, [{ field: 'serial', message: 'is not known' }]);
   if (driver.batchId !== batch.id) {
     throw conflict('WRONG_BATCH', `Driver ${driver.serial} belongs to another batch, not ${batch.code}. Scan the driver's own batch.`);
   }
   if (driver.status !== 'failed' && driver.status !== 'reworked') {
-    throw conflict('NOT_FOR_REWORK', `Driver ${driver.serial} is ${driver.status.replace('_', ' ')}; only a driver that failed final test is reworked.`);
+    throw conflict(
+      'NOT_FOR_REWORK',
+      `Driver ${driver.serial} is ${driver.status.replace('_', ' ')}; only a driver that failed final test is reworked.`,
+    );
   }
   const step = stepId ? steps.find((s) => s.id === stepId) : steps.find((s) => s.stationKind === station.kind);
   if (!step) {
-    if (stepId) throw new AppError('NOT_FOUND', 'That recipe step is not part of this batch\'s model.', 404, [{ field: 'stepId', message: 'is not a step of this model' }]);
-    throw conflict('WRONG_STATION', `No step of batch ${batch.code}'s recipe runs at a ${kindWords(station.kind)} station (${station.code}).`, { stationKind: station.kind });
+    if (stepId)
+      throw new AppError('NOT_FOUND', "That recipe step is not part of this batch's model.", 404, [
+        { field: 'stepId', message: 'is not a step of this model' },
+      ]);
+    throw conflict(
+      'WRONG_STATION',
+      `No step of batch ${batch.code}'s recipe runs at a ${kindWords(station.kind)} station (${station.code}).`,
+      { stationKind: station.kind },
+    );
   }
   if (step.stationKind !== station.kind) {
-    throw conflict('WRONG_STATION', `Step "${step.name}" runs at a ${kindWords(step.stationKind)} station, not at ${station.code} (${kindWords(station.kind)}).`, { stationKind: station.kind });
+    throw conflict(
+      'WRONG_STATION',
+      `Step "${step.name}" runs at a ${kindWords(step.stationKind)} station, not at ${station.code} (${kindWords(station.kind)}).`,
+      { stationKind: station.kind },
+    );
   }
   return step;
 }
 
 async function namesOf(tx: Tx, ids: string[]): Promise<string> {
-  const rows = ids.length ? await tx.select({ id: materials.id, name: materials.name }).from(materials).where(inArray(materials.id, ids)) : [];
+  const rows = ids.length
+    ? await tx.select({ id: materials.id, name: materials.name }).from(materials).where(inArray(materials.id, ids))
+    : [];
   const names = ids.map((id) => rows.find((r) => r.id === id)?.name ?? id);
   return names.length ? names.join(' or ') : 'no material';
 }
@@ -190,25 +246,63 @@ export async function loadAtStation(actor: Actor, stationId: string, input: Load
       await checkMaterialForStep(tx, step, [c.material], `container ${c.container.code}`);
       checkContainerUsable(c.container, c.lot, c.material, now);
       opened = c.container.status === 'sealed';
-      written = await writeLoad(tx, { actorId: actor.id, stationId: station.id, stationCode: station.code, batchId: batch.id, containerId: c.container.id, mixId: null, openContainer: opened, now });
+      written = await writeLoad(tx, {
+        actorId: actor.id,
+        stationId: station.id,
+        stationCode: station.code,
+        batchId: batch.id,
+        containerId: c.container.id,
+        mixId: null,
+        openContainer: opened,
+        now,
+      });
       // Described from what this request already holds (the container as opened just now).
       const container = opened ? { ...c.container, status: 'open' as const, openedAt: now, updatedAt: now } : c.container;
       const e = expiryOfContainer(container, c.lot, c.material, now);
       const l = written.load;
       described = {
-        id: l.id, stationId: l.stationId, batchId: l.batchId, batchCode: batch.code, loadedAt: new Date(l.loadedAt).toISOString(), loadedBy: l.loadedBy,
-        container: containerSummary(container), mix: null,
+        id: l.id,
+        stationId: l.stationId,
+        batchId: l.batchId,
+        batchCode: batch.code,
+        loadedAt: new Date(l.loadedAt).toISOString(),
+        loadedBy: l.loadedBy,
+        container: containerSummary(container),
+        mix: null,
         lot: { id: c.lot.id, supplierLot: c.lot.supplierLot, status: c.lot.status },
-        material: materialSummary(c.material), partMaterial: null, partLot: null, expiresAt: e.at, expiryCause: e.cause,
+        material: materialSummary(c.material),
+        partMaterial: null,
+        partLot: null,
+        expiresAt: e.at,
+        expiryCause: e.cause,
       };
     } else {
       const m = await mixByCode(tx, input.mixCode!, 'mixCode');
       await checkMaterialForStep(tx, step, [m.resin.material, m.hardener.material], `mix ${m.mix.code}`);
       checkMixUsable(m.mix, [m.resin, m.hardener], now);
-      written = await writeLoad(tx, { actorId: actor.id, stationId: station.id, stationCode: station.code, batchId: batch.id, containerId: null, mixId: m.mix.id, openContainer: false, now });
+      written = await writeLoad(tx, {
+        actorId: actor.id,
+        stationId: station.id,
+        stationCode: station.code,
+        batchId: batch.id,
+        containerId: null,
+        mixId: m.mix.id,
+        openContainer: false,
+        now,
+      });
       const l = written.load;
-      [described] = await describeLoads(tx, [{ ...l, loadedAt: new Date(l.loadedAt), unloadedAt: l.unloadedAt ? new Date(l.unloadedAt) : null }], now);
+      [described] = await describeLoads(
+        tx,
+        [{ ...l, loadedAt: new Date(l.loadedAt), unloadedAt: l.unloadedAt ? new Date(l.unloadedAt) : null }],
+        now,
+      );
     }
-    return { ...described, accepted: true as const, step: { id: step.id, seq: step.seq, name: step.name }, opened, alreadyLoaded: !written.inserted };
+    return {
+      ...described,
+      accepted: true as const,
+      step: { id: step.id, seq: step.seq, name: step.name },
+      opened,
+      alreadyLoaded: !written.inserted,
+    };
   });
 }

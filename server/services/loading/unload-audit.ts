@@ -3,7 +3,12 @@ import type { stationLoads } from '../../db/schema';
 import { recordAudit } from '../audit';
 
 /** Audits station loads just taken off (one entry each, old and new unload time). */
-export async function auditUnloads(tx: DbOrTx, actorId: string, rows: (typeof stationLoads.$inferSelect)[], reason?: string): Promise<void> {
+export async function auditUnloads(
+  tx: DbOrTx,
+  actorId: string,
+  rows: (typeof stationLoads.$inferSelect)[],
+  reason?: string,
+): Promise<void> {
   for (const r of rows) {
     await recordAudit(tx, {
       actorId,

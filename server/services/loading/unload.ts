@@ -17,7 +17,10 @@ export async function unloadAtStation(actor: Actor, stationId: string, input: Un
     let target;
     if (input.loadId) target = eq(stationLoads.id, input.loadId);
     else if (input.containerCode) {
-      const [c] = await tx.select({ id: containers.id }).from(containers).where(eq(containers.code, scannedContainerCode(input.containerCode)));
+      const [c] = await tx
+        .select({ id: containers.id })
+        .from(containers)
+        .where(eq(containers.code, scannedContainerCode(input.containerCode)));
       target = eq(stationLoads.containerId, c?.id ?? '00000000-0000-0000-0000-000000000000');
     } else {
       const [m] = await tx.select({ id: mixes.id }).from(mixes).where(eq(mixes.code, input.mixCode!));
@@ -26,11 +29,20 @@ export async function unloadAtStation(actor: Actor, stationId: string, input: Un
     const rows = await tx
       .update(stationLoads)
       .set({ unloadedAt: now })
-      .where(and(eq(stationLoads.stationId, station.id), isNull(stationLoads.unloadedAt), target, input.batchId ? eq(stationLoads.batchId, input.batchId) : undefined))
+      .where(
+        and(
+          eq(stationLoads.stationId, station.id),
+          isNull(stationLoads.unloadedAt),
+          target,
+          input.batchId ? eq(stationLoads.batchId, input.batchId) : undefined,
+        ),
+      )
       .returning();
     if (rows.length === 0) {
       const field = input.loadId ? 'loadId' : input.containerCode ? 'containerCode' : 'mixCode';
-      throw new AppError('NOT_FOUND', `Nothing like that is loaded at station ${station.code}.`, 404, [{ field, message: 'is not loaded here' }]);
+      throw new AppError('NOT_FOUND', `Nothing like that is loaded at station ${station.code}.`, 404, [
+        { field, message: 'is not loaded here' },
+      ]);
     }
     await auditUnloads(tx, actor.id, rows);
     return { unloaded: rows.map((r) => r.id) };

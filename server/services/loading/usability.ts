@@ -54,11 +54,23 @@ export function checkLotStatus(lot: LotRow, material: MaterialRow, what: string)
     case 'released':
       return;
     case 'on_hold':
-      throw conflict('LOT_ON_HOLD', `${what}: ${name} is on hold awaiting incoming inspection. Do not use it; load a released lot, or ask quality to release this one.`, { lotId: lot.id });
+      throw conflict(
+        'LOT_ON_HOLD',
+        `${what}: ${name} is on hold awaiting incoming inspection. Do not use it; load a released lot, or ask quality to release this one.`,
+        { lotId: lot.id },
+      );
     case 'quarantined':
-      throw conflict('LOT_QUARANTINED', `${what}: ${name} is quarantined by quality. Do not use it; take it off the line and load a released lot.`, { lotId: lot.id });
+      throw conflict(
+        'LOT_QUARANTINED',
+        `${what}: ${name} is quarantined by quality. Do not use it; take it off the line and load a released lot.`,
+        { lotId: lot.id },
+      );
     case 'rejected':
-      throw conflict('LOT_REJECTED', `${what}: ${name} was rejected by quality. Do not use it; take it off the line and load a released lot.`, { lotId: lot.id });
+      throw conflict(
+        'LOT_REJECTED',
+        `${what}: ${name} was rejected by quality. Do not use it; take it off the line and load a released lot.`,
+        { lotId: lot.id },
+      );
     case 'used_up':
       throw conflict('CONTAINER_EMPTY', `${what}: ${name} is recorded as used up. Load a container from another lot.`, { lotId: lot.id });
   }
@@ -68,7 +80,9 @@ export function checkLotStatus(lot: LotRow, material: MaterialRow, what: string)
 export function checkContainerUsable(c: ContainerRow, lot: LotRow, m: MaterialRow, now: Date): ExpiryResult {
   const what = `Container ${c.code}`;
   if (c.status === 'scrapped') {
-    throw conflict('CONTAINER_SCRAPPED', `${what} (${m.name}) has been scrapped. Do not use it; load another container.`, { containerId: c.id });
+    throw conflict('CONTAINER_SCRAPPED', `${what} (${m.name}) has been scrapped. Do not use it; load another container.`, {
+      containerId: c.id,
+    });
   }
   if (c.status === 'empty' || Number(c.remaining) <= 0) {
     throw conflict('CONTAINER_EMPTY', `${what} (${m.name}) is empty. Load another container of ${m.name}.`, { containerId: c.id });
@@ -78,9 +92,17 @@ export function checkContainerUsable(c: ContainerRow, lot: LotRow, m: MaterialRo
   if (isExpired(expiry, now) && expiry.at && expiry.cause) {
     const details = { containerId: c.id, expiredAt: expiry.at, cause: expiry.cause };
     if (expiry.cause === 'open_life') {
-      throw conflict('OPEN_LIFE_EXCEEDED', `${what} (${m.name}) is past its after-opening life (since ${when(expiry.at)}). Do not use it; put it aside for disposal and load a fresh container.`, details);
+      throw conflict(
+        'OPEN_LIFE_EXCEEDED',
+        `${what} (${m.name}) is past its after-opening life (since ${when(expiry.at)}). Do not use it; put it aside for disposal and load a fresh container.`,
+        details,
+      );
     }
-    throw conflict('EXPIRED', `${what} (${m.name}) is past ${causeWords(expiry.cause)} (since ${when(expiry.at)}). Do not use it; put it aside for disposal and load another container.`, details);
+    throw conflict(
+      'EXPIRED',
+      `${what} (${m.name}) is past ${causeWords(expiry.cause)} (since ${when(expiry.at)}). Do not use it; put it aside for disposal and load another container.`,
+      details,
+    );
   }
   return expiry;
 }
@@ -101,9 +123,17 @@ export function checkMixUsable(
   if (isExpired(expiry, now) && expiry.at && expiry.cause) {
     const details = { mixId: mix.id, expiredAt: expiry.at, cause: expiry.cause };
     if (expiry.cause === 'pot_life') {
-      throw conflict('POT_LIFE_EXCEEDED', `${what} is past its pot life (since ${when(expiry.at)}); it is starting to set. Do not use it; dispose of it as the SDS says and mix a fresh batch.`, details);
+      throw conflict(
+        'POT_LIFE_EXCEEDED',
+        `${what} is past its pot life (since ${when(expiry.at)}); it is starting to set. Do not use it; dispose of it as the SDS says and mix a fresh batch.`,
+        details,
+      );
     }
-    throw conflict('EXPIRED', `${what} contains material past ${causeWords(expiry.cause)} (since ${when(expiry.at)}). Do not use it; mix a fresh batch from other lots.`, details);
+    throw conflict(
+      'EXPIRED',
+      `${what} contains material past ${causeWords(expiry.cause)} (since ${when(expiry.at)}). Do not use it; mix a fresh batch from other lots.`,
+      details,
+    );
   }
   return expiry;
 }

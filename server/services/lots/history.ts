@@ -42,7 +42,10 @@ async function namesOfIds(values: unknown[]): Promise<Map<string, string>> {
   const names = new Map<string, string>();
   for (const [field, ids] of idsByField(values)) {
     const { table, id, name } = NAMED_BY[field];
-    const rows = await db.select({ id, name }).from(table).where(inArray(id, [...ids]));
+    const rows = await db
+      .select({ id, name })
+      .from(table)
+      .where(inArray(id, [...ids]));
     for (const r of rows) names.set(r.id, r.name);
   }
   return names;
@@ -50,10 +53,11 @@ async function namesOfIds(values: unknown[]): Promise<Map<string, string>> {
 
 function namesIn(values: unknown[], names: Map<string, string>): Record<string, string> {
   const out: Record<string, string> = {};
-  for (const ids of idsByField(values).values()) for (const id of ids) {
-    const name = names.get(id);
-    if (name) out[id] = name;
-  }
+  for (const ids of idsByField(values).values())
+    for (const id of ids) {
+      const name = names.get(id);
+      if (name) out[id] = name;
+    }
   return out;
 }
 

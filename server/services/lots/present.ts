@@ -17,7 +17,12 @@ export type AttachmentRow = typeof attachments.$inferSelect;
 /** The plant's time zone: supplier expiry dates are usable through that whole day there. */
 export const PLANT_ZONE = config.plantZone;
 
-export function expiryMaterialOf(m: Pick<MaterialRow, 'shelfLifeDays' | 'openLifeHours' | 'thawedLifeHours' | 'outOfStorageAllowanceHours' | 'potLifeMinutes' | 'storageClass'>): ExpiryMaterial {
+export function expiryMaterialOf(
+  m: Pick<
+    MaterialRow,
+    'shelfLifeDays' | 'openLifeHours' | 'thawedLifeHours' | 'outOfStorageAllowanceHours' | 'potLifeMinutes' | 'storageClass'
+  >,
+): ExpiryMaterial {
   return {
     shelfLifeDays: m.shelfLifeDays,
     openLifeHours: m.openLifeHours,

@@ -26,9 +26,10 @@ export async function changeLotStatus(
     const allowed = LOT_TRANSITIONS[lot.status];
     if (!allowed.includes(input.status)) {
       const now = lotStatusWords(lot.status).toLowerCase();
-      const msg = allowed.length === 0
-        ? `The lot is ${now}; that is final and its status cannot change.`
-        : `The lot is ${now}; it can be set to ${allowed.map((s) => lotStatusWords(s).toLowerCase()).join(' or ')}, not ${lotStatusWords(input.status).toLowerCase()}.`;
+      const msg =
+        allowed.length === 0
+          ? `The lot is ${now}; that is final and its status cannot change.`
+          : `The lot is ${now}; it can be set to ${allowed.map((s) => lotStatusWords(s).toLowerCase()).join(' or ')}, not ${lotStatusWords(input.status).toLowerCase()}.`;
       throw conflict('INVALID_TRANSITION', msg, { from: lot.status, to: input.status, allowed });
     }
     if (lot.status === 'quarantined' && input.status === 'released' && !input.reason) {
@@ -41,7 +42,10 @@ export async function changeLotStatus(
       .where(eq(lots.id, id))
       .returning();
     await recordAudit(tx, {
-      actorId: actor.id, action: 'lot.status', entityType: 'lot', entityId: id,
+      actorId: actor.id,
+      action: 'lot.status',
+      entityType: 'lot',
+      entityId: id,
       before: { status: lot.status, statusReason: lot.statusReason },
       after: { status: updated.status, statusReason: updated.statusReason },
       reason: input.reason,

@@ -58,9 +58,9 @@ export function startMailCatcher(options: { port?: number; db?: DbOrTx; hooks?: 
       Promise.resolve()
         .then(() => hooks.rcpt?.(address.address))
         .then(
-        () => callback(),
-        (err: unknown) => callback(err instanceof Error ? err : new Error(String(err))),
-      );
+          () => callback(),
+          (err: unknown) => callback(err instanceof Error ? err : new Error(String(err))),
+        );
     },
     onData(stream, session, callback) {
       const chunks: Buffer[] = [];

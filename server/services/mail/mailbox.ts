@@ -22,8 +22,12 @@ const outboxMessageId = sql.raw('"outgoing_emails"."message_id"');
 const columns = {
   row: outgoingEmails,
   captured: sql<number>`(SELECT count(*)::int FROM captured_emails c WHERE c.message_id = ${outboxMessageId})`,
-  capturedText: sql<string | null>`(SELECT c.text FROM captured_emails c WHERE c.message_id = ${outboxMessageId} ORDER BY c.received_at DESC LIMIT 1)`,
-  capturedHtml: sql<string | null>`(SELECT c.html FROM captured_emails c WHERE c.message_id = ${outboxMessageId} ORDER BY c.received_at DESC LIMIT 1)`,
+  capturedText: sql<
+    string | null
+  >`(SELECT c.text FROM captured_emails c WHERE c.message_id = ${outboxMessageId} ORDER BY c.received_at DESC LIMIT 1)`,
+  capturedHtml: sql<
+    string | null
+  >`(SELECT c.html FROM captured_emails c WHERE c.message_id = ${outboxMessageId} ORDER BY c.received_at DESC LIMIT 1)`,
 };
 
 type Row = { row: typeof outgoingEmails.$inferSelect; captured: number; capturedText: string | null; capturedHtml: string | null };
@@ -63,15 +67,30 @@ export async function listMail(actor: Actor, query: MailListQuery): Promise<Mail
   if (query.kind) filters.push(eq(outgoingEmails.kind, query.kind));
   const where = filters.length ? and(...filters) : undefined;
   const [rows, [{ n }]] = await Promise.all([
-    db.select(columns).from(outgoingEmails).where(where).orderBy(desc(outgoingEmails.createdAt), desc(outgoingEmails.id)).limit(query.limit).offset(query.offset),
+    db
+      .select(columns)
+      .from(outgoingEmails)
+      .where(where)
+      .orderBy(desc(outgoingEmails.createdAt), desc(outgoingEmails.id))
+      .limit(query.limit)
+      .offset(query.offset),
     db.select({ n: count() }).from(outgoingEmails).where(where),
   ]);
   const transport = mailTransport();
-  return { items: rows.map(toItem), total: n, transport: transport?.describe ?? null, local: transport?.local ?? false, zone: config.plantZone };
+  return {
+    items: rows.map(toItem),
+    total: n,
+    transport: transport?.describe ?? null,
+    local: transport?.local ?? false,
+    zone: config.plantZone,
+  };
 }
 
 export async function getMail(actor: Actor, id: string): Promise<MailItem> {
-  const [row] = await db.select(columns).from(outgoingEmails).where(and(eq(outgoingEmails.id, id), ...scope(actor, undefined)));
+  const [row] = await db
+    .select(columns)
+    .from(outgoingEmails)
+    .where(and(eq(outgoingEmails.id, id), ...scope(actor, undefined)));
   if (!row) throw notFound('That message');
   return toItem(row);
 }

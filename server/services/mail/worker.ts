@@ -97,7 +97,13 @@ function smtpCode(err: unknown): number | undefined {
   return typeof code === 'number' ? code : undefined;
 }
 
-async function markFailedAttempt(row: ClaimedRow, workerId: string, err: unknown, now: Date, maxAttempts: number): Promise<'retried' | 'failed'> {
+async function markFailedAttempt(
+  row: ClaimedRow,
+  workerId: string,
+  err: unknown,
+  now: Date,
+  maxAttempts: number,
+): Promise<'retried' | 'failed'> {
   const code = smtpCode(err);
   const permanent = code !== undefined && code >= 500 && code < 600;
   const giveUp = permanent || row.attempts >= maxAttempts;
@@ -150,7 +156,9 @@ export async function drainOutbox(options: DrainOptions = {}): Promise<DrainResu
     } catch (err) {
       const outcome = await markFailedAttempt(row, workerId, err, now, maxAttempts);
       result[outcome] += 1;
-      logger.warn(`mail: ${outcome === 'failed' ? 'gave up on' : 'will retry'} ${row.message_id}: ${err instanceof Error ? err.message : String(err)}`);
+      logger.warn(
+        `mail: ${outcome === 'failed' ? 'gave up on' : 'will retry'} ${row.message_id}: ${err instanceof Error ? err.message : String(err)}`,
+      );
     }
   }
   return result;

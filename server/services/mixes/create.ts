@@ -49,7 +49,8 @@ async function drawPart(tx: Tx, actor: Actor, c: ContainerContext, qty: number, 
     })
     .where(sql`${containers.id} = ${c.container.id} AND ${containers.remaining} >= ${q}::numeric`)
     .returning();
-  if (!row) throw conflict('INSUFFICIENT_STOCK', `Container ${c.container.code} no longer holds ${q} ${c.material.unit}; use another container.`);
+  if (!row)
+    throw conflict('INSUFFICIENT_STOCK', `Container ${c.container.code} no longer holds ${q} ${c.material.unit}; use another container.`);
   await recordAudit(tx, {
     actorId: actor.id,
     action: 'container.consume',
@@ -76,7 +77,12 @@ export async function createMix(actor: Actor, stationId: string, input: MixInput
       throw conflict('NOT_MIX_PARTNERS', 'The resin and the hardener are the same container; scan the other part.');
     }
     // Lock both parts in id order (concurrent mixes and finishes lock containers the same way).
-    await tx.select({ id: containers.id }).from(containers).where(inArray(containers.id, [resin0.container.id, hardener0.container.id])).orderBy(asc(containers.id)).for('update');
+    await tx
+      .select({ id: containers.id })
+      .from(containers)
+      .where(inArray(containers.id, [resin0.container.id, hardener0.container.id]))
+      .orderBy(asc(containers.id))
+      .for('update');
     const parts = await containersByIds(tx, [resin0.container.id, hardener0.container.id]);
     const resin = parts.get(resin0.container.id)!;
     const hardener = parts.get(hardener0.container.id)!;
@@ -89,17 +95,26 @@ export async function createMix(actor: Actor, stationId: string, input: MixInput
 
     const refPotLife = resin.material.potLifeMinutes ?? hardener.material.potLifeMinutes;
     if (!refPotLife) {
-      throw conflict('POT_LIFE_UNKNOWN', `The catalogue gives no pot life for ${resin.material.name}; an administrator must set it before it can be mixed here.`);
+      throw conflict(
+        'POT_LIFE_UNKNOWN',
+        `The catalogue gives no pot life for ${resin.material.name}; an administrator must set it before it can be mixed here.`,
+      );
     }
     const profile = resin.material.cure ?? hardener.material.cure;
     const temp = profile ? await temperatureAt(tx, station.area, now, profile.refTempC) : null;
-    const endsAt = profile && temp ? potLifeEndsAt(refPotLife, profile, now.toISOString(), temp.tempC) : new Date(now.getTime() + refPotLife * 60_000).toISOString();
+    const endsAt =
+      profile && temp
+        ? potLifeEndsAt(refPotLife, profile, now.toISOString(), temp.tempC)
+        : new Date(now.getTime() + refPotLife * 60_000).toISOString();
     const minutes = profile && temp ? adjustedMinutes(refPotLife, profile, temp.tempC) : refPotLife;
 
     // MX-<yyMMdd of the plant day>-<seq of the day>, one writer per day at a time.
     const prefix = `MX-${DateTime.fromJSDate(now).setZone(config.plantZone).toFormat('yyMMdd')}-`;
     await tx.execute(sql`SELECT pg_advisory_xact_lock(hashtext(${`mix-code:${prefix}`}))`);
-    const [{ n }] = await tx.select({ n: count() }).from(mixes).where(like(mixes.code, `${prefix}%`));
+    const [{ n }] = await tx
+      .select({ n: count() })
+      .from(mixes)
+      .where(like(mixes.code, `${prefix}%`));
     const code = `${prefix}${String(n + 1).padStart(3, '0')}`;
 
     await drawPart(tx, actor, resin, input.resinQuantity, now, code);
@@ -139,5 +154,3 @@ export async function createMix(actor: Actor, stationId: string, input: MixInput
     };
   });
 }
-
-

@@ -12,7 +12,15 @@ export async function loadSteps(tx: DbOrTx, modelIds: string[]): Promise<Map<str
   if (modelIds.length === 0) return out;
   const steps = await tx.select().from(recipeSteps).where(inArray(recipeSteps.modelId, modelIds)).orderBy(asc(recipeSteps.seq));
   const mats = steps.length
-    ? await tx.select().from(recipeStepMaterials).where(inArray(recipeStepMaterials.stepId, steps.map((s) => s.id)))
+    ? await tx
+        .select()
+        .from(recipeStepMaterials)
+        .where(
+          inArray(
+            recipeStepMaterials.stepId,
+            steps.map((s) => s.id),
+          ),
+        )
     : [];
   for (const s of steps) {
     out.get(s.modelId)?.push({
@@ -29,10 +37,7 @@ export async function loadSteps(tx: DbOrTx, modelIds: string[]): Promise<Map<str
 
 async function modelsInUse(tx: DbOrTx, modelIds: string[]): Promise<Set<string>> {
   if (modelIds.length === 0) return new Set();
-  const rows = await tx
-    .selectDistinct({ modelId: buildBatches.modelId })
-    .from(buildBatches)
-    .where(inArray(buildBatches.modelId, modelIds));
+  const rows = await tx.selectDistinct({ modelId: buildBatches.modelId }).from(buildBatches).where(inArray(buildBatches.modelId, modelIds));
   return new Set(rows.map((r) => r.modelId));
 }
 

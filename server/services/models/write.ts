@@ -5,7 +5,13 @@ import { conflict, fieldError } from '../../errors';
 import type { Actor } from '../auth/actor';
 import { requirePermission } from '../auth/actor';
 import { recordAudit } from '../audit';
-import { revisionLabel, type DriverModel, type DriverModelInput, type DriverModelPatch, type RecipeStepInput } from '../../../shared/schemas/models';
+import {
+  revisionLabel,
+  type DriverModel,
+  type DriverModelInput,
+  type DriverModelPatch,
+  type RecipeStepInput,
+} from '../../../shared/schemas/models';
 import { findModelRow, getModel, loadSteps } from './read';
 
 /**
@@ -24,7 +30,10 @@ async function checkRecipe(tx: Tx, steps: RecipeStepInput[]): Promise<void> {
   );
   for (const [i, step] of steps.entries()) {
     if (!kinds.has(step.stationKind)) {
-      throw fieldError(`steps.${i}.stationKind`, `"${step.stationKind}" is not the kind of any active station; add the station first or use an existing kind`);
+      throw fieldError(
+        `steps.${i}.stationKind`,
+        `"${step.stationKind}" is not the kind of any active station; add the station first or use an existing kind`,
+      );
     }
     for (const [j, m] of step.materials.entries()) {
       if (!known.has(m.materialId)) throw fieldError(`steps.${i}.materials.${j}.materialId`, 'is not a material in the catalogue');
@@ -39,9 +48,9 @@ async function insertSteps(tx: Tx, modelId: string, steps: RecipeStepInput[]): P
       .values({ modelId, seq: step.seq ?? i + 1, name: step.name, stationKind: step.stationKind, waitForCure: step.waitForCure })
       .returning({ id: recipeSteps.id });
     if (step.materials.length) {
-      await tx.insert(recipeStepMaterials).values(
-        step.materials.map((m) => ({ stepId: row.id, materialId: m.materialId, amountPerUnit: String(m.amountPerUnit) })),
-      );
+      await tx
+        .insert(recipeStepMaterials)
+        .values(step.materials.map((m) => ({ stepId: row.id, materialId: m.materialId, amountPerUnit: String(m.amountPerUnit) })));
     }
   }
 }
@@ -57,10 +66,10 @@ export async function createModel(actor: Actor, input: DriverModelInput): Promis
     const [row] = taken
       ? []
       : await tx
-      .insert(driverModels)
-      .values({ code: input.code, name: input.name, description: input.description ?? null })
-      .onConflictDoNothing({ target: [driverModels.code, driverModels.revision] })
-      .returning();
+          .insert(driverModels)
+          .values({ code: input.code, name: input.name, description: input.description ?? null })
+          .onConflictDoNothing({ target: [driverModels.code, driverModels.revision] })
+          .returning();
     if (!row) {
       throw conflict('DUPLICATE_CODE', `A driver model with the code "${input.code}" already exists; choose another code.`, [
         { field: 'code', message: 'is already used' },
@@ -96,7 +105,11 @@ export async function updateModel(actor: Actor, id: string, patch: DriverModelPa
       ...(patch.description !== undefined ? { description: patch.description ?? null } : {}),
       ...(patch.active !== undefined ? { active: patch.active } : {}),
     };
-    if (Object.keys(fields).length) await tx.update(driverModels).set(fields).where(and(eq(driverModels.id, id)));
+    if (Object.keys(fields).length)
+      await tx
+        .update(driverModels)
+        .set(fields)
+        .where(and(eq(driverModels.id, id)));
     const after = await getModel(id, tx);
     await recordAudit(tx, { actorId: actor.id, action: 'model.update', entityType: 'driver_model', entityId: id, before, after });
     return after;
@@ -153,11 +166,17 @@ export async function makeRevisionCurrent(actor: Actor, id: string): Promise<Dri
   return db.transaction(async (tx) => {
     const row = await findModelRow(tx, id);
     await tx.execute(sql`SELECT pg_advisory_xact_lock(hashtext(${`model-revision:${row.code}`}))`);
-    const [before] = await tx.select().from(driverModels).where(and(eq(driverModels.code, row.code), eq(driverModels.current, true)));
+    const [before] = await tx
+      .select()
+      .from(driverModels)
+      .where(and(eq(driverModels.code, row.code), eq(driverModels.current, true)));
     if (before?.id === row.id) return getModel(id, tx);
     const [{ n }] = await tx.select({ n: count() }).from(recipeSteps).where(eq(recipeSteps.modelId, id));
     if (n === 0) throw conflict('MODEL_HAS_NO_STEPS', `${revisionLabel(row)} has no recipe steps yet; add them before making it current.`);
-    await tx.update(driverModels).set({ current: false }).where(and(eq(driverModels.code, row.code), eq(driverModels.current, true)));
+    await tx
+      .update(driverModels)
+      .set({ current: false })
+      .where(and(eq(driverModels.code, row.code), eq(driverModels.current, true)));
     await tx.update(driverModels).set({ current: true }).where(eq(driverModels.id, id));
     const after = await getModel(id, tx);
     await recordAudit(tx, {

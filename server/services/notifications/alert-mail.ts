@@ -38,7 +38,14 @@ interface Candidate {
 async function candidates(tx: Tx, audience: Role[]): Promise<Candidate[]> {
   const audienceArray = `{${audience.join(',')}}`;
   return tx
-    .select({ id: users.id, email: users.email, name: users.name, roles: users.roles, modes: notificationSettings.modes, whenResolved: notificationSettings.whenResolved })
+    .select({
+      id: users.id,
+      email: users.email,
+      name: users.name,
+      roles: users.roles,
+      modes: notificationSettings.modes,
+      whenResolved: notificationSettings.whenResolved,
+    })
     .from(users)
     .leftJoin(notificationSettings, eq(notificationSettings.userId, users.id))
     .where(and(eq(users.active, true), sql`(${users.roles} && ${audienceArray}::role[] OR 'admin' = ANY(${users.roles}))`))
@@ -101,13 +108,27 @@ export async function queueAlertResolvedMails(
     .from(outgoingEmails)
     .innerJoin(users, eq(users.id, outgoingEmails.recipientUserId))
     .innerJoin(notificationSettings, eq(notificationSettings.userId, users.id))
-    .where(and(eq(outgoingEmails.alertId, alert.id), eq(outgoingEmails.kind, 'alert'), eq(notificationSettings.whenResolved, true), eq(users.active, true)));
+    .where(
+      and(
+        eq(outgoingEmails.alertId, alert.id),
+        eq(outgoingEmails.kind, 'alert'),
+        eq(notificationSettings.whenResolved, true),
+        eq(users.active, true),
+      ),
+    );
   if (!people.length) return 0;
   const subject = await describeSubject(tx, alert);
   const ctx = await mailContext();
   let queued = 0;
   for (const person of people) {
-    const mail = renderAlertResolvedMail(ctx, { kind: alert.kind, subjectWords: subject.words, resolution, resolvedAt, resolvedBy, recipientName: person.name });
+    const mail = renderAlertResolvedMail(ctx, {
+      kind: alert.kind,
+      subjectWords: subject.words,
+      resolution,
+      resolvedAt,
+      resolvedBy,
+      recipientName: person.name,
+    });
     const id = await queueEmail(tx, {
       kind: 'alert_resolved',
       to: [person.email],

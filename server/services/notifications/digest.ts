@@ -43,11 +43,20 @@ export async function queueDigests(now: Date = new Date()): Promise<DigestRun> {
     .where(eq(users.active, true))
     .orderBy(users.email);
   const done = new Set(
-    (await db.select({ key: outgoingEmails.dedupeKey }).from(outgoingEmails).where(like(outgoingEmails.dedupeKey, `digest:%:${plantDate}`))).map((r) => r.key),
+    (
+      await db
+        .select({ key: outgoingEmails.dedupeKey })
+        .from(outgoingEmails)
+        .where(like(outgoingEmails.dedupeKey, `digest:%:${plantDate}`))
+    ).map((r) => r.key),
   );
 
   const since = new Date(now.getTime() - 86_400_000);
-  const recent = await db.select().from(alerts).where(and(gte(alerts.raisedAt, since), ne(alerts.state, 'resolved'))).orderBy(alerts.raisedAt);
+  const recent = await db
+    .select()
+    .from(alerts)
+    .where(and(gte(alerts.raisedAt, since), ne(alerts.state, 'resolved')))
+    .orderBy(alerts.raisedAt);
   const recentItems = new Map<string, DigestItem>();
   let purchasing: PurchasingFigures | undefined;
   let quality: QualityFigures | undefined;
@@ -69,7 +78,11 @@ export async function queueDigests(now: Date = new Date()): Promise<DigestRun> {
     for (const a of mine) {
       if (!recentItems.has(a.id)) {
         const subject = await describeSubject(db, a);
-        recentItems.set(a.id, { title: `${alertKindWords(a.kind)} – ${subject.words}`, detail: a.message, path: subject.path ?? '/alerts' });
+        recentItems.set(a.id, {
+          title: `${alertKindWords(a.kind)} – ${subject.words}`,
+          detail: a.message,
+          path: subject.path ?? '/alerts',
+        });
       }
       items.push(recentItems.get(a.id) as DigestItem);
     }

@@ -24,7 +24,13 @@ const num = (v: unknown) => Number(v).toLocaleString('en-GB', { maximumFractionD
 /** Purchasing's figures from today's alerts and lots (until the stock figures are plugged in). */
 export async function purchasingFiguresFromAlerts(tx: DbOrTx, now: Date, zone: string): Promise<PurchasingFigures> {
   const reorder = await tx
-    .select({ message: alerts.message, materialId: materials.id, name: materials.name, code: materials.code, leadTimeDays: materials.leadTimeDays })
+    .select({
+      message: alerts.message,
+      materialId: materials.id,
+      name: materials.name,
+      code: materials.code,
+      leadTimeDays: materials.leadTimeDays,
+    })
     .from(alerts)
     .innerJoin(materials, sql`${materials.id}::text = ${alerts.subjectId}`)
     .where(and(eq(alerts.kind, 'below_reorder_point'), ne(alerts.state, 'resolved')))
@@ -50,7 +56,11 @@ export async function purchasingFiguresFromAlerts(tx: DbOrTx, now: Date, zone: s
   const horizon = new Date(now.getTime() + EXPIRING_WINDOW_DAYS * 86_400_000);
   const expiring = await tx
     .select({
-      id: lots.id, supplierLot: lots.supplierLot, material: materials.name, unit: materials.unit, expiresAt: expiry,
+      id: lots.id,
+      supplierLot: lots.supplierLot,
+      material: materials.name,
+      unit: materials.unit,
+      expiresAt: expiry,
       // Spelt out: in a select list drizzle leaves columns unqualified, and "id" would be the container's.
       remaining: sql<string>`(SELECT COALESCE(SUM(c.remaining), 0) FROM containers c WHERE c.lot_id = "lots"."id" AND c.status IN ('sealed','open'))`,
     })
@@ -116,7 +126,13 @@ export async function qualityFigures(tx: DbOrTx, now: Date, zone: string): Promi
 
   const since = new Date(now.getTime() - 86_400_000);
   const shorts = await tx
-    .select({ batchId: buildBatches.id, batch: buildBatches.code, step: recipeSteps.name, startedAt: stepRuns.startedAt, deviationId: stepRuns.deviationId })
+    .select({
+      batchId: buildBatches.id,
+      batch: buildBatches.code,
+      step: recipeSteps.name,
+      startedAt: stepRuns.startedAt,
+      deviationId: stepRuns.deviationId,
+    })
     .from(stepRuns)
     .innerJoin(buildBatches, eq(buildBatches.id, stepRuns.batchId))
     .innerJoin(recipeSteps, eq(recipeSteps.id, stepRuns.stepId))
@@ -124,7 +140,12 @@ export async function qualityFigures(tx: DbOrTx, now: Date, zone: string): Promi
     .orderBy(stepRuns.startedAt);
 
   return {
-    openAlertsByKind: byKind.map((k) => ({ kind: alertKindWords(k.kind), open: k.open, acknowledged: k.acknowledged, critical: k.critical })),
+    openAlertsByKind: byKind.map((k) => ({
+      kind: alertKindWords(k.kind),
+      open: k.open,
+      acknowledged: k.acknowledged,
+      critical: k.critical,
+    })),
     lotsOnHold: onHold.map((l) => ({
       title: `Lot ${l.supplierLot} of ${l.material}`,
       detail: `received ${formatDateTime(l.receivedAt, zone)}, waiting ${formatDuration(now.getTime() - l.receivedAt.getTime())}.`,

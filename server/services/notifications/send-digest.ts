@@ -15,11 +15,22 @@ import { queueDigests } from './digest';
 export async function sendDigestsNow(actor: Actor): Promise<DigestRunResult> {
   requirePermission(actor, 'notifications.sendDigest');
   const run = await queueDigests();
-  await recordAudit(db, { actorId: actor.id, action: 'notifications.digest', entityType: 'digest', entityId: run.plantDate, after: { queued: run.queued } });
+  await recordAudit(db, {
+    actorId: actor.id,
+    action: 'notifications.digest',
+    entityType: 'digest',
+    entityId: run.plantDate,
+    after: { queued: run.queued },
+  });
   if (run.ids.length) await drainOutbox({ only: run.ids });
   // This request's round or the process's worker (woken by the queueing) may have sent them.
   const delivered = run.ids.length
-    ? (await db.select({ n: count() }).from(outgoingEmails).where(and(inArray(outgoingEmails.id, run.ids), eq(outgoingEmails.status, 'sent'))))[0].n
+    ? (
+        await db
+          .select({ n: count() })
+          .from(outgoingEmails)
+          .where(and(inArray(outgoingEmails.id, run.ids), eq(outgoingEmails.status, 'sent')))
+      )[0].n
     : 0;
   return { sent: run.queued, plantDate: run.plantDate, delivered };
 }

@@ -33,21 +33,27 @@ function present(user: { id: string; name: string; email: string; roles: Role[] 
     user: { id: user.id, name: user.name, email: user.email, roles: user.roles },
     kinds: modes,
     defaults: defaultModes(user.roles),
-    chosen: Object.fromEntries(Object.entries(choices.modes).filter(([k]) => (ALERT_KINDS as readonly string[]).includes(k))) as Partial<Record<AlertKind, NotificationMode>>,
+    chosen: Object.fromEntries(Object.entries(choices.modes).filter(([k]) => (ALERT_KINDS as readonly string[]).includes(k))) as Partial<
+      Record<AlertKind, NotificationMode>
+    >,
     available,
     whenResolved: choices.whenResolved,
   };
 }
 
 async function loadUser(tx: DbOrTx, userId: string) {
-  const [user] = await tx.select({ id: users.id, name: users.name, email: users.email, roles: users.roles }).from(users).where(eq(users.id, userId));
+  const [user] = await tx
+    .select({ id: users.id, name: users.name, email: users.email, roles: users.roles })
+    .from(users)
+    .where(eq(users.id, userId));
   if (!user) throw notFound('That user');
   return user;
 }
 
 /** Only the user themself, or whoever may manage everyone's notifications (admin). */
 function requireSelfOrManager(actor: Actor, userId: string): void {
-  if (actor.id !== userId && !can(actor.roles, 'notifications.manageAll')) throw forbidden('Only an administrator can see or change another person\'s notifications.');
+  if (actor.id !== userId && !can(actor.roles, 'notifications.manageAll'))
+    throw forbidden("Only an administrator can see or change another person's notifications.");
 }
 
 export async function getNotificationSettings(actor: Actor, userId: string): Promise<NotificationSettings> {
@@ -61,14 +67,21 @@ export async function getNotificationSettings(actor: Actor, userId: string): Pro
  * user's roles) and, when given, `whenResolved`. A kind that does not concern the user's roles
  * can only be set to "no e-mail".
  */
-export async function putNotificationSettings(actor: Actor, userId: string, input: NotificationSettingsInput): Promise<NotificationSettings> {
+export async function putNotificationSettings(
+  actor: Actor,
+  userId: string,
+  input: NotificationSettingsInput,
+): Promise<NotificationSettings> {
   requireSelfOrManager(actor, userId);
   return db.transaction(async (tx) => {
     const user = await loadUser(tx, userId);
     const available = kindsFor(user.roles);
     for (const [kind, mode] of Object.entries(input.kinds)) {
       if (mode !== 'none' && !available.includes(kind as AlertKind)) {
-        throw fieldError(`kinds.${kind}`, `does not concern ${actor.id === userId ? 'your' : 'this user\'s'} roles: only "none" can be chosen.`);
+        throw fieldError(
+          `kinds.${kind}`,
+          `does not concern ${actor.id === userId ? 'your' : "this user's"} roles: only "none" can be chosen.`,
+        );
       }
     }
     const [locked] = await tx.select().from(notificationSettings).where(eq(notificationSettings.userId, userId)).for('update');
@@ -77,10 +90,21 @@ export async function putNotificationSettings(actor: Actor, userId: string, inpu
     const now = new Date();
     await tx
       .insert(notificationSettings)
-      .values({ userId, modes: after.modes as Record<string, NotificationMode>, whenResolved: after.whenResolved, updatedAt: now, updatedBy: actor.id })
+      .values({
+        userId,
+        modes: after.modes as Record<string, NotificationMode>,
+        whenResolved: after.whenResolved,
+        updatedAt: now,
+        updatedBy: actor.id,
+      })
       .onConflictDoUpdate({
         target: notificationSettings.userId,
-        set: { modes: after.modes as Record<string, NotificationMode>, whenResolved: after.whenResolved, updatedAt: now, updatedBy: actor.id },
+        set: {
+          modes: after.modes as Record<string, NotificationMode>,
+          whenResolved: after.whenResolved,
+          updatedAt: now,
+          updatedBy: actor.id,
+        },
       });
     await recordAudit(tx, {
       actorId: actor.id,

@@ -39,11 +39,19 @@ export async function describeSubject(tx: DbOrTx, a: AlertSubjectRef): Promise<S
         .innerJoin(materials, eq(materials.id, lots.materialId))
         .where(eq(containers.id, a.subjectId));
       if (!row) return { words: `container ${str(data.containerCode) ?? ''}`.trim(), path: null, label: '' };
-      return { words: `container ${row.code} of ${row.material}, lot ${row.supplierLot}`, path: `/lots/${row.lotId}`, label: 'Open its lot' };
+      return {
+        words: `container ${row.code} of ${row.material}, lot ${row.supplierLot}`,
+        path: `/lots/${row.lotId}`,
+        label: 'Open its lot',
+      };
     }
     case 'material': {
       const [row] = await tx.select({ code: materials.code, name: materials.name }).from(materials).where(eq(materials.id, a.subjectId));
-      return { words: row ? `${row.name} (${row.code})` : 'a material', path: `/lots?materialId=${a.subjectId}`, label: 'Lots of this material' };
+      return {
+        words: row ? `${row.name} (${row.code})` : 'a material',
+        path: `/lots?materialId=${a.subjectId}`,
+        label: 'Lots of this material',
+      };
     }
     case 'step_run': {
       const [row] = await tx

@@ -8,7 +8,12 @@ import { readSetting } from '../settings';
 
 const OVERRIDE_KEY = 'baselineOverride';
 
-interface OverrideJson { rate: number; reason: string; by: string; at: string }
+interface OverrideJson {
+  rate: number;
+  reason: string;
+  by: string;
+  at: string;
+}
 
 /**
  * The plant's baseline failure rate at final test, which lots are judged against: a quality
@@ -33,7 +38,8 @@ export async function plantBaseline(tx: DbOrTx = db, now = new Date()): Promise<
   const [row] = await tx.select({ value: settings.value }).from(settings).where(eq(settings.key, OVERRIDE_KEY));
   const override = (row?.value ?? null) as OverrideJson | null;
   const base = { tested: counts.tested, failed: counts.failed, from: from.toISOString(), to: now.toISOString() };
-  if (override && typeof override.rate === 'number') return { ...base, rate: override.rate, overridden: true, override, source: 'override' };
+  if (override && typeof override.rate === 'number')
+    return { ...base, rate: override.rate, overridden: true, override, source: 'override' };
   if (counts.tested >= minTested && counts.failed > 0) {
     return { ...base, rate: counts.failed / counts.tested, overridden: false, override: null, source: 'window' };
   }

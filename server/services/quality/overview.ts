@@ -17,7 +17,13 @@ function period(query: QualityOverviewQuery, now: Date) {
   const today = DateTime.fromJSDate(now, { zone }).startOf('day');
   const to = query.to ? DateTime.fromISO(query.to, { zone }) : today;
   const from = query.from ? DateTime.fromISO(query.from, { zone }) : to.minus({ weeks: DEFAULT_WEEKS }).plus({ days: 1 });
-  return { fromDate: from.toISODate()!, toDate: to.toISODate()!, start: from.toJSDate(), end: to.plus({ days: 1 }).toJSDate(), days: Math.max(1, Math.ceil(today.diff(from, 'days').days) + 1) };
+  return {
+    fromDate: from.toISODate()!,
+    toDate: to.toISODate()!,
+    start: from.toJSDate(),
+    end: to.plus({ days: 1 }).toJSDate(),
+    days: Math.max(1, Math.ceil(today.diff(from, 'days').days) + 1),
+  };
 }
 
 /**
@@ -67,7 +73,10 @@ export async function qualityOverview(actor: Actor, query: QualityOverviewQuery,
       GROUP BY t.defect_code, dc.description`)
   ).rows;
   const descriptions = new Map(defects.map((d) => [d.code, d.description ?? d.code]));
-  const paretoBars = pareto(defects.map((d) => ({ defectCode: d.code, count: d.count }))).map((b) => ({ ...b, description: descriptions.get(b.defectCode) ?? b.defectCode }));
+  const paretoBars = pareto(defects.map((d) => ({ defectCode: d.code, count: d.count }))).map((b) => ({
+    ...b,
+    description: descriptions.get(b.defectCode) ?? b.defectCode,
+  }));
 
   // First-pass yield: each driver counted in the plant week of its first final test.
   const fpyRows = (
@@ -132,8 +141,22 @@ export async function qualityOverview(actor: Actor, query: QualityOverviewQuery,
       passedFirstTime: r.passed,
       fpy: firstPassYield(r.built, r.passed),
     })),
-    shortCures: shortCures.map((r) => ({ stepRunId: r.id, batchId: r.batch_id, batchCode: r.batch_code, step: r.step, startedAt: iso(r.started_at), deviation: r.reason })),
-    openDeviations: deviations.map((r) => ({ id: r.id, kind: r.kind, batchCode: r.batch_code, reason: r.reason, signedBy: r.signed_by, signedAt: iso(r.signed_at) })),
+    shortCures: shortCures.map((r) => ({
+      stepRunId: r.id,
+      batchId: r.batch_id,
+      batchCode: r.batch_code,
+      step: r.step,
+      startedAt: iso(r.started_at),
+      deviation: r.reason,
+    })),
+    openDeviations: deviations.map((r) => ({
+      id: r.id,
+      kind: r.kind,
+      batchCode: r.batch_code,
+      reason: r.reason,
+      signedBy: r.signed_by,
+      signedAt: iso(r.signed_at),
+    })),
     lotsAwaitingInspection: onHold.map((r) => ({
       lotId: r.id,
       supplierLot: r.supplier_lot,

@@ -42,8 +42,23 @@ export async function recordReadings(actor: Actor, items: ReadingInput[]): Promi
     recordedBy: actor.id,
     createdAt,
   }));
-  const input = JSON.stringify(out.map((r) => ({ id: r.id, area: r.area, station_id: r.stationId, at: r.at, temp_c: r.tempC, rh_pct: r.rhPct, irradiance: r.irradianceMWcm2, source: r.source, audit_after: r })));
-  await runNamed(db, 'readings_record', sql`
+  const input = JSON.stringify(
+    out.map((r) => ({
+      id: r.id,
+      area: r.area,
+      station_id: r.stationId,
+      at: r.at,
+      temp_c: r.tempC,
+      rh_pct: r.rhPct,
+      irradiance: r.irradianceMWcm2,
+      source: r.source,
+      audit_after: r,
+    })),
+  );
+  await runNamed(
+    db,
+    'readings_record',
+    sql`
     WITH input AS (
       SELECT * FROM json_to_recordset(${input}::json)
         AS t(id uuid, area text, station_id uuid, at timestamptz, temp_c numeric, rh_pct numeric, irradiance numeric, source text, audit_after jsonb)
@@ -55,7 +70,8 @@ export async function recordReadings(actor: Actor, items: ReadingInput[]): Promi
     )
     INSERT INTO audit_log (actor_id, action, entity_type, entity_id, after)
     SELECT ${actor.id}::uuid, 'reading.record', 'reading', s.id::text, i.audit_after
-    FROM saved s JOIN input i ON i.id = s.id`);
+    FROM saved s JOIN input i ON i.id = s.id`,
+  );
   return out;
 }
 

@@ -36,9 +36,17 @@ export async function attachCertificate(
         .where(eq(lots.id, lotId))
         .returning();
       await recordAudit(tx, {
-        actorId: actor.id, action: 'lot.certificate', entityType: 'lot', entityId: lotId,
+        actorId: actor.id,
+        action: 'lot.certificate',
+        entityType: 'lot',
+        entityId: lotId,
         before: { certificateId: row.certificateId, certificateExpiresOn: row.certificateExpiresOn },
-        after: { certificateId: attachment.id, certificateExpiresOn: updated.certificateExpiresOn, filename: attachment.filename, sha256: attachment.sha256 },
+        after: {
+          certificateId: attachment.id,
+          certificateExpiresOn: updated.certificateExpiresOn,
+          filename: attachment.filename,
+          sha256: attachment.sha256,
+        },
       });
       return { attachment: toAttachment(attachment), lot: toLot(updated, material) };
     }),

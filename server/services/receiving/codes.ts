@@ -23,7 +23,9 @@ export async function newContainerCodes(tx: Tx, count: number): Promise<string[]
       const code = randomContainerCode();
       if (!codes.has(code) && !fresh.includes(code)) fresh.push(code);
     }
-    const taken = new Set((await tx.select({ code: containers.code }).from(containers).where(inArray(containers.code, fresh))).map((r) => r.code));
+    const taken = new Set(
+      (await tx.select({ code: containers.code }).from(containers).where(inArray(containers.code, fresh))).map((r) => r.code),
+    );
     for (const code of fresh) if (!taken.has(code)) codes.add(code);
   }
   return [...codes];

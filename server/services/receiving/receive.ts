@@ -13,14 +13,18 @@ import { plantDate } from '../../plant-time';
 async function loadMaterial(tx: Tx, id: string): Promise<MaterialRow> {
   const [m] = await tx.select().from(materials).where(eq(materials.id, id));
   if (!m) throw fieldError('materialId', 'is not a material in the catalogue');
-  if (!m.active) throw conflict('MATERIAL_RETIRED', `${m.code} ${m.name} is retired in the catalogue; new lots of it cannot be received.`, { materialId: id });
+  if (!m.active)
+    throw conflict('MATERIAL_RETIRED', `${m.code} ${m.name} is retired in the catalogue; new lots of it cannot be received.`, {
+      materialId: id,
+    });
   return m;
 }
 
 async function loadSupplier(tx: Tx, id: string) {
   const [s] = await tx.select().from(suppliers).where(eq(suppliers.id, id));
   if (!s) throw fieldError('supplierId', 'is not a supplier on file');
-  if (!s.active) throw conflict('SUPPLIER_RETIRED', `${s.name} is retired; new lots from this supplier cannot be received.`, { supplierId: id });
+  if (!s.active)
+    throw conflict('SUPPLIER_RETIRED', `${s.name} is retired; new lots from this supplier cannot be received.`, { supplierId: id });
   return s;
 }
 
@@ -28,8 +32,12 @@ async function loadSupplier(tx: Tx, id: string) {
 async function findDuplicates(tx: Tx, materialId: string, supplierLot: string): Promise<DuplicateLotDetails | null> {
   const rows = await tx
     .select({
-      id: lots.id, supplierLot: lots.supplierLot, supplierId: lots.supplierId, supplierName: suppliers.name,
-      receivedAt: lots.receivedAt, status: lots.status,
+      id: lots.id,
+      supplierLot: lots.supplierLot,
+      supplierId: lots.supplierId,
+      supplierName: suppliers.name,
+      receivedAt: lots.receivedAt,
+      status: lots.status,
       containerCount: sql<number>`(SELECT count(*)::int FROM ${containers} WHERE ${containers.lotId} = ${lots.id})`,
     })
     .from(lots)
@@ -54,14 +62,20 @@ export async function receiveLot(actor: Actor, input: ReceiveLotValues): Promise
     const material = await loadMaterial(tx, input.materialId);
     await loadSupplier(tx, input.supplierId);
     if (input.gtin && material.gtin && input.gtin !== material.gtin) {
-      throw conflict('WRONG_MATERIAL', `The GTIN ${input.gtin} is not the GTIN of ${material.code} ${material.name} (${material.gtin}); check that the right material is chosen.`, [
-        { field: 'gtin', message: `does not match the material's GTIN ${material.gtin}` },
-      ]);
+      throw conflict(
+        'WRONG_MATERIAL',
+        `The GTIN ${input.gtin} is not the GTIN of ${material.code} ${material.name} (${material.gtin}); check that the right material is chosen.`,
+        [{ field: 'gtin', message: `does not match the material's GTIN ${material.gtin}` }],
+      );
     }
     const duplicates = await findDuplicates(tx, material.id, input.supplierLot);
     if (duplicates && !input.confirmDuplicate) {
       const when = plantDate(duplicates.existingLot.receivedAt);
-      throw conflict('DUPLICATE_LOT', `Supplier lot ${input.supplierLot} of ${material.code} was already received on ${when}. If this really is another delivery of the same lot, confirm to receive it again.`, duplicates);
+      throw conflict(
+        'DUPLICATE_LOT',
+        `Supplier lot ${input.supplierLot} of ${material.code} was already received on ${when}. If this really is another delivery of the same lot, confirm to receive it again.`,
+        duplicates,
+      );
     }
     const status = material.requiresInspection ? 'on_hold' : 'released';
     const [lot] = await tx

@@ -5,7 +5,6 @@ import { GS1_SYMBOLOGY_IDS, splitSymbologyId } from '../../../shared/gs1';
 import { resolvers } from './resolvers';
 import type { ScanContext } from './types';
 
-
 const STX = 0x02;
 const ETX = 0x03;
 const GS = 0x1d;

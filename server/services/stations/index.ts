@@ -67,13 +67,23 @@ export async function updateStation(actor: Actor, id: string, patch: StationPatc
   return db.transaction(async (tx) => {
     const before = await findStation(tx, id, true);
     if (patch.code && patch.code !== before.code) {
-      const [clash] = await tx.select({ id: stations.id }).from(stations).where(and(eq(stations.code, patch.code), ne(stations.id, id)));
+      const [clash] = await tx
+        .select({ id: stations.id })
+        .from(stations)
+        .where(and(eq(stations.code, patch.code), ne(stations.id, id)));
       if (clash) throw duplicateCode(patch.code);
     }
     const [row] = await tx.update(stations).set(patch).where(eq(stations.id, id)).returning();
     if (patch.active === false) await unloadEverything(tx, actor, id);
     const after = toStation(row);
-    await recordAudit(tx, { actorId: actor.id, action: 'station.update', entityType: 'station', entityId: id, before: toStation(before), after });
+    await recordAudit(tx, {
+      actorId: actor.id,
+      action: 'station.update',
+      entityType: 'station',
+      entityId: id,
+      before: toStation(before),
+      after,
+    });
     return after;
   });
 }
@@ -87,7 +97,14 @@ export async function retireStation(actor: Actor, id: string): Promise<Station> 
     const [row] = await tx.update(stations).set({ active: false }).where(eq(stations.id, id)).returning();
     await unloadEverything(tx, actor, id);
     const after = toStation(row);
-    await recordAudit(tx, { actorId: actor.id, action: 'station.retire', entityType: 'station', entityId: id, before: toStation(before), after });
+    await recordAudit(tx, {
+      actorId: actor.id,
+      action: 'station.retire',
+      entityType: 'station',
+      entityId: id,
+      before: toStation(before),
+      after,
+    });
     return after;
   });
 }

@@ -29,11 +29,21 @@ interface Source {
 }
 
 async function sourcesOf(tx: Tx, runId: string, now: Date): Promise<Source[]> {
-  const rows = await tx.select().from(stepRunMaterials).where(eq(stepRunMaterials.stepRunId, runId)).orderBy(asc(stepRunMaterials.loadedAt));
+  const rows = await tx
+    .select()
+    .from(stepRunMaterials)
+    .where(eq(stepRunMaterials.stepRunId, runId))
+    .orderBy(asc(stepRunMaterials.loadedAt));
   const containerIds = [...new Set(rows.flatMap((r) => (r.containerId ? [r.containerId] : [])))].sort();
   const mixIds = [...new Set(rows.flatMap((r) => (r.mixId ? [r.mixId] : [])))].sort();
   // Lock in a fixed order: containers by id, then mixes by id.
-  if (containerIds.length) await tx.select({ id: containers.id }).from(containers).where(inArray(containers.id, containerIds)).orderBy(asc(containers.id)).for('update');
+  if (containerIds.length)
+    await tx
+      .select({ id: containers.id })
+      .from(containers)
+      .where(inArray(containers.id, containerIds))
+      .orderBy(asc(containers.id))
+      .for('update');
   if (mixIds.length) await tx.select({ id: mixes.id }).from(mixes).where(inArray(mixes.id, mixIds)).orderBy(asc(mixes.id)).for('update');
   const cs = await containersByIds(tx, containerIds);
   const ms = await mixesByIds(tx, mixIds);
@@ -46,14 +56,26 @@ async function sourcesOf(tx: Tx, runId: string, now: Date): Promise<Source[]> {
     if (r.containerId) {
       const c = cs.get(r.containerId)!;
       out.push({
-        runMaterialId: r.id, kind: 'container', id: c.container.id, code: c.container.code, materialIds: [c.material.id],
-        expiry: expiryOfContainer(c.container, c.lot, c.material, now).at, receivedAt: c.lot.receivedAt.toISOString(), seq: c.container.seq,
+        runMaterialId: r.id,
+        kind: 'container',
+        id: c.container.id,
+        code: c.container.code,
+        materialIds: [c.material.id],
+        expiry: expiryOfContainer(c.container, c.lot, c.material, now).at,
+        receivedAt: c.lot.receivedAt.toISOString(),
+        seq: c.container.seq,
       });
     } else {
       const m = ms.get(r.mixId!)!;
       out.push({
-        runMaterialId: r.id, kind: 'mix', id: m.mix.id, code: m.mix.code, materialIds: [m.resin.material.id, m.hardener.material.id],
-        expiry: expiryOfMix(m.mix, [m.resin, m.hardener]).at, receivedAt: m.mix.mixedAt.toISOString(), seq: 0,
+        runMaterialId: r.id,
+        kind: 'mix',
+        id: m.mix.id,
+        code: m.mix.code,
+        materialIds: [m.resin.material.id, m.hardener.material.id],
+        expiry: expiryOfMix(m.mix, [m.resin, m.hardener]).at,
+        receivedAt: m.mix.mixedAt.toISOString(),
+        seq: 0,
       });
     }
   }
@@ -81,11 +103,18 @@ async function draw(tx: Tx, actor: Actor, s: Source, amount: number, now: Date):
       .returning({ remaining: containers.remaining, status: containers.status, lotId: containers.lotId });
     if (!row) throw conflict('INSUFFICIENT_STOCK', `Container ${s.code} no longer holds ${qty}; load more and finish again.`);
     await recordAudit(tx, {
-      actorId: actor.id, action: 'container.consume', entityType: 'container', entityId: s.id,
-      before: { remaining: fromMilli(milli(row.remaining) + amount) }, after: { remaining: row.remaining, status: row.status },
+      actorId: actor.id,
+      action: 'container.consume',
+      entityType: 'container',
+      entityId: s.id,
+      before: { remaining: fromMilli(milli(row.remaining) + amount) },
+      after: { remaining: row.remaining, status: row.status },
     });
     if (row.status === 'empty') {
-      await tx.update(stationLoads).set({ unloadedAt: now }).where(and(eq(stationLoads.containerId, s.id), isNull(stationLoads.unloadedAt)));
+      await tx
+        .update(stationLoads)
+        .set({ unloadedAt: now })
+        .where(and(eq(stationLoads.containerId, s.id), isNull(stationLoads.unloadedAt)));
       await markLotUsedUp(tx, actor, row.lotId);
     }
   } else {
@@ -99,11 +128,18 @@ async function draw(tx: Tx, actor: Actor, s: Source, amount: number, now: Date):
       .returning({ remaining: mixes.remaining, status: mixes.status });
     if (!row) throw conflict('INSUFFICIENT_STOCK', `Mix ${s.code} no longer holds ${qty}; mix more and finish again.`);
     await recordAudit(tx, {
-      actorId: actor.id, action: 'mix.consume', entityType: 'mix', entityId: s.id,
-      before: { remaining: fromMilli(milli(row.remaining) + amount) }, after: { remaining: row.remaining, status: row.status },
+      actorId: actor.id,
+      action: 'mix.consume',
+      entityType: 'mix',
+      entityId: s.id,
+      before: { remaining: fromMilli(milli(row.remaining) + amount) },
+      after: { remaining: row.remaining, status: row.status },
     });
     if (row.status === 'used_up') {
-      await tx.update(stationLoads).set({ unloadedAt: now }).where(and(eq(stationLoads.mixId, s.id), isNull(stationLoads.unloadedAt)));
+      await tx
+        .update(stationLoads)
+        .set({ unloadedAt: now })
+        .where(and(eq(stationLoads.mixId, s.id), isNull(stationLoads.unloadedAt)));
     }
   }
 }
@@ -116,18 +152,48 @@ async function markLotUsedUp(tx: Tx, actor: Actor, lotId: string): Promise<void>
     .where(and(eq(containers.lotId, lotId), notInArray(containers.status, ['empty', 'scrapped'])))
     .limit(1);
   if (left) return;
-  const [lot] = await tx.update(lots).set({ status: 'used_up' }).where(and(eq(lots.id, lotId), eq(lots.status, 'released'))).returning({ id: lots.id });
+  const [lot] = await tx
+    .update(lots)
+    .set({ status: 'used_up' })
+    .where(and(eq(lots.id, lotId), eq(lots.status, 'released')))
+    .returning({ id: lots.id });
   if (lot) {
-    await recordAudit(tx, { actorId: actor.id, action: 'lot.status', entityType: 'lot', entityId: lotId, before: { status: 'released' }, after: { status: 'used_up' }, reason: 'every container empty' });
+    await recordAudit(tx, {
+      actorId: actor.id,
+      action: 'lot.status',
+      entityType: 'lot',
+      entityId: lotId,
+      before: { status: 'released' },
+      after: { status: 'used_up' },
+      reason: 'every container empty',
+    });
   }
 }
 
 /** Draws the step's recipe for `units` units; returns nothing, throws INSUFFICIENT_STOCK / MATERIAL_NOT_LOADED. */
-export async function consumeForRun(tx: Tx, actor: Actor, runId: string, step: RecipeStep, units: number, batchCode: string, now: Date): Promise<void> {
+export async function consumeForRun(
+  tx: Tx,
+  actor: Actor,
+  runId: string,
+  step: RecipeStep,
+  units: number,
+  batchCode: string,
+  now: Date,
+): Promise<void> {
   const sources = await sourcesOf(tx, runId, now);
   const names = new Map(
     step.materials.length
-      ? (await tx.select({ id: materials.id, name: materials.name, unit: materials.unit }).from(materials).where(inArray(materials.id, step.materials.map((m) => m.materialId)))).map((m) => [m.id, m])
+      ? (
+          await tx
+            .select({ id: materials.id, name: materials.name, unit: materials.unit })
+            .from(materials)
+            .where(
+              inArray(
+                materials.id,
+                step.materials.map((m) => m.materialId),
+              ),
+            )
+        ).map((m) => [m.id, m])
       : [],
   );
   for (const line of step.materials) {
@@ -135,7 +201,11 @@ export async function consumeForRun(tx: Tx, actor: Actor, runId: string, step: R
     const need = milli(line.amountPerUnit * units);
     const candidates = fefoOrder(sources.filter((s) => s.materialIds.includes(line.materialId)));
     if (candidates.length === 0) {
-      throw conflict('MATERIAL_NOT_LOADED', `Nothing of ${mat.name} is loaded for batch ${batchCode} at this station; step "${step.name}" needs ${fromMilli(need)} ${mat.unit}. Load it and finish again.`, { materialId: line.materialId });
+      throw conflict(
+        'MATERIAL_NOT_LOADED',
+        `Nothing of ${mat.name} is loaded for batch ${batchCode} at this station; step "${step.name}" needs ${fromMilli(need)} ${mat.unit}. Load it and finish again.`,
+        { materialId: line.materialId },
+      );
     }
     const plan: [Source, number][] = [];
     let left = need;

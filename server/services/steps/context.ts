@@ -36,7 +36,10 @@ export async function stepContext(tx: Tx, input: StepActionRequest): Promise<Ste
   checkBatchOpen(batch, Boolean(input.serial));
   const progress = await batchProgress(tx, batch);
   const step = progress.steps.find((s) => s.id === input.stepId);
-  if (!step) throw new AppError('NOT_FOUND', `That step is not in the recipe of batch ${batch.code}.`, 404, [{ field: 'stepId', message: 'is not a step of this batch' }]);
+  if (!step)
+    throw new AppError('NOT_FOUND', `That step is not in the recipe of batch ${batch.code}.`, 404, [
+      { field: 'stepId', message: 'is not a step of this batch' },
+    ]);
   if (station.kind !== step.stationKind) {
     throw conflict(
       'WRONG_STATION',
@@ -47,7 +50,8 @@ export async function stepContext(tx: Tx, input: StepActionRequest): Promise<Ste
   let driver: StepContext['driver'] = null;
   if (input.serial) {
     [driver] = await tx.select().from(drivers).where(eq(drivers.serial, input.serial));
-    if (!driver) throw new AppError('NOT_FOUND', `No driver has the serial "${input.serial}".`, 404, [{ field: 'serial', message: 'is not known' }]);
+    if (!driver)
+      throw new AppError('NOT_FOUND', `No driver has the serial "${input.serial}".`, 404, [{ field: 'serial', message: 'is not known' }]);
     if (driver.batchId !== batch.id) {
       throw conflict('WRONG_BATCH', `Driver ${driver.serial} belongs to another batch, not ${batch.code}. Scan the driver's own batch.`);
     }

@@ -12,12 +12,18 @@ const iso = (d: Date | null) => d?.toISOString() ?? null;
 export async function describeRuns(tx: DbOrTx, runs: StepRunRow[]): Promise<StepRun[]> {
   if (runs.length === 0) return [];
   const ids = runs.map((r) => r.id);
-  const mats = await tx.select().from(stepRunMaterials).where(inArray(stepRunMaterials.stepRunId, ids)).orderBy(asc(stepRunMaterials.loadedAt));
+  const mats = await tx
+    .select()
+    .from(stepRunMaterials)
+    .where(inArray(stepRunMaterials.stepRunId, ids))
+    .orderBy(asc(stepRunMaterials.loadedAt));
   const driverIds = [...new Set(runs.flatMap((r) => (r.driverId ? [r.driverId] : [])))];
   const [cs, ms, ds] = await Promise.all([
     containersByIds(tx, [...new Set(mats.flatMap((m) => (m.containerId ? [m.containerId] : [])))]),
     mixesByIds(tx, [...new Set(mats.flatMap((m) => (m.mixId ? [m.mixId] : [])))]),
-    driverIds.length ? tx.select({ id: drivers.id, serial: drivers.serial }).from(drivers).where(inArray(drivers.id, driverIds)) : Promise.resolve([]),
+    driverIds.length
+      ? tx.select({ id: drivers.id, serial: drivers.serial }).from(drivers).where(inArray(drivers.id, driverIds))
+      : Promise.resolve([]),
   ]);
   const serial = new Map(ds.map((d) => [d.id, d.serial]));
   const material = (m: typeof stepRunMaterials.$inferSelect): StepRunMaterial => {

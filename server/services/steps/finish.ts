@@ -34,7 +34,9 @@ export async function finishStep(
       throw conflict('STEP_NOT_STARTED', `Step "${ctx.step.name}" is not running for ${who}; start it first.`);
     }
     if (run.stationId !== ctx.station.id) {
-      throw conflict('WRONG_STATION', `Step "${ctx.step.name}" was started at another station; finish it there.`, { stationId: run.stationId });
+      throw conflict('WRONG_STATION', `Step "${ctx.step.name}" was started at another station; finish it there.`, {
+        stationId: run.stationId,
+      });
     }
     if (now < run.startedAt) throw conflict('CLOCK_BEHIND', 'The finish time is before the start time; check the station clock.');
 
@@ -47,7 +49,13 @@ export async function finishStep(
     const missing = loads.filter((l) => !known.some((k) => (l.containerId ? k.containerId === l.containerId : k.mixId === l.mixId)));
     if (missing.length) {
       await tx.insert(stepRunMaterials).values(
-        missing.map((l) => ({ stepRunId: run.id, containerId: l.containerId, mixId: l.mixId, loadedAt: l.loadedAt, loadedBy: l.loadedBy })),
+        missing.map((l) => ({
+          stepRunId: run.id,
+          containerId: l.containerId,
+          mixId: l.mixId,
+          loadedAt: l.loadedAt,
+          loadedBy: l.loadedBy,
+        })),
       );
     }
 
@@ -81,7 +89,14 @@ export async function finishStep(
   });
 }
 
-interface UvRecord { exposureSeconds: number; irradianceMWcm2: number; irradianceAt: string; doseMJcm2: number; neededMJcm2: number; deviationId: string | null }
+interface UvRecord {
+  exposureSeconds: number;
+  irradianceMWcm2: number;
+  irradianceAt: string;
+  doseMJcm2: number;
+  neededMJcm2: number;
+  deviationId: string | null;
+}
 
 /**
  * A UV-curing adhesive is cured by its dose (shared/cure-methods.ts): irradiance from the
@@ -90,12 +105,18 @@ interface UvRecord { exposureSeconds: number; irradianceMWcm2: number; irradianc
  * unless quality signed an unused 'uv_dose_low' deviation for this batch and step.
  */
 async function uvDoseCheck(
-  tx: Tx, actor: Actor, ctx: Awaited<ReturnType<typeof stepContext>>, runId: string, exposureSeconds: number | undefined, now: Date,
+  tx: Tx,
+  actor: Actor,
+  ctx: Awaited<ReturnType<typeof stepContext>>,
+  runId: string,
+  exposureSeconds: number | undefined,
+  now: Date,
 ): Promise<UvRecord | null> {
   const profiles = ((await profilesForRuns(tx, [runId])).get(runId) ?? []) as (CureProfile & MethodCureProfile)[];
   const uvProfiles = profiles.filter((p) => p.method === 'uv' && typeof p.uvDoseMJcm2 === 'number');
   if (uvProfiles.length === 0) return null;
-  if (exposureSeconds === undefined) throw fieldError('exposureSeconds', 'is required: the adhesive of this step cures under UV light, by dose');
+  if (exposureSeconds === undefined)
+    throw fieldError('exposureSeconds', 'is required: the adhesive of this step cures under UV light, by dose');
   const needed = Math.max(...uvProfiles.map((p) => p.uvDoseMJcm2 as number));
   const [lamp] = await tx
     .select({ at: readings.at, irr: readings.irradianceMWcm2 })
@@ -106,14 +127,26 @@ async function uvDoseCheck(
   const irradiance = lamp ? Number(lamp.irr) : 0;
   const dose = uvDose(irradiance, exposureSeconds);
   const record: UvRecord = {
-    exposureSeconds, irradianceMWcm2: irradiance, irradianceAt: lamp ? lamp.at.toISOString() : '', doseMJcm2: dose, neededMJcm2: needed, deviationId: null,
+    exposureSeconds,
+    irradianceMWcm2: irradiance,
+    irradianceAt: lamp ? lamp.at.toISOString() : '',
+    doseMJcm2: dose,
+    neededMJcm2: needed,
+    deviationId: null,
   };
   if (lamp && dose >= needed) return record;
 
   const [deviation] = await tx
     .select()
     .from(deviations)
-    .where(and(eq(deviations.batchId, ctx.batch.id), eq(deviations.stepId, ctx.step.id), eq(deviations.kind, 'uv_dose_low'), isNull(deviations.usedAt)))
+    .where(
+      and(
+        eq(deviations.batchId, ctx.batch.id),
+        eq(deviations.stepId, ctx.step.id),
+        eq(deviations.kind, 'uv_dose_low'),
+        isNull(deviations.usedAt),
+      ),
+    )
     .orderBy(asc(deviations.signedAt))
     .limit(1)
     .for('update');
@@ -129,8 +162,12 @@ async function uvDoseCheck(
   }
   await tx.update(deviations).set({ usedAt: now }).where(eq(deviations.id, deviation.id));
   await recordAudit(tx, {
-    actorId: actor.id, action: 'deviation.use', entityType: 'deviation', entityId: deviation.id,
-    before: { usedAt: null }, after: { usedAt: now.toISOString(), doseMJcm2: dose, neededMJcm2: needed },
+    actorId: actor.id,
+    action: 'deviation.use',
+    entityType: 'deviation',
+    entityId: deviation.id,
+    before: { usedAt: null },
+    after: { usedAt: now.toISOString(), doseMJcm2: dose, neededMJcm2: needed },
   });
   return { ...record, deviationId: deviation.id };
 }

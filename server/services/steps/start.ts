@@ -51,12 +51,20 @@ async function cureGate(tx: Tx, ctx: StepContext, now: Date, actor: Actor): Prom
   const prevRun = await runToWaitFor(tx, ctx, prev);
   if (!prevRun) return { shortCure: false, deviationId: null };
   const cure = await recomputeCure(tx, prevRun, now);
-  if (!cure || (cure.cureCompleteAt !== null && Date.parse(cure.cureCompleteAt) <= now.getTime())) return { shortCure: false, deviationId: null };
+  if (!cure || (cure.cureCompleteAt !== null && Date.parse(cure.cureCompleteAt) <= now.getTime()))
+    return { shortCure: false, deviationId: null };
 
   const [deviation] = await tx
     .select()
     .from(deviations)
-    .where(and(eq(deviations.batchId, ctx.batch.id), eq(deviations.stepId, ctx.step.id), eq(deviations.kind, 'early_start'), isNull(deviations.usedAt)))
+    .where(
+      and(
+        eq(deviations.batchId, ctx.batch.id),
+        eq(deviations.stepId, ctx.step.id),
+        eq(deviations.kind, 'early_start'),
+        isNull(deviations.usedAt),
+      ),
+    )
     .orderBy(asc(deviations.signedAt))
     .limit(1)
     .for('update');
@@ -87,8 +95,14 @@ async function loadedNow(tx: Tx, ctx: StepContext, now: Date) {
     .select()
     .from(stationLoads)
     .where(and(eq(stationLoads.stationId, ctx.station.id), eq(stationLoads.batchId, ctx.batch.id), isNull(stationLoads.unloadedAt)));
-  const cs = await containersByIds(tx, loads.flatMap((l) => (l.containerId ? [l.containerId] : [])));
-  const ms = await mixesByIds(tx, loads.flatMap((l) => (l.mixId ? [l.mixId] : [])));
+  const cs = await containersByIds(
+    tx,
+    loads.flatMap((l) => (l.containerId ? [l.containerId] : [])),
+  );
+  const ms = await mixesByIds(
+    tx,
+    loads.flatMap((l) => (l.mixId ? [l.mixId] : [])),
+  );
   for (const c of cs.values()) checkContainerUsable(c.container, c.lot, c.material, now);
   for (const m of ms.values()) checkMixUsable(m.mix, [m.resin, m.hardener], now);
   return loads;
@@ -104,7 +118,10 @@ export async function startStep(actor: Actor, input: StepActionRequest, now: Dat
     const ctx = await stepContext(tx, input);
     checkOrder(ctx);
     if (ctx.driver && (await openRun(tx, ctx))) {
-      throw conflict('STEP_ALREADY_STARTED', `Step "${ctx.step.name}" is already running for driver ${ctx.driver.serial}; finish it instead.`);
+      throw conflict(
+        'STEP_ALREADY_STARTED',
+        `Step "${ctx.step.name}" is already running for driver ${ctx.driver.serial}; finish it instead.`,
+      );
     }
     const gate = await cureGate(tx, ctx, now, actor);
     const loads = await loadedNow(tx, ctx, now);
@@ -124,13 +141,22 @@ export async function startStep(actor: Actor, input: StepActionRequest, now: Dat
       })
       .returning();
     if (loads.length) {
-      await tx.insert(stepRunMaterials).values(
-        loads.map((l) => ({ stepRunId: run.id, containerId: l.containerId, mixId: l.mixId, loadedAt: l.loadedAt, loadedBy: l.loadedBy })),
-      );
+      await tx
+        .insert(stepRunMaterials)
+        .values(
+          loads.map((l) => ({ stepRunId: run.id, containerId: l.containerId, mixId: l.mixId, loadedAt: l.loadedAt, loadedBy: l.loadedBy })),
+        );
     }
     if (ctx.batch.status === 'open') {
       await tx.update(buildBatches).set({ status: 'in_process' }).where(eq(buildBatches.id, ctx.batch.id));
-      await recordAudit(tx, { actorId: actor.id, action: 'batch.status', entityType: 'build_batch', entityId: ctx.batch.id, before: { status: 'open' }, after: { status: 'in_process' } });
+      await recordAudit(tx, {
+        actorId: actor.id,
+        action: 'batch.status',
+        entityType: 'build_batch',
+        entityId: ctx.batch.id,
+        before: { status: 'open' },
+        after: { status: 'in_process' },
+      });
     }
     const stepRun = await describeRun(tx, run.id);
     await recordAudit(tx, {

@@ -11,7 +11,15 @@ import { qty } from '../../../shared/reorder';
 import { simulateFefo, type SimResult } from '../../../shared/stock';
 import {
   OUTLOOK_COLUMNS,
-  type Outlook, type OutlookLot, type SimulateInput, type StockContainer, type StockItem, type StockList, type StockMaterial, type StockQuery, type StockToday,
+  type Outlook,
+  type OutlookLot,
+  type SimulateInput,
+  type StockContainer,
+  type StockItem,
+  type StockList,
+  type StockMaterial,
+  type StockQuery,
+  type StockToday,
 } from '../../../shared/schemas/stock';
 import { PLANT_ZONE } from '../lots/present';
 import { toCsv } from '../trace/csv';
@@ -43,12 +51,18 @@ function matches(i: StockItem, q: StockQuery): boolean {
 /** Sort key; null (never runs out, nothing to order) sorts last in either direction. */
 function sortKey(i: StockItem, sort: StockQuery['sort']): number | string | null {
   switch (sort) {
-    case 'code': return i.code;
-    case 'daysOfCover': return i.daysOfCover;
-    case 'runsOutAt': return i.runsOutAt ? Date.parse(i.runsOutAt) : null;
-    case 'predictedWaste': return i.predictedWaste;
-    case 'orderBy': return i.advice.orderBy ? Date.parse(i.advice.orderBy) : null;
-    case 'usableOnHand': return i.usableOnHand;
+    case 'code':
+      return i.code;
+    case 'daysOfCover':
+      return i.daysOfCover;
+    case 'runsOutAt':
+      return i.runsOutAt ? Date.parse(i.runsOutAt) : null;
+    case 'predictedWaste':
+      return i.predictedWaste;
+    case 'orderBy':
+      return i.advice.orderBy ? Date.parse(i.advice.orderBy) : null;
+    case 'usableOnHand':
+      return i.usableOnHand;
   }
 }
 
@@ -66,24 +80,50 @@ export function sortStock(items: StockItem[], sort: StockQuery['sort'], dir: Sto
 export async function listStock(actor: Actor, query: StockQuery, now = new Date()): Promise<StockList> {
   requirePermission(actor, 'stock.read');
   const { list, settings } = await models(db, now);
-  const items = sortStock(list.map((m) => m.item).filter((i) => matches(i, query)), query.sort, query.dir);
+  const items = sortStock(
+    list.map((m) => m.item).filter((i) => matches(i, query)),
+    query.sort,
+    query.dir,
+  );
   return { items, total: items.length, asOf: now.toISOString(), zone: PLANT_ZONE, settings };
 }
 
 /** The stock table as CSV (RFC 4180): the screen's columns, units in the header, plant time. */
 export function stockCsvBody(list: StockList): string {
   const header = [
-    'Material code', 'Material', 'Unit',
-    'Released (unit)', 'On hold (unit)', 'Quarantined (unit)', 'Reorder point (unit)',
-    'Daily use (unit/day)', 'Daily use from', 'Days of cover (days)', `Runs out (date in ${list.zone})`,
-    'Predicted waste (unit)', 'Advice', 'Order by (date)', 'Order quantity suggested (unit)', 'Pack warning',
+    'Material code',
+    'Material',
+    'Unit',
+    'Released (unit)',
+    'On hold (unit)',
+    'Quarantined (unit)',
+    'Reorder point (unit)',
+    'Daily use (unit/day)',
+    'Daily use from',
+    'Days of cover (days)',
+    `Runs out (date in ${list.zone})`,
+    'Predicted waste (unit)',
+    'Advice',
+    'Order by (date)',
+    'Order quantity suggested (unit)',
+    'Pack warning',
   ];
   const rows = list.items.map((i) => [
-    i.code, i.name, i.unit,
-    qty(i.onHand.released), qty(i.onHand.onHold), qty(i.onHand.quarantined), i.reorderPoint === null ? '' : qty(i.reorderPoint),
-    qty(i.dailyUse), i.dailyUseSource === 'plan' ? 'plan' : 'history',
+    i.code,
+    i.name,
+    i.unit,
+    qty(i.onHand.released),
+    qty(i.onHand.onHold),
+    qty(i.onHand.quarantined),
+    i.reorderPoint === null ? '' : qty(i.reorderPoint),
+    qty(i.dailyUse),
+    i.dailyUseSource === 'plan' ? 'plan' : 'history',
     i.daysOfCover === null ? (i.coverBeyondHorizon ? `more than ${list.settings.horizonDays}` : '') : qty(i.daysOfCover),
-    i.runsOutOn ?? '', qty(i.predictedWaste), i.advice.text, i.advice.orderByDate ?? '', i.advice.quantity === null ? '' : qty(i.advice.quantity),
+    i.runsOutOn ?? '',
+    qty(i.predictedWaste),
+    i.advice.text,
+    i.advice.orderByDate ?? '',
+    i.advice.quantity === null ? '' : qty(i.advice.quantity),
     i.advice.pack?.text ?? '',
   ]);
   return toCsv([header, ...rows]);
@@ -102,16 +142,36 @@ export async function materialStock(actor: Actor, materialId: string, now = new 
   if (!model) throw notFound('The material');
   const orderOf = new Map(model.sim.openOrder.map((idx, pos) => [idx, pos + 1]));
   const counted: StockContainer[] = model.counted.map((c, idx) => ({
-    containerId: c.row.container.id, code: c.row.container.code, lotId: c.row.lot.id, supplierLot: c.row.lot.supplierLot,
-    lotStatus: c.row.lot.status, status: c.row.container.status, remaining: Number(c.row.container.remaining), location: c.row.container.location,
-    useOrder: orderOf.get(idx) ?? null, expiresAt: c.expiryNow.at, counted: true, notCountedReason: null, sim: model.sim.containers[idx],
+    containerId: c.row.container.id,
+    code: c.row.container.code,
+    lotId: c.row.lot.id,
+    supplierLot: c.row.lot.supplierLot,
+    lotStatus: c.row.lot.status,
+    status: c.row.container.status,
+    remaining: Number(c.row.container.remaining),
+    location: c.row.container.location,
+    useOrder: orderOf.get(idx) ?? null,
+    expiresAt: c.expiryNow.at,
+    counted: true,
+    notCountedReason: null,
+    sim: model.sim.containers[idx],
   }));
   // Used ones in the order they are opened, then those that will not be used, by when they end.
   counted.sort((a, b) => (a.useOrder ?? Infinity) - (b.useOrder ?? Infinity) || Date.parse(a.sim!.endedAt) - Date.parse(b.sim!.endedAt));
   const others: StockContainer[] = model.notCounted.map((n) => ({
-    containerId: n.row.container.id, code: n.row.container.code, lotId: n.row.lot.id, supplierLot: n.row.lot.supplierLot,
-    lotStatus: n.row.lot.status, status: n.row.container.status, remaining: Number(n.row.container.remaining), location: n.row.container.location,
-    useOrder: null, expiresAt: n.expiryNow.at, counted: false, notCountedReason: n.reason, sim: null,
+    containerId: n.row.container.id,
+    code: n.row.container.code,
+    lotId: n.row.lot.id,
+    supplierLot: n.row.lot.supplierLot,
+    lotStatus: n.row.lot.status,
+    status: n.row.container.status,
+    remaining: Number(n.row.container.remaining),
+    location: n.row.container.location,
+    useOrder: null,
+    expiresAt: n.expiryNow.at,
+    counted: false,
+    notCountedReason: n.reason,
+    sim: null,
   }));
   return { item: model.item, containers: [...counted, ...others], asOf: now.toISOString(), zone: PLANT_ZONE };
 }
@@ -146,9 +206,18 @@ export async function expiryOutlook(actor: Actor, weeks: number, now = new Date(
       wasted[w] += r.wasted;
       const key = c.row.lot.id;
       const lot = lots.get(key) ?? {
-        lotId: key, supplierLot: c.row.lot.supplierLot, lotStatus: c.row.lot.status, materialId: model.material.id,
-        materialCode: model.material.code, materialName: model.material.name, unit: model.material.unit,
-        expiresAt: r.expiresAt, week: w, quantity: 0, usedBeforeExpiry: 0, predictedWaste: 0,
+        lotId: key,
+        supplierLot: c.row.lot.supplierLot,
+        lotStatus: c.row.lot.status,
+        materialId: model.material.id,
+        materialCode: model.material.code,
+        materialName: model.material.name,
+        unit: model.material.unit,
+        expiresAt: r.expiresAt,
+        week: w,
+        quantity: 0,
+        usedBeforeExpiry: 0,
+        predictedWaste: 0,
       };
       if (t < Date.parse(lot.expiresAt)) Object.assign(lot, { expiresAt: r.expiresAt, week: w });
       lot.quantity += r.used + r.wasted + r.left;
@@ -158,11 +227,23 @@ export async function expiryOutlook(actor: Actor, weeks: number, now = new Date(
     });
     if (used.some((v) => v > 0) || wasted.some((v) => v > 0)) {
       const round = (a: number[]) => a.map((v) => Math.round(v * 1000) / 1000);
-      series.push({ materialId: model.material.id, code: model.material.code, name: model.material.name, unit: model.material.unit, used: round(used), wasted: round(wasted) });
+      series.push({
+        materialId: model.material.id,
+        code: model.material.code,
+        name: model.material.name,
+        unit: model.material.unit,
+        used: round(used),
+        wasted: round(wasted),
+      });
     }
   }
   const lotList = [...lots.values()]
-    .map((l) => ({ ...l, quantity: Math.round(l.quantity * 1000) / 1000, usedBeforeExpiry: Math.round(l.usedBeforeExpiry * 1000) / 1000, predictedWaste: Math.round(l.predictedWaste * 1000) / 1000 }))
+    .map((l) => ({
+      ...l,
+      quantity: Math.round(l.quantity * 1000) / 1000,
+      usedBeforeExpiry: Math.round(l.usedBeforeExpiry * 1000) / 1000,
+      predictedWaste: Math.round(l.predictedWaste * 1000) / 1000,
+    }))
     .sort((a, b) => Date.parse(a.expiresAt) - Date.parse(b.expiresAt) || a.materialCode.localeCompare(b.materialCode));
   return {
     asOf: now.toISOString(),
@@ -173,17 +254,36 @@ export async function expiryOutlook(actor: Actor, weeks: number, now = new Date(
   };
 }
 
-const LOT_STATUS_WORDS: Record<string, string> = { released: 'Released', on_hold: 'On hold', quarantined: 'Quarantined', rejected: 'Rejected', used_up: 'Used up' };
+const LOT_STATUS_WORDS: Record<string, string> = {
+  released: 'Released',
+  on_hold: 'On hold',
+  quarantined: 'Quarantined',
+  rejected: 'Rejected',
+  used_up: 'Used up',
+};
 
 export function outlookCsvBody(o: Outlook): string {
   const labels: Record<(typeof OUTLOOK_COLUMNS)[number]['key'], string> = {
-    week: 'Week of (date)', expiresAt: `Expires (${o.zone})`, material: 'Material', supplierLot: 'Supplier lot', lotStatus: 'Lot status',
-    quantity: 'Expiring (unit)', usedBeforeExpiry: 'Used before expiry (unit)', predictedWaste: 'Predicted waste (unit)',
+    week: 'Week of (date)',
+    expiresAt: `Expires (${o.zone})`,
+    material: 'Material',
+    supplierLot: 'Supplier lot',
+    lotStatus: 'Lot status',
+    quantity: 'Expiring (unit)',
+    usedBeforeExpiry: 'Used before expiry (unit)',
+    predictedWaste: 'Predicted waste (unit)',
   };
   const header = [...OUTLOOK_COLUMNS.map((c) => labels[c.key]), 'Unit'];
   const rows = o.lots.map((l) => [
-    o.weeks[l.week].start, formatDateTime(l.expiresAt, o.zone), `${l.materialCode} ${l.materialName}`, l.supplierLot,
-    LOT_STATUS_WORDS[l.lotStatus] ?? l.lotStatus, qty(l.quantity), qty(l.usedBeforeExpiry), qty(l.predictedWaste), l.unit,
+    o.weeks[l.week].start,
+    formatDateTime(l.expiresAt, o.zone),
+    `${l.materialCode} ${l.materialName}`,
+    l.supplierLot,
+    LOT_STATUS_WORDS[l.lotStatus] ?? l.lotStatus,
+    qty(l.quantity),
+    qty(l.usedBeforeExpiry),
+    qty(l.predictedWaste),
+    l.unit,
   ]);
   return toCsv([header, ...rows]);
 }
@@ -203,13 +303,24 @@ export async function stockToday(actor: Actor, now = new Date()): Promise<StockT
     .filter((m) => m.item.advice.runOutInsideLeadTime)
     .sort((a, b) => Date.parse(a.item.runsOutAt ?? '') - Date.parse(b.item.runsOutAt ?? ''))
     .map((m) => ({
-      materialId: m.material.id, code: m.material.code, name: m.material.name, unit: m.material.unit,
-      runsOutAt: m.item.runsOutAt, leadTimeDays: m.material.leadTimeDays, adviceText: m.item.advice.text,
+      materialId: m.material.id,
+      code: m.material.code,
+      name: m.material.name,
+      unit: m.material.unit,
+      runsOutAt: m.item.runsOutAt,
+      leadTimeDays: m.material.leadTimeDays,
+      adviceText: m.item.advice.text,
     }));
   const waste = list
     .map((m) => ({
-      materialId: m.material.id, code: m.material.code, name: m.material.name, unit: m.material.unit,
-      quantity: Math.round(m.sim.containers.reduce((s, c) => s + (c.endedBy === 'expired' && Date.parse(c.endedAt) < monthEnd ? c.wasted : 0), 0) * 1000) / 1000,
+      materialId: m.material.id,
+      code: m.material.code,
+      name: m.material.name,
+      unit: m.material.unit,
+      quantity:
+        Math.round(
+          m.sim.containers.reduce((s, c) => s + (c.endedBy === 'expired' && Date.parse(c.endedAt) < monthEnd ? c.wasted : 0), 0) * 1000,
+        ) / 1000,
     }))
     .filter((w) => w.quantity > 0)
     .sort((a, b) => a.code.localeCompare(b.code));
@@ -220,8 +331,14 @@ export async function stockToday(actor: Actor, now = new Date()): Promise<StockT
       if (at === null || at > soon) continue;
       const lot = c.row.lot;
       const entry = expiring.get(lot.id) ?? {
-        lotId: lot.id, supplierLot: lot.supplierLot, lotStatus: lot.status, materialCode: m.material.code, materialName: m.material.name,
-        unit: m.material.unit, expiresAt: c.expiryNow.at!, remaining: 0,
+        lotId: lot.id,
+        supplierLot: lot.supplierLot,
+        lotStatus: lot.status,
+        materialCode: m.material.code,
+        materialName: m.material.name,
+        unit: m.material.unit,
+        expiresAt: c.expiryNow.at!,
+        remaining: 0,
       };
       if (at < Date.parse(entry.expiresAt)) entry.expiresAt = c.expiryNow.at!;
       entry.remaining = Math.round((entry.remaining + c.input.quantity) * 1000) / 1000;
@@ -233,7 +350,10 @@ export async function stockToday(actor: Actor, now = new Date()): Promise<StockT
     zone: PLANT_ZONE,
     runOuts,
     wasteThisMonth: { monthEnd: new Date(monthEnd).toISOString(), items: waste },
-    expiringLots: { days: settings.expiringSoonDays, items: [...expiring.values()].sort((a, b) => Date.parse(a.expiresAt) - Date.parse(b.expiresAt)) },
+    expiringLots: {
+      days: settings.expiringSoonDays,
+      items: [...expiring.values()].sort((a, b) => Date.parse(a.expiresAt) - Date.parse(b.expiresAt)),
+    },
   };
 }
 

@@ -39,7 +39,12 @@ function group<T>(rows: T[], key: (r: T) => string): Map<string, T[]> {
 
 /** Quantity drawn per material by step runs finished in (since, until]; a mix's draw is split by its parts. */
 export async function consumedBetween(tx: DbOrTx, since: Date, until: Date, materialIds?: string[]): Promise<Map<string, number>> {
-  const only = materialIds ? sql`AND material_id IN (${sql.join(materialIds.map((id) => sql`${id}::uuid`), sql`, `)})` : sql``;
+  const only = materialIds
+    ? sql`AND material_id IN (${sql.join(
+        materialIds.map((id) => sql`${id}::uuid`),
+        sql`, `,
+      )})`
+    : sql``;
   const rows = await tx.execute<{ material_id: string; qty: string }>(sql`
     WITH runs AS (
       SELECT srm.container_id, srm.mix_id, srm.quantity_used
@@ -107,11 +112,17 @@ export async function loadStockData(tx: DbOrTx, now: Date, windowDays: number, m
   const receiptRows = await tx.execute<{ id: string }>(sql`
     SELECT id FROM (
       SELECT l.id, row_number() OVER (PARTITION BY l.material_id ORDER BY l.received_at DESC) AS n
-      FROM lots l WHERE l.material_id IN (${sql.join(ids.map((id) => sql`${id}::uuid`), sql`, `)}) AND l.status <> 'rejected'
+      FROM lots l WHERE l.material_id IN (${sql.join(
+        ids.map((id) => sql`${id}::uuid`),
+        sql`, `,
+      )}) AND l.status <> 'rejected'
     ) x WHERE n <= 10`);
   const receiptIds = receiptRows.rows.map((r) => r.id);
   const receiptLots = receiptIds.length
-    ? await tx.select().from(lots).where(and(inArray(lots.id, receiptIds), notInArray(lots.status, ['rejected'])))
+    ? await tx
+        .select()
+        .from(lots)
+        .where(and(inArray(lots.id, receiptIds), notInArray(lots.status, ['rejected'])))
     : [];
   receiptLots.sort((a, b) => b.receivedAt.getTime() - a.receivedAt.getTime());
   const receipts = group(receiptLots, (l) => l.materialId);

@@ -50,7 +50,12 @@ function lifeAtArrival(m: MaterialRow, data: StockData, zone: string) {
   const life = median(lives);
   const round1 = (n: number | null) => (n === null ? null : Math.round(n * 10) / 10);
   if (life !== null) {
-    return { lifeAtArrivalDays: round1(life), lifeAtArrivalSource: 'receipts' as const, ageAtReceiptDays: round1(median(ages)), receiptsCounted: lives.length };
+    return {
+      lifeAtArrivalDays: round1(life),
+      lifeAtArrivalSource: 'receipts' as const,
+      ageAtReceiptDays: round1(median(ages)),
+      receiptsCounted: lives.length,
+    };
   }
   return {
     lifeAtArrivalDays: m.shelfLifeDays,
@@ -72,12 +77,16 @@ function adviceText(
       : a.orderQuantities !== null && m.orderQuantity !== null
         ? ` Order ${a.orderQuantities} × ${qty(Number(m.orderQuantity))} ${u} (${qty(a.quantity)} ${u}).`
         : ` Order about ${qty(a.quantity)} ${u}.`;
-  const limit = a.limitedByShelfLife && ctx.lifeDays !== null ? ` No more: only that much is used in the ${qty(ctx.lifeDays)} days of shelf life left at arrival.` : '';
+  const limit =
+    a.limitedByShelfLife && ctx.lifeDays !== null
+      ? ` No more: only that much is used in the ${qty(ctx.lifeDays)} days of shelf life left at arrival.`
+      : '';
   const lead = m.leadTimeDays ?? 0;
   switch (a.action) {
     case 'order_now':
       if (a.runOutInsideLeadTime) return `Order now: runs out ${ctx.runsOutOn}, inside the ${lead}-day lead time.${how}${limit}`;
-      if (a.belowReorderPoint) return `Order now: ${qty(ctx.usable)} ${u} usable, below the reorder point of ${qty(Number(m.reorderPoint))} ${u}.${how}${limit}`;
+      if (a.belowReorderPoint)
+        return `Order now: ${qty(ctx.usable)} ${u} usable, below the reorder point of ${qty(Number(m.reorderPoint))} ${u}.${how}${limit}`;
       return `Order now: runs out ${ctx.runsOutOn}; ${lead} days lead time and ${ctx.settings.safetyDays} days margin leave no later date.${how}${limit}`;
     case 'order_soon':
       if (a.orderBy === null) return `Below the reorder point of ${qty(Number(m.reorderPoint))} ${u}, though not used lately.${how}`;
@@ -145,7 +154,12 @@ export function buildMaterialModel(m: MaterialRow, data: StockData, settings: St
     planQuantity: data.plan.get(m.id) ?? 0,
     planDays: settings.planDays,
   });
-  const sim = simulateFefo({ start: now.toISOString(), dailyUse: use.dailyUse, containers: counted.map((c) => c.input), horizonDays: settings.horizonDays });
+  const sim = simulateFefo({
+    start: now.toISOString(),
+    dailyUse: use.dailyUse,
+    containers: counted.map((c) => c.input),
+    horizonDays: settings.horizonDays,
+  });
   const usableOnHand = roundQty(counted.reduce((s, c) => s + c.input.quantity, 0));
   const daysOfCover = sim.runsOutAt === null ? null : Math.round(((Date.parse(sim.runsOutAt) - now.getTime()) / DAY_MS) * 10) / 10;
   const life = lifeAtArrival(m, data, zone);

@@ -47,10 +47,18 @@ async function lastStepCureCompleteAt(tx: Tx, batchId: string, driverId: string,
   const runs = res.rows as { id: string; finished_at: Date | string; area: string; station_id: string }[];
   // The same computation as the station's start gate and the cure board: recomputed from the
   // area's readings since the finish, not the estimate stored at finish.
-  const profiles = await profilesForRuns(tx, runs.map((r) => r.id));
+  const profiles = await profilesForRuns(
+    tx,
+    runs.map((r) => r.id),
+  );
   let latest: Date | null = null;
   for (const r of runs) {
-    const cure = await cureOfRun(tx, { finishedAt: new Date(r.finished_at), area: r.area, stationId: r.station_id }, profiles.get(r.id) ?? [], now);
+    const cure = await cureOfRun(
+      tx,
+      { finishedAt: new Date(r.finished_at), area: r.area, stationId: r.station_id },
+      profiles.get(r.id) ?? [],
+      now,
+    );
     // A cure making no progress (an oven with no reading) is not complete: it holds the test.
     const at = cure ? (cure.cureCompleteAt ? new Date(cure.cureCompleteAt) : new Date(8.64e15)) : null;
     if (at && (!latest || at > latest)) latest = at;
@@ -112,8 +120,13 @@ export async function recordTest(actor: Actor, input: TestInput): Promise<TestCr
     await tx.update(drivers).set({ status }).where(eq(drivers.id, driver.id));
     await recordAudit(tx, { actorId: actor.id, action: 'test.record', entityType: 'test_result', entityId: test.id, after: test });
     await recordAudit(tx, {
-      actorId: actor.id, action: 'driver.status', entityType: 'driver', entityId: driver.id,
-      before: { status: driver.status }, after: { status }, reason: `final test ${input.result}`,
+      actorId: actor.id,
+      action: 'driver.status',
+      entityType: 'driver',
+      entityId: driver.id,
+      before: { status: driver.status },
+      after: { status },
+      reason: `final test ${input.result}`,
     });
     return {
       test: toTestRecord({ ...test, defectDescription, testedByName: actor.name }),

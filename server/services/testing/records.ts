@@ -26,8 +26,15 @@ export async function testHistory(dbx: DbOrTx, driverId: string): Promise<TestRe
 }
 
 export function toTestRecord(r: {
-  id: string; driverId: string; result: 'pass' | 'fail'; defectCode: string | null; defectDescription: string | null;
-  measurements: Record<string, number> | null; testedAt: Date; testedBy: string | null; testedByName: string | null;
+  id: string;
+  driverId: string;
+  result: 'pass' | 'fail';
+  defectCode: string | null;
+  defectDescription: string | null;
+  measurements: Record<string, number> | null;
+  testedAt: Date;
+  testedBy: string | null;
+  testedByName: string | null;
 }): TestRecord {
   return { ...r, testedAt: r.testedAt.toISOString() };
 }

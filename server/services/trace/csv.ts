@@ -21,7 +21,12 @@ export function toCsv(rows: (string | number | null | undefined)[][]): string {
 
 /** A file name safe in a Content-Disposition header: letters, digits, dot, dash, underscore. */
 export function safeFileName(s: string): string {
-  return s.replace(/[^A-Za-z0-9._-]+/g, '_').replace(/^[._]+/, '').slice(0, 80) || 'lot';
+  return (
+    s
+      .replace(/[^A-Za-z0-9._-]+/g, '_')
+      .replace(/^[._]+/, '')
+      .slice(0, 80) || 'lot'
+  );
 }
 
 export interface ContainmentCsv {
@@ -46,7 +51,17 @@ export async function lotContainmentCsv(lotId: string, now = new Date()): Promis
       records.push({
         serial: d.serial,
         finishedMs: finishedAt ? finishedAt.getTime() : Number.POSITIVE_INFINITY,
-        row: [d.serial, d.status, u.batch_code, u.model_code, `${u.seq} ${u.step_name}`, u.station_code, finished, u.container_code, u.mix_code],
+        row: [
+          d.serial,
+          d.status,
+          u.batch_code,
+          u.model_code,
+          `${u.seq} ${u.step_name}`,
+          u.station_code,
+          finished,
+          u.container_code,
+          u.mix_code,
+        ],
       });
     }
   }

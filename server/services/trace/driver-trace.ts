@@ -13,25 +13,59 @@ type Nullable<T> = { [K in keyof T]: T[K] | null };
 export const DRIVER_TRACE_STATEMENTS = 'trace_driver';
 
 interface HeaderRow {
-  id: string; serial: string; batch_id: string; status: DriverTrace['driver']['status']; created_at: Date;
-  batch_code: string; batch_status: DriverBatch['status']; quantity: number; batch_created_at: Date;
-  model_id: string; model_code: string; model_name: string;
+  id: string;
+  serial: string;
+  batch_id: string;
+  status: DriverTrace['driver']['status'];
+  created_at: Date;
+  batch_code: string;
+  batch_status: DriverBatch['status'];
+  quantity: number;
+  batch_created_at: Date;
+  model_id: string;
+  model_code: string;
+  model_name: string;
 }
 
 /** A step run with one container it used (the walk's row; all null for a run that used nothing). */
 interface StepRow extends Nullable<Pick<MaterialUseRow, 'quantity_used' | 'mix_id' | 'mix_code' | 'mixed_at' | 'part'>> {
-  step_run_id: string; step_id: string; step_name: string; seq: number; kind: 'build' | 'rework'; driver_id: string | null;
-  station_id: string; station_code: string; station_name: string; started_at: Date; finished_at: Date | null;
-  short_cure: boolean; deviation_id: string | null;
-  container_id: string | null; container_code: string | null;
-  lot_id: string; supplier_lot: string; lot_status: TraceMaterial['lotStatus']; certificate_id: string | null;
-  material_id: string; material_code: string; material_name: string; material_kind: TraceMaterial['materialKind'];
-  supplier_id: string; supplier_name: string;
+  step_run_id: string;
+  step_id: string;
+  step_name: string;
+  seq: number;
+  kind: 'build' | 'rework';
+  driver_id: string | null;
+  station_id: string;
+  station_code: string;
+  station_name: string;
+  started_at: Date;
+  finished_at: Date | null;
+  short_cure: boolean;
+  deviation_id: string | null;
+  container_id: string | null;
+  container_code: string | null;
+  lot_id: string;
+  supplier_lot: string;
+  lot_status: TraceMaterial['lotStatus'];
+  certificate_id: string | null;
+  material_id: string;
+  material_code: string;
+  material_name: string;
+  material_kind: TraceMaterial['materialKind'];
+  supplier_id: string;
+  supplier_name: string;
 }
 
 interface TestRow {
-  id: string; driver_id: string; result: 'pass' | 'fail'; defect_code: string | null; defect_description: string | null;
-  measurements: Record<string, number> | null; tested_at: Date; tested_by: string | null; tested_by_name: string | null;
+  id: string;
+  driver_id: string;
+  result: 'pass' | 'fail';
+  defect_code: string | null;
+  defect_description: string | null;
+  measurements: Record<string, number> | null;
+  tested_at: Date;
+  tested_by: string | null;
+  tested_by_name: string | null;
 }
 
 /**
@@ -93,20 +127,39 @@ function stepsFromRows(rows: StepRow[]): TraceStep[] {
     let step = byRun.get(r.step_run_id);
     if (!step) {
       step = {
-        stepRunId: r.step_run_id, stepId: r.step_id, stepName: r.step_name, seq: r.seq, kind: r.kind, driverId: r.driver_id,
-        stationId: r.station_id, stationCode: r.station_code, stationName: r.station_name,
-        startedAt: iso(r.started_at), finishedAt: r.finished_at ? iso(r.finished_at) : null,
-        shortCure: r.short_cure, deviationId: r.deviation_id, materials: [],
+        stepRunId: r.step_run_id,
+        stepId: r.step_id,
+        stepName: r.step_name,
+        seq: r.seq,
+        kind: r.kind,
+        driverId: r.driver_id,
+        stationId: r.station_id,
+        stationCode: r.station_code,
+        stationName: r.station_name,
+        startedAt: iso(r.started_at),
+        finishedAt: r.finished_at ? iso(r.finished_at) : null,
+        shortCure: r.short_cure,
+        deviationId: r.deviation_id,
+        materials: [],
       };
       byRun.set(r.step_run_id, step);
       steps.push(step);
     }
     if (!r.container_id || !r.container_code) continue;
     const material: TraceMaterial = {
-      containerId: r.container_id, containerCode: r.container_code, lotId: r.lot_id, supplierLot: r.supplier_lot,
-      lotStatus: r.lot_status, materialId: r.material_id, materialCode: r.material_code, materialName: r.material_name,
-      materialKind: r.material_kind, supplierId: r.supplier_id, supplierName: r.supplier_name,
-      certificateId: r.certificate_id, quantityUsed: Number(r.quantity_used ?? 0),
+      containerId: r.container_id,
+      containerCode: r.container_code,
+      lotId: r.lot_id,
+      supplierLot: r.supplier_lot,
+      lotStatus: r.lot_status,
+      materialId: r.material_id,
+      materialCode: r.material_code,
+      materialName: r.material_name,
+      materialKind: r.material_kind,
+      supplierId: r.supplier_id,
+      supplierName: r.supplier_name,
+      certificateId: r.certificate_id,
+      quantityUsed: Number(r.quantity_used ?? 0),
     };
     if (r.mix_id && r.mix_code && r.mixed_at && r.part) {
       material.via = { mixId: r.mix_id, mixCode: r.mix_code, mixedAt: iso(r.mixed_at), part: r.part };
@@ -119,8 +172,15 @@ function stepsFromRows(rows: StepRow[]): TraceStep[] {
 const testsFromRows = (rows: TestRow[]): TestRecord[] =>
   rows.map((t) =>
     toTestRecord({
-      id: t.id, driverId: t.driver_id, result: t.result, defectCode: t.defect_code, defectDescription: t.defect_description,
-      measurements: t.measurements, testedAt: new Date(t.tested_at), testedBy: t.tested_by, testedByName: t.tested_by_name,
+      id: t.id,
+      driverId: t.driver_id,
+      result: t.result,
+      defectCode: t.defect_code,
+      defectDescription: t.defect_description,
+      measurements: t.measurements,
+      testedAt: new Date(t.tested_at),
+      testedBy: t.tested_by,
+      testedByName: t.tested_by_name,
     }),
   );
 
@@ -132,8 +192,14 @@ export async function traceDriver(serial: string): Promise<DriverTrace> {
   return {
     driver: { id: h.id, serial: h.serial, batchId: h.batch_id, status: h.status, createdAt: iso(h.created_at) },
     batch: {
-      id: h.batch_id, code: h.batch_code, status: h.batch_status, quantity: h.quantity, modelId: h.model_id,
-      modelCode: h.model_code, modelName: h.model_name, createdAt: iso(h.batch_created_at),
+      id: h.batch_id,
+      code: h.batch_code,
+      status: h.batch_status,
+      quantity: h.quantity,
+      modelId: h.model_id,
+      modelCode: h.model_code,
+      modelName: h.model_name,
+      createdAt: iso(h.batch_created_at),
     },
     steps: stepsFromRows(steps as StepRow[]),
     tests: testsFromRows(tests as TestRow[]),

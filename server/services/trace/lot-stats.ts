@@ -7,9 +7,16 @@ import type { LotStat, LotStats, LotStatsQuery } from '../../../shared/schemas/t
 import { lotUses } from './walk';
 
 interface Row {
-  lot_id: string; supplier_lot: string; status: LotStat['status']; received_at: Date;
-  material_id: string; material_code: string; material_name: string;
-  built: number; tested: number; failures: number;
+  lot_id: string;
+  supplier_lot: string;
+  status: LotStat['status'];
+  received_at: Date;
+  material_id: string;
+  material_code: string;
+  material_name: string;
+  built: number;
+  tested: number;
+  failures: number;
 }
 
 /**
@@ -46,14 +53,28 @@ export async function lotStats(query: LotStatsQuery, tx: DbOrTx = db): Promise<L
     LEFT JOIN outcomes bo ON bo.batch_id = lb.batch_id
     GROUP BY l.id, l.supplier_lot, l.status, l.received_at, l.material_id, l.material_code, l.material_name`);
   const rows = res.rows as unknown as Row[];
-  const flagged = flagLots(rows.map((r) => ({ ...r, inspected: r.tested, defectives: r.failures })), baseline, fdr);
+  const flagged = flagLots(
+    rows.map((r) => ({ ...r, inspected: r.tested, defectives: r.failures })),
+    baseline,
+    fdr,
+  );
   const items: LotStat[] = flagged
     .map((r) => ({
-      lotId: r.lot_id, supplierLot: r.supplier_lot, status: r.status, receivedAt: new Date(r.received_at).toISOString(),
-      materialId: r.material_id, materialCode: r.material_code, materialName: r.material_name,
-      driversBuilt: r.built, tested: r.tested, failures: r.failures,
+      lotId: r.lot_id,
+      supplierLot: r.supplier_lot,
+      status: r.status,
+      receivedAt: new Date(r.received_at).toISOString(),
+      materialId: r.material_id,
+      materialCode: r.material_code,
+      materialName: r.material_name,
+      driversBuilt: r.built,
+      tested: r.tested,
+      failures: r.failures,
       failureRate: r.tested > 0 ? r.failures / r.tested : null,
-      pValue: r.pValue, qValue: r.qValue, aboveUcl: r.aboveUcl, flagged: r.flagged,
+      pValue: r.pValue,
+      qValue: r.qValue,
+      aboveUcl: r.aboveUcl,
+      flagged: r.flagged,
     }))
     .filter((r) => !query.flaggedOnly || r.flagged)
     .sort((a, b) => Number(b.flagged) - Number(a.flagged) || a.pValue - b.pValue || a.supplierLot.localeCompare(b.supplierLot));

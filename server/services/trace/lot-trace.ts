@@ -9,19 +9,42 @@ import { lotUses, type LotUseRow } from './walk';
 export const LOT_TRACE_STATEMENTS = 'trace_lot';
 
 interface LotRow {
-  id: string; supplier_lot: string; status: TraceLot['status']; received_at: Date; certificate_id: string | null;
-  material_id: string; material_code: string; material_name: string; supplier_id: string; supplier_name: string;
+  id: string;
+  supplier_lot: string;
+  status: TraceLot['status'];
+  received_at: Date;
+  certificate_id: string | null;
+  material_id: string;
+  material_code: string;
+  material_name: string;
+  supplier_id: string;
+  supplier_name: string;
 }
 
 /** A step run that used the lot, with the container (and mix) it used it through: the walk's row. */
 interface UseRow extends Pick<LotUseRow, 'step_run_id' | 'container_code' | 'mix_code'> {
-  kind: 'build' | 'rework'; batch_id: string; driver_id: string | null; driver_serial: string | null;
-  step_id: string; step_name: string; seq: number; station_code: string; started_at: Date; finished_at: Date | null;
-  batch_code: string; batch_created_at: Date; model_id: string; model_code: string; model_name: string;
+  kind: 'build' | 'rework';
+  batch_id: string;
+  driver_id: string | null;
+  driver_serial: string | null;
+  step_id: string;
+  step_name: string;
+  seq: number;
+  station_code: string;
+  started_at: Date;
+  finished_at: Date | null;
+  batch_code: string;
+  batch_created_at: Date;
+  model_id: string;
+  model_code: string;
+  model_name: string;
 }
 
 interface DriverRow {
-  id: string; serial: string; status: TraceDriver['status']; batch_id: string;
+  id: string;
+  serial: string;
+  status: TraceDriver['status'];
+  batch_id: string;
 }
 
 export interface LotTraceData {
@@ -89,9 +112,16 @@ export async function loadLotTrace(lotId: string): Promise<LotTraceData> {
   const h = header[0] as LotRow | undefined;
   if (!h) throw notFound('The lot');
   const lot: TraceLot = {
-    id: h.id, supplierLot: h.supplier_lot, status: h.status, receivedAt: iso(h.received_at)!, certificateId: h.certificate_id,
-    materialId: h.material_id, materialCode: h.material_code, materialName: h.material_name,
-    supplierId: h.supplier_id, supplierName: h.supplier_name,
+    id: h.id,
+    supplierLot: h.supplier_lot,
+    status: h.status,
+    receivedAt: iso(h.received_at)!,
+    certificateId: h.certificate_id,
+    materialId: h.material_id,
+    materialCode: h.material_code,
+    materialName: h.material_name,
+    supplierId: h.supplier_id,
+    supplierName: h.supplier_name,
   };
   const usesRaw = usesRes as UseRow[];
   const driverRows = reached as DriverRow[];
@@ -112,16 +142,30 @@ export async function loadLotTrace(lotId: string): Promise<LotTraceData> {
     driverIdsByRun.set(u.step_run_id, reached);
     if (!batches.has(u.batch_id)) {
       batches.set(u.batch_id, {
-        id: u.batch_id, code: u.batch_code, modelId: u.model_id, modelCode: u.model_code, modelName: u.model_name,
-        createdAt: iso(u.batch_created_at)!, wholeBatch: wholeBatch.has(u.batch_id),
+        id: u.batch_id,
+        code: u.batch_code,
+        modelId: u.model_id,
+        modelCode: u.model_code,
+        modelName: u.model_name,
+        createdAt: iso(u.batch_created_at)!,
+        wholeBatch: wholeBatch.has(u.batch_id),
         driverCount: (driversByBatch.get(u.batch_id) ?? []).length,
       });
     }
   }
   const uses: LotUse[] = usesRaw.map((u) => ({
-    stepRunId: u.step_run_id, kind: u.kind, batchId: u.batch_id, driverSerial: u.driver_serial,
-    stepId: u.step_id, stepName: u.step_name, seq: u.seq, stationCode: u.station_code,
-    startedAt: iso(u.started_at)!, finishedAt: iso(u.finished_at), containerCode: u.container_code, mixCode: u.mix_code,
+    stepRunId: u.step_run_id,
+    kind: u.kind,
+    batchId: u.batch_id,
+    driverSerial: u.driver_serial,
+    stepId: u.step_id,
+    stepName: u.step_name,
+    seq: u.seq,
+    stationCode: u.station_code,
+    startedAt: iso(u.started_at)!,
+    finishedAt: iso(u.finished_at),
+    containerCode: u.container_code,
+    mixCode: u.mix_code,
   }));
   const driversOut: TraceDriver[] = driverRows.map((d) => ({ serial: d.serial, status: d.status, batchId: d.batch_id }));
   return {

@@ -1,6 +1,13 @@
 import type { AlertKind, AlertSeverity, AlertState } from '@shared/constants';
 import type { Alert } from '@shared/schemas/alerts';
-import { ALERT_KIND_WORDS, ALERT_SEVERITY_WORDS as SEV, ALERT_STATE_WORDS as ST, alertKindWords, alertSeverityWords, alertStateWords } from '@shared/words';
+import {
+  ALERT_KIND_WORDS,
+  ALERT_SEVERITY_WORDS as SEV,
+  ALERT_STATE_WORDS as ST,
+  alertKindWords,
+  alertSeverityWords,
+  alertStateWords,
+} from '@shared/words';
 import { formatDateTime, formatRelative } from '@shared/plant-time';
 
 /**
@@ -110,7 +117,9 @@ export function handledText(
 ): { acknowledged: string | null; resolved: string | null } {
   const by = (name: string | null) => (name ? ` by ${name}` : '');
   return {
-    acknowledged: alert.acknowledgedAt ? `Acknowledged${by(alert.acknowledgedByName)}, ${formatDateTime(alert.acknowledgedAt, zone)}` : null,
+    acknowledged: alert.acknowledgedAt
+      ? `Acknowledged${by(alert.acknowledgedByName)}, ${formatDateTime(alert.acknowledgedAt, zone)}`
+      : null,
     resolved: alert.resolvedAt
       ? `Resolved${alert.resolvedBy ? by(alert.resolvedByName) : ' by the compliance watch'}, ${formatDateTime(alert.resolvedAt, zone)}`
       : null,

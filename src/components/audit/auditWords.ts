@@ -69,9 +69,16 @@ const ACTION_WORDS: Record<string, string> = {
 /** Actions offered in the filter, in words, sorted by their words. */
 export const ACTION_OPTIONS: { value: string; label: string }[] = [
   ...Object.entries(ACTION_WORDS),
-  ...['lot.receive', 'lot.status', 'lot.certificate', 'container.open', 'container.move', 'container.empty', 'container.scrap', 'container.consume'].map(
-    (a) => [a, lotActionText(a)] as [string, string],
-  ),
+  ...[
+    'lot.receive',
+    'lot.status',
+    'lot.certificate',
+    'container.open',
+    'container.move',
+    'container.empty',
+    'container.scrap',
+    'container.consume',
+  ].map((a) => [a, lotActionText(a)] as [string, string]),
 ]
   .map(([value, label]) => ({ value, label }))
   .sort((a, b) => a.label.localeCompare(b.label));

@@ -49,42 +49,130 @@ export interface MaterialDraft {
 
 /** Every field the form shows, as the API names them (for mapping errors onto fields). */
 export const MATERIAL_FIELDS = [
-  'code', 'name', 'kind', 'unit', 'storageClass', 'shelfLifeDays', 'openLifeHours', 'thawedLifeHours',
-  'outOfStorageAllowanceHours', 'potLifeMinutes', 'partnerMaterialId', 'mixRatio', 'cure', 'cure.refTempC',
-  'cure.handlingMinutes', 'cure.fullCureMinutes', 'cure.factorPer10C', 'cure.activationEnergyKJ', 'cure.method', 'cure.minTempC', 'cure.schedule', 'cure.uvDoseMJcm2', 'cure.rhMinPct', 'cure.rhMaxPct', 'requiresInspection',
-  'hazards.signalWord', 'hazards.pictograms', 'hazards.statements', 'gtin', 'reorderPoint', 'orderQuantity', 'leadTimeDays',
+  'code',
+  'name',
+  'kind',
+  'unit',
+  'storageClass',
+  'shelfLifeDays',
+  'openLifeHours',
+  'thawedLifeHours',
+  'outOfStorageAllowanceHours',
+  'potLifeMinutes',
+  'partnerMaterialId',
+  'mixRatio',
+  'cure',
+  'cure.refTempC',
+  'cure.handlingMinutes',
+  'cure.fullCureMinutes',
+  'cure.factorPer10C',
+  'cure.activationEnergyKJ',
+  'cure.method',
+  'cure.minTempC',
+  'cure.schedule',
+  'cure.uvDoseMJcm2',
+  'cure.rhMinPct',
+  'cure.rhMaxPct',
+  'requiresInspection',
+  'hazards.signalWord',
+  'hazards.pictograms',
+  'hazards.statements',
+  'gtin',
+  'reorderPoint',
+  'orderQuantity',
+  'leadTimeDays',
 ] as const;
 
 /** What each field is called on screen, so error messages name it. */
 export const MATERIAL_FIELD_LABELS: Readonly<Record<string, string>> = {
-  code: 'Code', name: 'Name', kind: 'Kind', unit: 'Unit', storageClass: 'Storage class', shelfLifeDays: 'Shelf life',
-  openLifeHours: 'After-opening life', thawedLifeHours: 'Life after thawing', outOfStorageAllowanceHours: 'Out-of-storage allowance',
-  potLifeMinutes: 'Pot life', partnerMaterialId: 'Mix partner', mixRatio: 'Mix ratio', cure: 'Cure profile',
-  'cure.refTempC': 'Reference temperature', 'cure.handlingMinutes': 'Handling time', 'cure.fullCureMinutes': 'Full-cure time',
-  'cure.factorPer10C': 'Rate factor', 'cure.activationEnergyKJ': 'Activation energy',
-  'cure.method': 'Cure method', 'cure.minTempC': 'Minimum cure temperature', 'cure.schedule': 'Oven schedule', 'cure.uvDoseMJcm2': 'UV dose',
-  'cure.rhMinPct': 'Lowest humidity', 'cure.rhMaxPct': 'Highest humidity', requiresInspection: 'Inspection',
-  'hazards.signalWord': 'Signal word', 'hazards.pictograms': 'Pictograms', 'hazards.statements': 'Hazard statements',
-  gtin: 'GTIN', reorderPoint: 'Reorder point', orderQuantity: 'Order quantity', leadTimeDays: 'Lead time',
+  code: 'Code',
+  name: 'Name',
+  kind: 'Kind',
+  unit: 'Unit',
+  storageClass: 'Storage class',
+  shelfLifeDays: 'Shelf life',
+  openLifeHours: 'After-opening life',
+  thawedLifeHours: 'Life after thawing',
+  outOfStorageAllowanceHours: 'Out-of-storage allowance',
+  potLifeMinutes: 'Pot life',
+  partnerMaterialId: 'Mix partner',
+  mixRatio: 'Mix ratio',
+  cure: 'Cure profile',
+  'cure.refTempC': 'Reference temperature',
+  'cure.handlingMinutes': 'Handling time',
+  'cure.fullCureMinutes': 'Full-cure time',
+  'cure.factorPer10C': 'Rate factor',
+  'cure.activationEnergyKJ': 'Activation energy',
+  'cure.method': 'Cure method',
+  'cure.minTempC': 'Minimum cure temperature',
+  'cure.schedule': 'Oven schedule',
+  'cure.uvDoseMJcm2': 'UV dose',
+  'cure.rhMinPct': 'Lowest humidity',
+  'cure.rhMaxPct': 'Highest humidity',
+  requiresInspection: 'Inspection',
+  'hazards.signalWord': 'Signal word',
+  'hazards.pictograms': 'Pictograms',
+  'hazards.statements': 'Hazard statements',
+  gtin: 'GTIN',
+  reorderPoint: 'Reorder point',
+  orderQuantity: 'Order quantity',
+  leadTimeDays: 'Lead time',
 };
 
 export function emptyDraft(): MaterialDraft {
   return {
-    code: '', name: '', kind: null, unit: '', storageClass: 'ambient', shelfLifeDays: null, openLifeHours: null,
-    thawedLifeHours: null, outOfStorageAllowanceHours: null, potLifeMinutes: null, partnerMaterialId: null, mixRatio: null,
+    code: '',
+    name: '',
+    kind: null,
+    unit: '',
+    storageClass: 'ambient',
+    shelfLifeDays: null,
+    openLifeHours: null,
+    thawedLifeHours: null,
+    outOfStorageAllowanceHours: null,
+    potLifeMinutes: null,
+    partnerMaterialId: null,
+    mixRatio: null,
     hasCure: false,
-    cure: { refTempC: 23, handlingMinutes: null, fullCureMinutes: null, model: 'factor', factorPer10C: 2, activationEnergyKJ: null,
-      method: 'ambient', minTempC: null, schedule: [], uvDoseMJcm2: null, rhMinPct: null, rhMaxPct: null },
-    requiresInspection: true, signalWord: null, pictograms: [], statements: [], gtin: '', reorderPoint: null,
-    orderQuantity: null, leadTimeDays: null,
+    cure: {
+      refTempC: 23,
+      handlingMinutes: null,
+      fullCureMinutes: null,
+      model: 'factor',
+      factorPer10C: 2,
+      activationEnergyKJ: null,
+      method: 'ambient',
+      minTempC: null,
+      schedule: [],
+      uvDoseMJcm2: null,
+      rhMinPct: null,
+      rhMaxPct: null,
+    },
+    requiresInspection: true,
+    signalWord: null,
+    pictograms: [],
+    statements: [],
+    gtin: '',
+    reorderPoint: null,
+    orderQuantity: null,
+    leadTimeDays: null,
   };
 }
 
 export function draftFromMaterial(m: DeepReadonly<Material>): MaterialDraft {
   return {
-    code: m.code, name: m.name, kind: m.kind, unit: m.unit, storageClass: m.storageClass, shelfLifeDays: m.shelfLifeDays,
-    openLifeHours: m.openLifeHours, thawedLifeHours: m.thawedLifeHours, outOfStorageAllowanceHours: m.outOfStorageAllowanceHours,
-    potLifeMinutes: m.potLifeMinutes, partnerMaterialId: m.partnerMaterialId, mixRatio: m.mixRatio,
+    code: m.code,
+    name: m.name,
+    kind: m.kind,
+    unit: m.unit,
+    storageClass: m.storageClass,
+    shelfLifeDays: m.shelfLifeDays,
+    openLifeHours: m.openLifeHours,
+    thawedLifeHours: m.thawedLifeHours,
+    outOfStorageAllowanceHours: m.outOfStorageAllowanceHours,
+    potLifeMinutes: m.potLifeMinutes,
+    partnerMaterialId: m.partnerMaterialId,
+    mixRatio: m.mixRatio,
     hasCure: m.cure !== null,
     cure: {
       refTempC: m.cure?.refTempC ?? 23,
@@ -105,7 +193,9 @@ export function draftFromMaterial(m: DeepReadonly<Material>): MaterialDraft {
     pictograms: [...m.hazards.pictograms] as GhsPictogram[],
     statements: [...m.hazards.statements],
     gtin: m.gtin ?? '',
-    reorderPoint: m.reorderPoint, orderQuantity: m.orderQuantity, leadTimeDays: m.leadTimeDays,
+    reorderPoint: m.reorderPoint,
+    orderQuantity: m.orderQuantity,
+    leadTimeDays: m.leadTimeDays,
   };
 }
 
@@ -125,22 +215,25 @@ const required = (value: unknown): number | undefined => num(value) ?? undefined
  */
 export function draftToInput(d: MaterialDraft): MaterialInput {
   const adhesiveLike = d.kind !== null && ADHESIVE_LIKE_KINDS.includes(d.kind);
-  const cure = adhesiveLike && d.hasCure
-    ? {
-        refTempC: required(d.cure.refTempC) as number,
-        handlingMinutes: required(d.cure.handlingMinutes) as number,
-        fullCureMinutes: required(d.cure.fullCureMinutes) as number,
-        ...(d.cure.model === 'factor'
-          ? { factorPer10C: required(d.cure.factorPer10C) }
-          : { activationEnergyKJ: required(d.cure.activationEnergyKJ) as number }),
-        method: d.cure.method,
-        ...(d.cure.method === 'ambient' && num(d.cure.minTempC) !== null ? { minTempC: num(d.cure.minTempC) as number } : {}),
-        ...(d.cure.method === 'heat' ? { schedule: d.cure.schedule.map((p) => ({ tempC: required(p.tempC) as number, minutes: required(p.minutes) as number })) } : {}),
-        ...(d.cure.method === 'uv' ? { uvDoseMJcm2: required(d.cure.uvDoseMJcm2) as number } : {}),
-        ...(num(d.cure.rhMinPct) !== null ? { rhMinPct: num(d.cure.rhMinPct) as number } : {}),
-        ...(num(d.cure.rhMaxPct) !== null ? { rhMaxPct: num(d.cure.rhMaxPct) as number } : {}),
-      }
-    : null;
+  const cure =
+    adhesiveLike && d.hasCure
+      ? {
+          refTempC: required(d.cure.refTempC) as number,
+          handlingMinutes: required(d.cure.handlingMinutes) as number,
+          fullCureMinutes: required(d.cure.fullCureMinutes) as number,
+          ...(d.cure.model === 'factor'
+            ? { factorPer10C: required(d.cure.factorPer10C) }
+            : { activationEnergyKJ: required(d.cure.activationEnergyKJ) as number }),
+          method: d.cure.method,
+          ...(d.cure.method === 'ambient' && num(d.cure.minTempC) !== null ? { minTempC: num(d.cure.minTempC) as number } : {}),
+          ...(d.cure.method === 'heat'
+            ? { schedule: d.cure.schedule.map((p) => ({ tempC: required(p.tempC) as number, minutes: required(p.minutes) as number })) }
+            : {}),
+          ...(d.cure.method === 'uv' ? { uvDoseMJcm2: required(d.cure.uvDoseMJcm2) as number } : {}),
+          ...(num(d.cure.rhMinPct) !== null ? { rhMinPct: num(d.cure.rhMinPct) as number } : {}),
+          ...(num(d.cure.rhMaxPct) !== null ? { rhMaxPct: num(d.cure.rhMaxPct) as number } : {}),
+        }
+      : null;
   return {
     code: d.code,
     name: d.name,

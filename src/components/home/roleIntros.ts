@@ -31,9 +31,7 @@ export const ROLE_INTROS: Record<Role, { summary: string; icon: string }> = {
   },
   admin: {
     icon: 'manage_accounts',
-    summary:
-      'Keep users and their roles, the material catalogue, suppliers, stations, and driver models with their ' +
-      'process steps.',
+    summary: 'Keep users and their roles, the material catalogue, suppliers, stations, and driver models with their ' + 'process steps.',
   },
 };
 

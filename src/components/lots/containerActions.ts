@@ -25,11 +25,15 @@ export function containerMenu(
   const live = c.status === 'sealed' || c.status === 'open';
   const items: ContainerMenuItem[] = [];
   if (can('containers.handle') && live) {
-    if (storageClass === 'frozen' && !c.thawedAt && c.status === 'sealed') items.push({ action: 'thaw', label: 'Record the end of the thaw', icon: 'ac_unit' });
+    if (storageClass === 'frozen' && !c.thawedAt && c.status === 'sealed')
+      items.push({ action: 'thaw', label: 'Record the end of the thaw', icon: 'ac_unit' });
     // Only a released lot may be opened (on hold, quarantined and rejected lots are blocked).
-    if (lotStatus === 'released' && c.status === 'sealed' && (storageClass !== 'frozen' || c.thawedAt)) items.push({ action: 'open', label: 'Open', icon: 'lock_open' });
-    if (storageClass === 'refrigerated' && !c.outOfStorageSince) items.push({ action: 'out-of-storage', label: 'Take out of cold storage', icon: 'logout' });
-    if (storageClass === 'refrigerated' && c.outOfStorageSince) items.push({ action: 'return-to-storage', label: 'Back into cold storage', icon: 'login' });
+    if (lotStatus === 'released' && c.status === 'sealed' && (storageClass !== 'frozen' || c.thawedAt))
+      items.push({ action: 'open', label: 'Open', icon: 'lock_open' });
+    if (storageClass === 'refrigerated' && !c.outOfStorageSince)
+      items.push({ action: 'out-of-storage', label: 'Take out of cold storage', icon: 'logout' });
+    if (storageClass === 'refrigerated' && c.outOfStorageSince)
+      items.push({ action: 'return-to-storage', label: 'Back into cold storage', icon: 'login' });
     items.push({ action: 'location', label: 'Move to another location', icon: 'place' });
   }
   if (can('containers.empty') && live) items.push({ action: 'empty', label: 'Mark empty', icon: 'check_box_outline_blank' });

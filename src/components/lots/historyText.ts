@@ -130,9 +130,7 @@ export function fieldChanges(
   const a = isRecord(after) ? after : {};
   const text = (field: string, v: unknown) => valueText(v, { ...ctx, field });
   if (!b) {
-    return pick
-      .filter((k) => k in a && a[k] !== null)
-      .map((k) => ({ field: k, label: fieldLabel(k), from: null, to: text(k, a[k]) }));
+    return pick.filter((k) => k in a && a[k] !== null).map((k) => ({ field: k, label: fieldLabel(k), from: null, to: text(k, a[k]) }));
   }
   const keys = [...new Set([...Object.keys(b), ...Object.keys(a)])].filter(shown);
   return keys

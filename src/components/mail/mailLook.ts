@@ -2,7 +2,12 @@ import type { EmailKind, EmailStatus } from '@shared/constants';
 
 /** How a message's state and kind read on screen: a word, an icon and a colour (never colour alone). */
 export const MAIL_STATUS_LOOK: Record<EmailStatus, { label: string; color: string; icon: string; hint: string }> = {
-  queued: { label: 'Waiting to send', color: 'grey-7', icon: 'schedule', hint: 'In the outbox; the mail worker sends it shortly (or retries after a refusal).' },
+  queued: {
+    label: 'Waiting to send',
+    color: 'grey-7',
+    icon: 'schedule',
+    hint: 'In the outbox; the mail worker sends it shortly (or retries after a refusal).',
+  },
   sending: { label: 'Sending', color: 'info', icon: 'outgoing_mail', hint: 'A mail worker is handing it to the mail server now.' },
   sent: { label: 'Sent', color: 'positive', icon: 'mark_email_read', hint: 'The mail server accepted it.' },
   failed: { label: 'Not delivered', color: 'negative', icon: 'error', hint: 'The mail server refused it, or every attempt failed.' },

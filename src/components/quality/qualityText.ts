@@ -27,5 +27,5 @@ export function ageText(hours: number): string {
 export const BASELINE_SOURCE_WORDS: Record<'override' | 'window' | 'default', string> = {
   override: 'set by hand',
   window: 'computed from recent final tests',
-  default: "the plant default (too few recent tests to compute one)",
+  default: 'the plant default (too few recent tests to compute one)',
 };

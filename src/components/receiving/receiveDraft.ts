@@ -18,21 +18,47 @@ export interface ReceiveDraft {
 }
 
 export const RECEIVE_FIELDS = [
-  'materialId', 'supplierId', 'supplierLot', 'containers', 'quantityPerContainer', 'manufacturedOn', 'expiresOn',
-  'receivedAt', 'gtin', 'location', 'notes',
+  'materialId',
+  'supplierId',
+  'supplierLot',
+  'containers',
+  'quantityPerContainer',
+  'manufacturedOn',
+  'expiresOn',
+  'receivedAt',
+  'gtin',
+  'location',
+  'notes',
 ] as const;
 
 /** What each field is called on screen, so error messages name it. */
 export const RECEIVE_FIELD_LABELS: Readonly<Record<string, string>> = {
-  materialId: 'Material', supplierId: 'Supplier', supplierLot: 'Supplier lot', containers: 'Containers',
-  quantityPerContainer: 'Quantity', manufacturedOn: 'Manufacture date', expiresOn: 'Expiry date', receivedAt: 'Received at',
-  gtin: 'GTIN', location: 'Location', notes: 'Notes',
+  materialId: 'Material',
+  supplierId: 'Supplier',
+  supplierLot: 'Supplier lot',
+  containers: 'Containers',
+  quantityPerContainer: 'Quantity',
+  manufacturedOn: 'Manufacture date',
+  expiresOn: 'Expiry date',
+  receivedAt: 'Received at',
+  gtin: 'GTIN',
+  location: 'Location',
+  notes: 'Notes',
 };
 
 export function emptyReceiveDraft(): ReceiveDraft {
   return {
-    materialId: null, supplierId: null, supplierLot: '', containers: 1, quantityPerContainer: null, manufacturedOn: '',
-    expiresOn: '', receivedAt: '', gtin: '', location: '', notes: '',
+    materialId: null,
+    supplierId: null,
+    supplierLot: '',
+    containers: 1,
+    quantityPerContainer: null,
+    manufacturedOn: '',
+    expiresOn: '',
+    receivedAt: '',
+    gtin: '',
+    location: '',
+    notes: '',
   };
 }
 

@@ -2,8 +2,18 @@ import type { RouteRecordRaw } from 'vue-router';
 
 /** Stock, days of cover and the expiry outlook: whoever the permission map allows `stock.read`. */
 export const stockRoutes: RouteRecordRaw[] = [
-  { path: 'stock', name: 'stock.overview', component: () => import('@/pages/stock/StockPage.vue'), meta: { title: 'Stock & expiry', permission: 'stock.read' } },
-  { path: 'stock/outlook', name: 'stock.outlook', component: () => import('@/pages/stock/StockOutlookPage.vue'), meta: { title: 'Expiry outlook', permission: 'stock.read' } },
+  {
+    path: 'stock',
+    name: 'stock.overview',
+    component: () => import('@/pages/stock/StockPage.vue'),
+    meta: { title: 'Stock & expiry', permission: 'stock.read' },
+  },
+  {
+    path: 'stock/outlook',
+    name: 'stock.outlook',
+    component: () => import('@/pages/stock/StockOutlookPage.vue'),
+    meta: { title: 'Expiry outlook', permission: 'stock.read' },
+  },
   {
     path: 'stock/materials/:id',
     name: 'stock.material',

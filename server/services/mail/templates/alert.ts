@@ -20,7 +20,7 @@ const SEVERITY_WORDS = { critical: 'Critical', warning: 'Warning', info: 'Notice
 const SEVERITY_COLORS = { critical: COLORS.critical, warning: COLORS.warning, info: COLORS.info } as const;
 
 export const SDS_CAUTION =
-  'Safety: this material may be a hazardous chemical (skin and eye irritant or sensitiser, fumes). Wear the protective equipment its safety data sheet (SDS) names, and handle and discard it as the SDS, local regulations and the plant\'s own safety rules say. Tacklog records; it does not replace a qualified person\'s judgement.';
+  "Safety: this material may be a hazardous chemical (skin and eye irritant or sensitiser, fumes). Wear the protective equipment its safety data sheet (SDS) names, and handle and discard it as the SDS, local regulations and the plant's own safety rules say. Tacklog records; it does not replace a qualified person's judgement.";
 
 export function needsSdsCaution(kind: string): boolean {
   return isAlertKind(kind) && ALERT_KIND_INFO[kind].handling;
@@ -66,7 +66,9 @@ export function renderAlertMail(ctx: MailContext, a: AlertMailData): RenderedMai
     paragraph(escapeHtml(todo(a.kind))),
     paragraph(`Raised ${escapeHtml(raised)} (plant time, ${escapeHtml(ctx.zone)}).`),
     ...(caution
-      ? [`<div style="margin:12px 0;padding:10px 12px;border-left:4px solid ${COLORS.warning};background:#fff8e6">${escapeHtml(SDS_CAUTION)}</div>`]
+      ? [
+          `<div style="margin:12px 0;padding:10px 12px;border-left:4px solid ${COLORS.warning};background:#fff8e6">${escapeHtml(SDS_CAUTION)}</div>`,
+        ]
       : []),
     itemUrl ? button(itemUrl, a.itemLabel) : '',
     paragraph(`<a href="${escapeHtml(alertsUrl)}" style="color:${COLORS.accent}">Acknowledge or resolve it on the Alerts page</a>`),
@@ -91,7 +93,16 @@ export function renderAlertResolvedMail(ctx: MailContext, r: ResolvedMailData): 
   const by = r.resolvedBy ? `by ${r.resolvedBy}` : 'by the compliance watch (the condition no longer holds)';
   const reason = 'You receive this because you asked to hear when an alert you were e-mailed about is resolved.';
   const alertsUrl = link(ctx, '/alerts?state=resolved');
-  const text = [`Hello ${r.recipientName},`, '', `Resolved ${when} ${by}: ${kind} – ${r.subjectWords}.`, '', 'What was done:', r.resolution, '', `Resolved alerts: ${alertsUrl}`].join('\n');
+  const text = [
+    `Hello ${r.recipientName},`,
+    '',
+    `Resolved ${when} ${by}: ${kind} – ${r.subjectWords}.`,
+    '',
+    'What was done:',
+    r.resolution,
+    '',
+    `Resolved alerts: ${alertsUrl}`,
+  ].join('\n');
   const html = [
     paragraph(`Hello ${escapeHtml(r.recipientName)},`),
     paragraph(`<strong>Resolved</strong> ${escapeHtml(when)} ${escapeHtml(by)}: ${escapeHtml(kind)} – ${escapeHtml(r.subjectWords)}.`),

@@ -86,7 +86,10 @@ export function renderDigestMail(ctx: MailContext, d: DigestData): RenderedMail 
   const subject = `[Tacklog] Daily digest for ${d.plantDate} – ${ctx.plantName}`;
   const reason = 'You receive this daily digest because your notification settings send at least one kind of alert to it.';
   const text: string[] = [`Hello ${d.recipientName},`, '', `This is the digest for ${d.plantDate}.`, ''];
-  const html: string[] = [paragraph(`Hello ${escapeHtml(d.recipientName)},`), paragraph(`This is the digest for <strong>${escapeHtml(d.plantDate)}</strong>.`)];
+  const html: string[] = [
+    paragraph(`Hello ${escapeHtml(d.recipientName)},`),
+    paragraph(`This is the digest for <strong>${escapeHtml(d.plantDate)}</strong>.`),
+  ];
   if (digestIsEmpty(d)) {
     text.push('Nothing needs your attention today.', '');
     html.push(paragraph('Nothing needs your attention today.'));
@@ -94,10 +97,17 @@ export function renderDigestMail(ctx: MailContext, d: DigestData): RenderedMail 
   if (d.purchasing) {
     const p = d.purchasing;
     text.push(`PURCHASING (${p.source})`, '');
-    html.push(`<h1 style="font-size:19px;margin:24px 0 4px 0">Purchasing</h1>`, paragraph(`<span style="color:${COLORS.muted}">${escapeHtml(p.source)}</span>`));
+    html.push(
+      `<h1 style="font-size:19px;margin:24px 0 4px 0">Purchasing</h1>`,
+      paragraph(`<span style="color:${COLORS.muted}">${escapeHtml(p.source)}</span>`),
+    );
     const sections: [string, DigestItem[], string][] = [
       ['Run-outs inside lead time', p.runOuts, 'No material is below its reorder point.'],
-      ['Waste: stock past its expiry or predicted to expire before use', p.predictedWaste, 'No stock is past its expiry or predicted to go to waste.'],
+      [
+        'Waste: stock past its expiry or predicted to expire before use',
+        p.predictedWaste,
+        'No stock is past its expiry or predicted to go to waste.',
+      ],
       [`Lots expiring within ${p.windowDays} days`, p.expiringLots, `No lot with stock expires within ${p.windowDays} days.`],
     ];
     for (const [title, items, empty] of sections) {

@@ -31,7 +31,16 @@ export function link(ctx: MailContext, path: string): string {
   return `${ctx.baseUrl}${path.startsWith('/') ? path : `/${path}`}`;
 }
 
-export const COLORS = { accent: '#1f6f78', text: '#1d2327', muted: '#5c6770', critical: '#b3261e', warning: '#8a5a00', info: '#1f5f99', rule: '#d9dee2', panel: '#f4f6f7' };
+export const COLORS = {
+  accent: '#1f6f78',
+  text: '#1d2327',
+  muted: '#5c6770',
+  critical: '#b3261e',
+  warning: '#8a5a00',
+  info: '#1f5f99',
+  rule: '#d9dee2',
+  panel: '#f4f6f7',
+};
 
 export function paragraph(html: string): string {
   return `<p style="margin:0 0 12px 0;line-height:1.5">${html}</p>`;

@@ -9,7 +9,10 @@ import { findByCode } from './by-code';
 export const batchResolver: ScanResolver = {
   type: 'batch',
   async resolve({ code }) {
-    const row = await findByCode(code, async (c) => (await db.select({ id: buildBatches.id }).from(buildBatches).where(eq(buildBatches.code, c)))[0]);
+    const row = await findByCode(
+      code,
+      async (c) => (await db.select({ id: buildBatches.id }).from(buildBatches).where(eq(buildBatches.code, c)))[0],
+    );
     if (!row) return null;
     const { row: b, batch } = await findBatch(db, row.id);
     const next = (await batchProgress(db, b)).pending[0];

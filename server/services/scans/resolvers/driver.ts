@@ -9,7 +9,10 @@ import { findByCode } from './by-code';
 export const driverResolver: ScanResolver = {
   type: 'driver',
   async resolve({ code }) {
-    const row = await findByCode(code, async (c) => (await db.select({ serial: drivers.serial }).from(drivers).where(eq(drivers.serial, c)))[0]);
+    const row = await findByCode(
+      code,
+      async (c) => (await db.select({ serial: drivers.serial }).from(drivers).where(eq(drivers.serial, c)))[0],
+    );
     if (!row) return null;
     const { driver, batch } = await findDriverWithBatch(db, row.serial);
     return { type: 'driver', driver, batch };

@@ -26,7 +26,11 @@ export const gs1Resolver: ScanResolver = {
     if (!gs1Symbology && !looksLikeGs1(code)) return null;
     const parsed = parse(code);
     const [material] = parsed.gtin
-      ? await db.select({ id: materials.id, code: materials.code, name: materials.name }).from(materials).where(eq(materials.gtin, parsed.gtin)).limit(1)
+      ? await db
+          .select({ id: materials.id, code: materials.code, name: materials.name })
+          .from(materials)
+          .where(eq(materials.gtin, parsed.gtin))
+          .limit(1)
       : [];
     return {
       type: 'gs1',
