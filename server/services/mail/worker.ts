@@ -67,7 +67,9 @@ async function claimOne(workerId: string, now: Date, leaseMs: number, only?: str
   const result = await db.execute<ClaimedRow>(sql`
     WITH picked AS (
       SELECT id, status AS was FROM outgoing_emails
-      WHERE ((status = 'queued' AND next_attempt_at <= ${now}) OR (status = 'sending' AND lease_until < ${now}))
+      -- PostgreSQL keeps microseconds and a JS Date milliseconds: a row queued within the same
+      -- millisecond as \`now\` is due too (not left for the next round).
+      WHERE ((status = 'queued' AND next_attempt_at < ${now}::timestamptz + interval '1 millisecond') OR (status = 'sending' AND lease_until < ${now}))
         ${onlyFilter}
       ORDER BY next_attempt_at, created_at
       LIMIT 1
