@@ -133,27 +133,9 @@ export function containerExpiry(
   return earliestOf(out);
 }
 
-/**
- * Expiry of a mix: mixedAt + potLifeMinutes (pass temperature-adjusted minutes where known).
- * A mix cannot outlive its parts: pass the components' results to include their earliest limits.
- */
-export function mixExpiry(mixedAt: string, potLifeMinutes: number, components: ExpiryResult[] = []): ExpiryResult {
-  const minutes = nonNegative(potLifeMinutes, 'potLifeMinutes');
-  const out: ExpiryCandidate[] = [{ cause: 'pot_life', at: plusHours(mixedAt, minutes / 60, 'mixedAt') }];
-  for (const c of components) if (c.at && c.cause) out.push({ cause: c.cause, at: c.at });
-  return earliestOf(out);
-}
-
 /** Expired when now is at or past the effective expiry. Nothing limits a null expiry. */
 export function isExpired(result: ExpiryResult, now: Date): boolean {
   return result.at !== null && now.getTime() >= Date.parse(result.at);
-}
-
-/** Not yet expired, but will be within `days` days (24 h each) from now. */
-export function expiresWithin(result: ExpiryResult, now: Date, days: number): boolean {
-  nonNegative(days, 'days');
-  if (result.at === null || isExpired(result, now)) return false;
-  return Date.parse(result.at) <= now.getTime() + days * 86_400_000;
 }
 
 /**

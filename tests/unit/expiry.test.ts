@@ -1,14 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import {
-  containerExpiry,
-  expiresWithin,
-  fefoOrder,
-  isExpired,
-  lotExpiry,
-  mixExpiry,
-  type ExpiryMaterial,
-  type ExpiryResult,
-} from '../../shared/expiry';
+import { containerExpiry, fefoOrder, isExpired, lotExpiry, type ExpiryMaterial } from '../../shared/expiry';
 import { parseGs1 } from '../../shared/gs1';
 
 const none: ExpiryMaterial = {
@@ -125,30 +116,6 @@ describe('container expiry', () => {
     const r = containerExpiry(none, { receivedAt: '2025-05-01T08:00:00Z' }, { openedAt: '2025-05-02T00:00:00Z', thawedAt: null });
     expect(r).toEqual({ at: null, cause: null, candidates: [] });
     expect(isExpired(r, at('2099-01-01T00:00:00Z'))).toBe(false);
-    expect(expiresWithin(r, at('2099-01-01T00:00:00Z'), 10_000)).toBe(false);
-  });
-});
-
-describe('mix expiry', () => {
-  it('pot life runs from mixing (ASTM D907 "pot life")', () => {
-    const r = mixExpiry('2025-06-05T09:15:00Z', 45);
-    expect(r).toMatchObject({ cause: 'pot_life', at: '2025-06-05T10:00:00.000Z' });
-    expect(mixExpiry('2025-06-05T09:15:00Z', 22.5).at).toBe('2025-06-05T09:37:30.000Z');
-  });
-
-  it('a mix cannot outlive a component that expires first', () => {
-    const part: ExpiryResult = { at: '2025-06-05T09:30:00.000Z', cause: 'open_life', candidates: [] };
-    expect(mixExpiry('2025-06-05T09:15:00Z', 45, [part])).toMatchObject({ cause: 'open_life', at: part.at });
-    expect(() => mixExpiry('2025-06-05T09:15:00Z', -5)).toThrow(RangeError);
-  });
-});
-
-describe('expiresWithin', () => {
-  const r: ExpiryResult = { at: '2025-07-01T00:00:00.000Z', cause: 'shelf_life', candidates: [] };
-  it('is true only for not-yet-expired material inside the window', () => {
-    expect(expiresWithin(r, at('2025-06-01T00:00:00Z'), 30)).toBe(true);
-    expect(expiresWithin(r, at('2025-06-01T00:00:00Z'), 29)).toBe(false);
-    expect(expiresWithin(r, at('2025-07-01T00:00:00Z'), 30)).toBe(false); // already expired
   });
 });
 

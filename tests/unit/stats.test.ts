@@ -6,13 +6,12 @@ import {
   binomialCdf,
   binomialPmf,
   binomialTestGreater,
-  binomialTestTwoSided,
   binomialUpperTail,
-  clopperPearson,
   flagLots,
   pChart,
   pChartLimits,
 } from '../../shared/stats';
+import { binomialTestTwoSided, clopperPearson } from '../helpers/binomial-reference';
 
 /** Small seeded PRNG (mulberry32) so the random cross-checks are repeatable. */
 function rng(seed: number): () => number {
