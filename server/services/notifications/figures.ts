@@ -11,6 +11,8 @@ import { alerts, buildBatches, containers, lots, materials, recipeSteps, stepRun
 import { formatDateTime, formatDuration } from '../../../shared/plant-time';
 import { alertKindWords } from '../../../shared/notifications';
 import { lotExpirySql } from '../lots/expiry-sql';
+import { purchasingFiguresFromStock } from '../stock/digest-figures';
+import { logger } from '../../logger';
 import type { DigestItem, PurchasingFigures, QualityFigures } from '../mail/templates/digest';
 
 export type PurchasingFiguresSource = (tx: DbOrTx, now: Date, zone: string) => Promise<PurchasingFigures>;
@@ -92,15 +94,23 @@ export async function purchasingFiguresFromAlerts(tx: DbOrTx, now: Date, zone: s
   };
 }
 
-let purchasingSource: PurchasingFiguresSource = purchasingFiguresFromAlerts;
+// The stock figures of the purchasing work (FEFO simulation), as the Stock page shows them.
+let purchasingSource: PurchasingFiguresSource = purchasingFiguresFromStock;
 
-/** Plugs in another source of purchasing figures (null: back to the alerts and lots). */
+/** Plugs in another source of purchasing figures (null: back to the stock figures). */
 export function setPurchasingFiguresSource(source: PurchasingFiguresSource | null): void {
-  purchasingSource = source ?? purchasingFiguresFromAlerts;
+  purchasingSource = source ?? purchasingFiguresFromStock;
 }
 
-export function purchasingFigures(tx: DbOrTx, now: Date, zone: string): Promise<PurchasingFigures> {
-  return purchasingSource(tx, now, zone);
+/** Purchasing's figures; if the stock computation fails, the digest still goes with the alerts' figures. */
+export async function purchasingFigures(tx: DbOrTx, now: Date, zone: string): Promise<PurchasingFigures> {
+  try {
+    return await purchasingSource(tx, now, zone);
+  } catch (err) {
+    if (purchasingSource === purchasingFiguresFromAlerts) throw err;
+    logger.error({ err }, 'digest: the stock figures failed; using the alerts and lots instead');
+    return purchasingFiguresFromAlerts(tx, now, zone);
+  }
 }
 
 /** Quality's figures: open alerts by kind, lots waiting for inspection, short cures of the last day. */

@@ -296,6 +296,11 @@ export async function expiryOutlookCsv(actor: Actor, weeks: number, now = new Da
 /** The purchasing home page: run-outs inside lead time, predicted waste this month, lots expiring soon. */
 export async function stockToday(actor: Actor, now = new Date()): Promise<StockToday> {
   requirePermission(actor, 'stock.read');
+  return todayFigures(now);
+}
+
+/** The three things of purchasing's day (also the purchasing part of the daily digest). */
+export async function todayFigures(now = new Date()): Promise<StockToday> {
   const { list, settings } = await models(db, now);
   const monthEnd = DateTime.fromJSDate(now).setZone(PLANT_ZONE).endOf('month').plus({ milliseconds: 1 }).toMillis();
   const soon = now.getTime() + settings.expiringSoonDays * 86_400_000;
