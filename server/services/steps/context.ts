@@ -1,6 +1,6 @@
-import { and, desc, eq, isNotNull, isNull } from 'drizzle-orm';
+import { and, asc, desc, eq, isNotNull, isNull } from 'drizzle-orm';
 import type { Tx } from '../../db/client';
-import { drivers, stations, stepRuns } from '../../db/schema';
+import { deviations, drivers, stations, stepRuns } from '../../db/schema';
 import { AppError, conflict } from '../../errors';
 import type { RecipeStep } from '../../../shared/schemas/models';
 import { findStation } from '../stations';
@@ -97,4 +97,19 @@ export async function openRun(tx: Tx, ctx: StepContext): Promise<StepRunRow | nu
     )
     .for('update');
   return run ?? null;
+}
+
+/**
+ * The oldest unused deviation of `kind` that quality signed for this batch step, locked so two
+ * requests cannot both use it (early start before full cure, a short UV dose, …); undefined when none.
+ */
+export async function claimableDeviation(tx: Tx, batchId: string, stepId: string, kind: string) {
+  const [deviation] = await tx
+    .select()
+    .from(deviations)
+    .where(and(eq(deviations.batchId, batchId), eq(deviations.stepId, stepId), eq(deviations.kind, kind), isNull(deviations.usedAt)))
+    .orderBy(asc(deviations.signedAt))
+    .limit(1)
+    .for('update');
+  return deviation;
 }

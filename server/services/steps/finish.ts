@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, isNotNull, isNull, lte } from 'drizzle-orm';
+import { and, desc, eq, isNotNull, isNull, lte } from 'drizzle-orm';
 import { db, type DbOrTx } from '../../db/client';
 import { deviations, readings, stationLoads, stepRunMaterials, stepRuns } from '../../db/schema';
 import { conflict, fieldError } from '../../errors';
@@ -12,7 +12,7 @@ import type { StepRun } from '../../../shared/schemas/steps';
 import { profilesForRuns, cureOfRun } from '../cure/compute';
 import { consumeForRun } from './consume';
 import { describeRun } from './describe';
-import { openRun, stepContext, type StepActionRequest } from './context';
+import { claimableDeviation, openRun, stepContext, type StepActionRequest } from './context';
 
 /**
  * Finishes a running step: records what was consumed (amountPerUnit × units, FEFO across what is
@@ -136,20 +136,7 @@ async function uvDoseCheck(
   };
   if (lamp && dose >= needed) return record;
 
-  const [deviation] = await tx
-    .select()
-    .from(deviations)
-    .where(
-      and(
-        eq(deviations.batchId, ctx.batch.id),
-        eq(deviations.stepId, ctx.step.id),
-        eq(deviations.kind, 'uv_dose_low'),
-        isNull(deviations.usedAt),
-      ),
-    )
-    .orderBy(asc(deviations.signedAt))
-    .limit(1)
-    .for('update');
+  const deviation = await claimableDeviation(tx, ctx.batch.id, ctx.step.id, 'uv_dose_low');
   if (!deviation) {
     const fmt = (n: number) => String(Math.round(n)).replace(/\B(?=(\d{3})+(?!\d))/g, ',');
     throw conflict(

@@ -1,4 +1,4 @@
-import { and, asc, eq, isNull } from 'drizzle-orm';
+import { and, eq, isNull } from 'drizzle-orm';
 import { db, type Tx } from '../../db/client';
 import { buildBatches, deviations, stationLoads, stepRunMaterials, stepRuns } from '../../db/schema';
 import { conflict } from '../../errors';
@@ -10,7 +10,7 @@ import { checkContainerUsable, checkMixUsable, containersByIds, mixesByIds } fro
 import { describeRun } from './describe';
 import { plantTime } from '../../plant-time';
 import { formatRelative } from '../../../shared/plant-time';
-import { openRun, recomputeCure, runToWaitFor, stepContext, type StepActionRequest, type StepContext } from './context';
+import { claimableDeviation, openRun, recomputeCure, runToWaitFor, stepContext, type StepActionRequest, type StepContext } from './context';
 
 /** The gate names the moment in plant time, with how long is left: "Thu 07:25, in 27 h 10 min". */
 function when(iso: string, now: Date): string {
@@ -54,20 +54,7 @@ async function cureGate(tx: Tx, ctx: StepContext, now: Date, actor: Actor): Prom
   if (!cure || (cure.cureCompleteAt !== null && Date.parse(cure.cureCompleteAt) <= now.getTime()))
     return { shortCure: false, deviationId: null };
 
-  const [deviation] = await tx
-    .select()
-    .from(deviations)
-    .where(
-      and(
-        eq(deviations.batchId, ctx.batch.id),
-        eq(deviations.stepId, ctx.step.id),
-        eq(deviations.kind, 'early_start'),
-        isNull(deviations.usedAt),
-      ),
-    )
-    .orderBy(asc(deviations.signedAt))
-    .limit(1)
-    .for('update');
+  const deviation = await claimableDeviation(tx, ctx.batch.id, ctx.step.id, 'early_start');
   if (!deviation) {
     throw conflict(
       'CURE_INCOMPLETE',
