@@ -15,7 +15,7 @@ export default defineConfig({
     // them by Accept-Encoding), so no request pays for compression.
     compression({
       include: /\.(js|mjs|css|html|svg|json|txt)$/,
-      threshold: 1024,
+      threshold: 0,
       algorithms: [defineAlgorithm('gzip', { level: 9 }), defineAlgorithm('brotliCompress')],
       logLevel: 'silent',
     }),
