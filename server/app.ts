@@ -19,6 +19,9 @@ export interface AppOptions {
 export function createApp(options: AppOptions = {}): Express {
   const app = express();
   app.disable('x-powered-by');
+  // No ETag on API answers: they are JSON for one request, and hashing every body (a trace can be
+  // hundreds of KB) cost CPU for nothing. The built client's files carry their own (server/static.ts).
+  app.set('etag', false);
   // X-Forwarded-For is believed only from a proxy the operator named (TACKLOG_TRUST_PROXY).
   app.set('trust proxy', config.trustProxy);
   app.use(

@@ -11,7 +11,10 @@ import { logger } from './logger';
 /** Starts the HTTP server (API and built client) on 127.0.0.1:PORT. */
 export async function startServer(options: { serveClient?: boolean; port?: number } = {}): Promise<Server> {
   const { createApp } = await import('./app');
+  const { startSessionCache } = await import('./services/auth/session-cache');
   const app = createApp({ serveClient: options.serveClient ?? true });
+  // Without the database at start it keeps trying in the background; requests ask the database meanwhile.
+  await startSessionCache();
   const port = options.port ?? config.port;
   return new Promise((resolve, reject) => {
     const server = app.listen(port, config.host, () => resolve(server));
@@ -92,6 +95,7 @@ async function serve(withWatch: boolean) {
   keepRunningThroughDatabaseOutages();
   const server = await startServer({ serveClient: process.env.TACKLOG_SERVE_CLIENT !== '0' });
   const { closeDb } = await import('./db/client');
+  const { stopSessionCache } = await import('./services/auth/session-cache');
   const addr = server.address();
   const port = typeof addr === 'object' && addr ? addr.port : config.port;
   if (!cluster.isWorker) logger.info(`Tacklog listening on http://${config.host}:${port}`);
@@ -100,7 +104,7 @@ async function serve(withWatch: boolean) {
     if (!cluster.isWorker) logger.info(`${signal}: stopping`);
     stopWatch();
     server.close(() => {
-      closeDb().finally(() => process.exit(0));
+      Promise.all([closeDb(), stopSessionCache()]).finally(() => process.exit(0));
     });
     setTimeout(() => process.exit(0), 5000).unref();
   };

@@ -9,6 +9,7 @@ import type { Actor } from './actor';
 import { signSessionToken, type SessionClaims } from './tokens';
 import { recordAudit } from '../audit';
 import { logger } from '../../logger';
+import { cacheGeneration, cachedActor, forgetSession, forgetUser, remember } from './session-cache';
 
 // A hash to compare against when the e-mail is unknown, so both paths take the same time.
 const DUMMY_HASH = bcrypt.hashSync('not-a-real-password', 10);
@@ -63,7 +64,7 @@ export async function login(input: LoginInput): Promise<{ token: string; user: U
  * parses and plans it once (session by primary key joined to its user, only what an actor needs).
  */
 const actorBySession = db
-  .select({ id: users.id, email: users.email, name: users.name, roles: users.roles })
+  .select({ id: users.id, email: users.email, name: users.name, roles: users.roles, expiresAt: sessions.expiresAt })
   .from(sessions)
   .innerJoin(users, eq(users.id, sessions.userId))
   .where(
@@ -79,12 +80,19 @@ const actorBySession = db
   .prepare('auth_actor_by_session');
 
 /**
- * The actor for a session token's claims: one indexed lookup (session by primary key joined to
- * its user). Null when the session was revoked or has expired, or the user is gone or disabled.
+ * The actor for a session token's claims: remembered by this process (see session-cache.ts), or
+ * one indexed lookup (session by primary key joined to its user). Null when the session was
+ * revoked or has expired, or the user is gone or disabled.
  */
 export async function actorForSession(claims: SessionClaims): Promise<Actor | null> {
+  const known = cachedActor(claims.sessionId, claims.userId);
+  if (known) return known;
+  const readAt = cacheGeneration();
   const [row] = await actorBySession.execute({ sessionId: claims.sessionId, userId: claims.userId });
-  return row ? { ...toUser(row), sessionId: claims.sessionId } : null;
+  if (!row) return null;
+  const actor: Actor = { ...toUser(row), sessionId: claims.sessionId };
+  remember(claims.sessionId, actor, row.expiresAt, readAt);
+  return actor;
 }
 
 /** POST /api/auth/logout: this session's token (bearer or cookie) stops working at once. */
@@ -98,6 +106,7 @@ export async function logout(actor: Actor): Promise<void> {
       .returning({ id: sessions.id });
     if (ended.length) await recordAudit(tx, { actorId: actor.id, action: 'logout', entityType: 'user', entityId: actor.id });
   });
+  forgetSession(actor.sessionId);
 }
 
 /**
@@ -117,7 +126,7 @@ export async function changePassword(actor: Actor, input: PasswordChangeInput): 
     ]);
   }
   const passwordHash = await hashPassword(input.newPassword);
-  return db.transaction(async (tx) => {
+  const result = await db.transaction(async (tx) => {
     const now = new Date();
     await tx.update(users).set({ passwordHash, updatedAt: now }).where(eq(users.id, actor.id));
     const others = actor.sessionId ? ne(sessions.id, actor.sessionId) : undefined;
@@ -135,4 +144,6 @@ export async function changePassword(actor: Actor, input: PasswordChangeInput): 
     });
     return { endedSessions: ended.length };
   });
+  forgetUser(actor.id);
+  return result;
 }
