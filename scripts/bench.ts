@@ -149,6 +149,36 @@ async function startApp(url: string, jwtSecret: string, workers: number): Promis
   return { base, child, stop };
 }
 
+/**
+ * For scale: the same load client against an Express app that only parses JSON and answers
+ * (scripts/bench/bare-express.ts) — what this machine allows an Express request before any work.
+ */
+async function measureBareExpress(clients: number, warmupMs: number, seconds: number): Promise<LoadResult> {
+  const port = await freePort();
+  const child = spawn(process.execPath, ['--import', 'tsx', path.join(root, 'scripts', 'bench', 'bare-express.ts')], {
+    cwd: root,
+    stdio: ['ignore', 'pipe', 'inherit'],
+    env: { ...process.env, PORT: String(port), NODE_ENV: 'production' },
+  });
+  try {
+    await new Promise<void>((resolve, reject) => {
+      child.stdout!.on('data', (b: Buffer) => b.toString().includes('ready') && resolve());
+      child.on('exit', (code) => reject(new Error(`the bare Express app exited (code ${code})`)));
+    });
+    const http = httpClient(`http://127.0.0.1:${port}`, clients);
+    try {
+      return await closedLoop(clients, warmupMs, seconds * 1000, async () => {
+        const reply = await http.request('POST', '/echo', { code: 'TLC-00000000' });
+        if (reply.status !== 200) throw new Error(`bare Express: ${reply.status}`);
+      });
+    } finally {
+      http.close();
+    }
+  } finally {
+    await stopChild(child);
+  }
+}
+
 async function signIn(base: string, email: string, password: string): Promise<string> {
   const login = await fetch(`${base}/api/auth/login`, {
     method: 'POST',
@@ -290,6 +320,9 @@ runMain(async () => {
   const selectOnly = await pgbenchRun(pgbench, pgbUrl, { clients, seconds, select: true });
   await dropDatabase(server, pgbName);
   log(`pgbench: TPC-B-like ${tpcb.tps.toFixed(0)} tps, select-only ${selectOnly.tps.toFixed(0)} tps`);
+
+  const ceiling = await measureBareExpress(clients, warmupMs, seconds);
+  log(`bare Express (JSON in, JSON out, no database): ${ceiling.perSec.toFixed(0)} requests/s, p99 ${ceiling.p99.toFixed(1)} ms`);
 
   const jwtSecret = crypto.randomBytes(32).toString('hex');
 
@@ -458,6 +491,7 @@ runMain(async () => {
     lotTraceP95Ms: +l.api.p95.toFixed(1),
     lotTraceRatio: +(l.api.p95 / l.sql.p95).toFixed(2),
     workers: best.w,
+    bareExpressPerSec: Math.round(ceiling.perSec),
   };
 
   console.log('');
@@ -545,6 +579,10 @@ runMain(async () => {
   }
   console.log(
     `  (for scale: GET /api/auth/me, the session check alone, p50 ${floor.p50.toFixed(1)} ms, p95 ${floor.p95.toFixed(1)} ms; server log in .tmp/bench-server-*.log)`,
+  );
+  console.log(
+    `  (for scale: a bare Express app — JSON in, JSON out, no database — answers ${Math.round(ceiling.perSec)}/s at ${clients} clients, p99 ${ceiling.p99.toFixed(1)} ms: ` +
+      `${(ceiling.perSec / selectOnly.tps).toFixed(3)} × pgbench select-only; a scan lookup reaches ${((best.r.lookup.perSec / ceiling.perSec) * 100).toFixed(0)} % of it)`,
   );
   console.log('');
   console.log(JSON.stringify(result));
