@@ -191,6 +191,15 @@ describe('quality: alerts by severity, awaiting inspection, failures today, quar
     // The same live alerts the alerts page lists for this person, by kind.
     const listed = await as(engineer).get('/api/alerts?state=live&kind=quarantine_advised&limit=1');
     expect(listed.body.total).toBe(after.quarantineAdvised);
+    // Each severity tile links to the alerts list filtered by that severity: the same count there.
+    for (const s of after.alerts) {
+      const page = await as(engineer).get(`/api/alerts?state=live&severity=${s.severity}&limit=500`);
+      expect(page.body.total, s.severity).toBe(s.live);
+      expect(new Set(page.body.items.map((a: { severity: string }) => a.severity))).toEqual(new Set(s.live ? [s.severity] : []));
+    }
+    const bad = await as(engineer).get('/api/alerts?severity=urgent');
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.details[0].field).toBe('query.severity');
   });
 });
 
