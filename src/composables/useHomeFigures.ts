@@ -8,23 +8,33 @@ import { alignWithServer } from './useNow';
 
 /** The home page reads its figures again this often, and whenever the window comes back into view. */
 export const HOME_REFRESH_MS = 60_000;
+/** Coming back to the window fires both focus and visibilitychange: one read within this gap is enough. */
 const RETURN_GAP_MS = 2_000;
 
+type Fetcher = (query: { stationId?: string | null }, signal: AbortSignal) => Promise<HomeFigures>;
+
+/** What the figures listen to for "the person is back": the window (focus) and the document (visibility). */
+export interface ReturnSignals {
+  window: Pick<Window, 'addEventListener' | 'removeEventListener'>;
+  document: Pick<Document, 'addEventListener' | 'removeEventListener' | 'visibilityState'>;
+}
+
 /**
- * The home page's live figures: read on mount, every minute, and when the window gets the focus
- * or becomes visible again. A newer request replaces an older one (a late answer never
- * overwrites a newer one); a failed refresh keeps the last figures on screen and says so.
+ * The home page's live figures: `start()` reads them, then every minute and whenever the window
+ * gets the focus or becomes visible again; `stop()` ends that. A newer request replaces an older
+ * one (a late answer never overwrites a newer one); a failed refresh keeps the last figures on
+ * screen and says so.
  */
-export function useHomeFigures() {
+export function createHomeFigures(fetcher: Fetcher = getHomeFigures, signals?: ReturnSignals, clock: () => number = Date.now) {
   const figures = shallowRef<HomeFigures | null>(null);
   const loading = ref(false);
   const problem = ref('');
   let controller: AbortController | null = null;
   let timer: ReturnType<typeof setInterval> | undefined;
-  let lastStart = 0;
+  let lastStart = Number.NEGATIVE_INFINITY;
 
   async function load(): Promise<void> {
-    lastStart = Date.now();
+    lastStart = clock();
     controller?.abort();
     const mine = new AbortController();
     controller = mine;
@@ -32,7 +42,7 @@ export function useHomeFigures() {
     try {
       // The station this device is set to, as the station screen remembers it.
       const station = readStored<Pick<Station, 'id'>>(CURRENT_STATION_KEY);
-      const next = await getHomeFigures({ stationId: station?.id ?? null }, mine.signal);
+      const next = await fetcher({ stationId: station?.id ?? null }, mine.signal);
       if (controller !== mine) return;
       alignWithServer(next.now);
       figures.value = next;
@@ -48,23 +58,31 @@ export function useHomeFigures() {
     }
   }
 
-  /** Coming back to the window fires both focus and visibilitychange: one read is enough. */
   function onReturn() {
-    if (document.visibilityState === 'visible' && Date.now() - lastStart > RETURN_GAP_MS) void load();
+    if (signals?.document.visibilityState === 'visible' && clock() - lastStart > RETURN_GAP_MS) void load();
   }
 
-  onMounted(() => {
+  function start() {
     void load();
     timer = setInterval(() => void load(), HOME_REFRESH_MS);
-    window.addEventListener('focus', onReturn);
-    document.addEventListener('visibilitychange', onReturn);
-  });
-  onBeforeUnmount(() => {
+    signals?.window.addEventListener('focus', onReturn);
+    signals?.document.addEventListener('visibilitychange', onReturn);
+  }
+
+  function stop() {
     clearInterval(timer);
     controller?.abort();
-    window.removeEventListener('focus', onReturn);
-    document.removeEventListener('visibilitychange', onReturn);
-  });
+    signals?.window.removeEventListener('focus', onReturn);
+    signals?.document.removeEventListener('visibilitychange', onReturn);
+  }
 
-  return { figures, loading, problem, load };
+  return { figures, loading, problem, load, start, stop };
+}
+
+/** The home page's figures, read while the page is shown (see createHomeFigures). */
+export function useHomeFigures() {
+  const home = createHomeFigures(getHomeFigures, { window, document });
+  onMounted(home.start);
+  onBeforeUnmount(home.stop);
+  return home;
 }
