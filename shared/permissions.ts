@@ -82,6 +82,19 @@ export const PERMISSIONS = {
   'mail.readAll': ['admin'],
   'notifications.manageAll': ['admin'],
   'notifications.sendDigest': ['admin'],
+
+  // Home page: one section of figures per role, each for that role alone (a person with two
+  // roles sees both sections; an administrator does not see the others' days).
+  /** Lots received today and lots on hold. */
+  'home.receiving': ['receiving'],
+  /** My station's batch and the cures ending soon. */
+  'home.assembler': ['assembler'],
+  /** Live alerts by severity, lots awaiting inspection, failures today, quarantine advised. */
+  'home.quality': ['quality'],
+  /** Run-outs inside lead time, waste predicted this month, lots expiring soon. */
+  'home.purchasing': ['purchasing'],
+  /** Users, stations and the state of the audit chain. */
+  'home.admin': ['admin'],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Action = keyof typeof PERMISSIONS;

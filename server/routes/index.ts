@@ -27,6 +27,7 @@ import { auditRouter } from './audit';
 import { qualityRouter } from './quality';
 import { stockRouter } from './stock';
 import { mailRouter } from './mail';
+import { homeRouter } from './home';
 import { meRouter, notificationsRouter, userNotificationsRouter } from './notifications';
 
 /** Every API router, mounted under /api. Add a domain's router here. */
@@ -65,3 +66,4 @@ apiRouter.use('/compliance', complianceRouter);
 apiRouter.use('/audit', auditRouter);
 apiRouter.use('/quality', qualityRouter);
 apiRouter.use('/stock', stockRouter);
+apiRouter.use('/home', homeRouter);

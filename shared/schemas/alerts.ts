@@ -32,6 +32,7 @@ export type Alert = z.infer<typeof alertSchema>;
 export const alertListQuerySchema = z.object({
   state: z.enum([...ALERT_STATES, 'live'] as const).optional(),
   kind: z.string().trim().min(1).max(60).optional(),
+  severity: z.enum(ALERT_SEVERITIES).optional(),
   limit: z.coerce.number().int().min(1).max(500).default(100),
   offset: z.coerce.number().int().min(0).default(0),
 });

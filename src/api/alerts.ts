@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { alertListSchema, alertSchema, complianceRunResultSchema, type Alert, type ComplianceRunResult } from '@shared/schemas/alerts';
+import type { AlertSeverity } from '@shared/constants';
 import { apiFetch } from './http';
 
 export type AlertStateFilter = 'live' | 'open' | 'acknowledged' | 'resolved';
@@ -10,6 +11,7 @@ export interface AlertQuery {
   /** 'live' = open and acknowledged; absent = every state. */
   state?: AlertStateFilter;
   kind?: string | null;
+  severity?: AlertSeverity | null;
 }
 
 const alertResultSchema = z.object({ alert: alertSchema });
@@ -17,7 +19,7 @@ const alertResultSchema = z.object({ alert: alertSchema });
 /** GET /api/alerts (signed in): the alerts for the user's roles (all for an administrator), newest first. */
 export function listAlerts(query: AlertQuery, signal?: AbortSignal): Promise<z.infer<typeof alertListSchema>> {
   return apiFetch('/api/alerts', {
-    query: { limit: query.limit, offset: query.offset, state: query.state, kind: query.kind },
+    query: { limit: query.limit, offset: query.offset, state: query.state, kind: query.kind, severity: query.severity },
     schema: alertListSchema,
     signal,
   });

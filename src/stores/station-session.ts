@@ -17,13 +17,13 @@ import { usePlantStore } from './plant';
 import { formatTime } from '@shared/plant-time';
 import { feedback, queuedFeedback, refusalFeedback, type StationFeedback } from './station-feedback';
 import { cureGateBefore, interpretScan, stepAtStation } from './station-scan';
-import { readStored, writeStored } from './station-storage';
+import { CURRENT_STATION_KEY, readStored, writeStored } from './station-storage';
 import { sendStationAction, type LoadPayload, type MixPayload, type StepPayload, type UnloadPayload } from './station-actions';
 
 export type { StationFeedback };
 
 const KEYS = {
-  station: 'tacklog.station.current',
+  station: CURRENT_STATION_KEY,
   stations: 'tacklog.station.stations',
   traveler: 'tacklog.station.traveler',
   queue: 'tacklog.station.queue',

@@ -2,6 +2,9 @@
  * The station screen remembers its station, the station list, the current traveler and its
  * queue on this device (localStorage), so it comes back after a reload or without a network.
  */
+/** Where the station screen keeps the station this device is set to (the home page reads it too). */
+export const CURRENT_STATION_KEY = 'tacklog.station.current';
+
 function storage(): Storage | null {
   try {
     return typeof localStorage === 'undefined' ? null : localStorage;

@@ -130,6 +130,8 @@ const EXPECTED: Record<string, Access> = {
   'POST /api/audit/verify': 'audit.verify',
   'GET /api/quality/overview': 'quality.overview',
   'POST /api/quality/baseline': 'quality.overrideBaseline',
+  // Open to everyone signed in; each section inside is checked against the map's home.<role> actions.
+  'GET /api/home': 'signed-in',
 };
 
 /** Roles allowed by an access; null for public (no session needed). */

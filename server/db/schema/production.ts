@@ -174,6 +174,8 @@ export const testResults = pgTable(
   },
   (t) => [
     index('test_results_driver_idx').on(t.driverId, t.testedAt),
+    // Tests of one plant day (the quality home page's failures today) without reading every test.
+    index('test_results_tested_at_idx').on(t.testedAt),
     check('test_results_defect_ck', sql`${t.result} = 'pass' OR ${t.defectCode} IS NOT NULL`),
   ],
 );

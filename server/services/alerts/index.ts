@@ -50,6 +50,7 @@ export async function listAlerts(actor: Actor, query: AlertListQuery): Promise<{
   if (query.state === 'live') filters.push(ne(alerts.state, 'resolved'));
   else if (query.state) filters.push(eq(alerts.state, query.state));
   if (query.kind) filters.push(eq(alerts.kind, query.kind));
+  if (query.severity) filters.push(eq(alerts.severity, query.severity));
   if (!can(actor.roles, 'alerts.readAll')) filters.push(arrayOverlaps(alerts.audience, actor.roles));
   const where = filters.length ? and(...filters) : undefined;
   const [rows, [{ n }]] = await Promise.all([

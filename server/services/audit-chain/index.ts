@@ -5,6 +5,7 @@ import { db, type DbOrTx } from '../../db/client';
 import type { AuditItem, AuditPage, AuditQuery, AuditVerifyResult } from '../../../shared/schemas/audit';
 import { requirePermission, type Actor } from '../auth/actor';
 import { config } from '../../config';
+import { recordAuditCheck } from './last-check';
 
 const BATCH = 5000;
 
@@ -65,10 +66,15 @@ export async function verifyAuditChain(tx: DbOrTx = db): Promise<AuditVerifyResu
   return { ok: true, checked, firstBroken: null };
 }
 
-/** POST /api/audit/verify. */
-export function verifyAuditChainFor(actor: Actor): Promise<AuditVerifyResult> {
+/**
+ * POST /api/audit/verify. The result is kept as the chain's last check (shown on the
+ * administrator's home page; the watch's daily check counts its day from it).
+ */
+export async function verifyAuditChainFor(actor: Actor, now = new Date()): Promise<AuditVerifyResult> {
   requirePermission(actor, 'audit.verify');
-  return verifyAuditChain();
+  const result = await verifyAuditChain();
+  await recordAuditCheck(db, result, now);
+  return result;
 }
 
 /** A filter's `from`/`to`: a plant date (start of that day, or the end of it for `to`) or an instant. */

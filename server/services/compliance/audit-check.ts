@@ -1,21 +1,13 @@
-import { eq, sql } from 'drizzle-orm';
 import type { DbOrTx } from '../../db/client';
-import { settings } from '../../db/schema';
 import { verifyAuditChain } from '../audit-chain';
+import { lastAuditCheck, recordAuditCheck } from '../audit-chain/last-check';
+import type { AuditCheck } from '../../../shared/schemas/home';
 import type { Finding } from './findings';
 
 /** The watch walks the whole audit chain at most once in this many hours. */
 const VERIFY_EVERY_HOURS = 24;
-const LAST_CHECK_KEY = 'auditChainLastCheck';
 
-interface LastCheck {
-  at: string;
-  ok: boolean;
-  checked: number;
-  firstBroken: { id: number; at: string; problem: string } | null;
-}
-
-function finding(check: LastCheck): Finding[] {
+function finding(check: AuditCheck): Finding[] {
   if (check.ok || !check.firstBroken) return [];
   const b = check.firstBroken;
   return [
@@ -36,14 +28,7 @@ function finding(check: LastCheck): Finding[] {
  * critical alert for quality and admin (it stays until a person resolves it).
  */
 export async function auditChainBroken(tx: DbOrTx, now: Date): Promise<Finding[]> {
-  const [row] = await tx.select({ value: settings.value }).from(settings).where(eq(settings.key, LAST_CHECK_KEY));
-  const last = row?.value as LastCheck | undefined;
+  const last = await lastAuditCheck(tx);
   if (last && now.getTime() - new Date(last.at).getTime() < VERIFY_EVERY_HOURS * 3_600_000) return finding(last);
-  const result = await verifyAuditChain(tx);
-  const check: LastCheck = { at: now.toISOString(), ...result };
-  await tx
-    .insert(settings)
-    .values({ key: LAST_CHECK_KEY, value: check })
-    .onConflictDoUpdate({ target: settings.key, set: { value: check, updatedAt: sql`now()` } });
-  return finding(check);
+  return finding(await recordAuditCheck(tx, await verifyAuditChain(tx), now));
 }

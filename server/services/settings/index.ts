@@ -23,6 +23,10 @@ export const SETTING_DEFAULTS = {
   baselineMinTested: 200,
   /** A UV lamp whose last radiometer reading is older than this many days raises "radiometer check due". */
   lampCheckDays: 7,
+  /** The assembler's home page lists cures ending within this many hours … */
+  homeCureSoonHours: 4,
+  /** … the first this many of them by name (the count covers them all). */
+  homeCureSoonShown: 5,
 } as const;
 
 export type SettingKey = keyof typeof SETTING_DEFAULTS;

@@ -1,0 +1,1 @@
+CREATE INDEX "test_results_tested_at_idx" ON "test_results" USING btree ("tested_at");
