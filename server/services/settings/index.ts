@@ -23,6 +23,8 @@ export const SETTING_DEFAULTS = {
   baselineMinTested: 200,
   /** A UV lamp whose last radiometer reading is older than this many days raises "radiometer check due". */
   lampCheckDays: 7,
+  /** A CSV export of a list holds at most this many rows; more is refused (narrow the filters). */
+  csvExportMaxRows: 100_000,
 } as const;
 
 export type SettingKey = keyof typeof SETTING_DEFAULTS;
