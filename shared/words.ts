@@ -185,3 +185,8 @@ export function expiryCauseText(cause: string | null | undefined): string {
   if (!cause) return '';
   return EXPIRY_CAUSE_TEXT[cause] ?? cause.replace(/_/g, ' ');
 }
+
+/** How a reading's source reads: typed in on the page, or the name a logger or script gave it. */
+export function readingSourceWords(source: string): string {
+  return source === 'manual' ? 'Entered by hand' : source;
+}

@@ -14,7 +14,7 @@ vi.hoisted(() => {
   process.env.TACKLOG_PLANT_ZONE = 'Asia/Kathmandu';
 });
 
-import { eq } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
 import { parse } from 'csv-parse/sync';
 import { DateTime } from 'luxon';
 import { db } from '../../server/db/client';
@@ -256,6 +256,13 @@ describe('GET /api/readings?format=csv', () => {
     ]);
   });
 
+  it('says how a reading came in, in words', async () => {
+    const area = `Dock ${sfx()}`;
+    expect((await as('assembler').post('/api/readings', { area, at: '2026-01-10T05:00:00.000Z', tempC: 12.5 })).status).toBe(201);
+    const csv = readCsv(await as('assembler').get(`/api/readings?area=${encodeURIComponent(area)}&format=csv`), 'readings');
+    expect(csv.rows.map((r) => [r.Source, r['Recorded by']])).toEqual([['Entered by hand', users.get('assembler')?.name]]);
+  });
+
   it("names a station's own readings by the station", async () => {
     const oven = await createStation({ cureEnvironment: 'own' });
     await createStationReading(oven.id, new Date('2026-01-10T09:00:00Z'), { tempC: 120 });
@@ -286,6 +293,36 @@ describe('GET /api/audit?format=csv', () => {
       Person: users.get('quality')?.name,
     });
     expect(row.Changes).toContain('Status: On hold → Quarantined');
+  });
+});
+
+describe('paging through more rows than one database page (1,000)', () => {
+  it('readings: 2,345 rows of one area come once each, newest first', async () => {
+    const area = `Long hall ${sfx()}`;
+    const start = Date.parse('2025-06-01T00:00:00Z');
+    await db.execute(sql`
+      INSERT INTO readings (area, at, temp_c, source)
+      SELECT ${area}, ${new Date(start).toISOString()}::timestamptz + (n || ' minutes')::interval, 20 + (n % 7), 'logger'
+      FROM generate_series(1, 2345) AS n`);
+    const csv = readCsv(await as('quality').get(`/api/readings?area=${encodeURIComponent(area)}&format=csv`), 'readings');
+    expect(csv.rows).toHaveLength(2345);
+    const times = csv.rows.map((r) => r[`Taken (plant time, ${ZONE})`]);
+    expect(new Set(times).size).toBe(2345);
+    expect(times[0]).toBe(kathmandu(new Date(start + 2345 * 60_000)));
+    expect(times.at(-1)).toBe(kathmandu(new Date(start + 60_000)));
+  });
+
+  it('audit: 1,500 entries of one record follow the id downwards, none twice, none left out', async () => {
+    const entityId = `bulk-${sfx()}`;
+    await db.execute(sql`
+      INSERT INTO audit_log (action, entity_type, entity_id, after)
+      SELECT 'setting.change', 'setting', ${entityId}, jsonb_build_object('value', n) FROM generate_series(1, 1500) AS n`);
+    const csv = readCsv(await as('admin').get(`/api/audit?entityId=${entityId}&format=csv`), 'audit');
+    const ids = csv.rows.map((r) => Number(r.Entry));
+    expect(ids).toHaveLength(1500);
+    expect(ids).toEqual([...ids].sort((a, b) => b - a));
+    expect(new Set(ids).size).toBe(1500);
+    expect(csv.rows[0]).toMatchObject({ 'Record type': 'Setting', Person: 'Tacklog (automatic)', Changes: 'Value: 1500' });
   });
 });
 

@@ -1,14 +1,10 @@
 import { count, eq } from 'drizzle-orm';
 import type { ReadingQuery } from '../../../shared/schemas/readings';
+import { readingSourceWords } from '../../../shared/words';
 import { readings, stations, users } from '../../db/schema';
 import type { CsvSink } from '../../csv';
 import { exportList, exportTime, timeHeader } from '../exports';
 import { READINGS_ORDER, readingsWhere } from './index';
-
-/** How a reading's source reads: typed in on the page, or the name a logger or script gave. */
-export function readingSourceWords(source: string): string {
-  return source === 'manual' ? 'Entered by hand' : source;
-}
 
 interface ReadingRow {
   at: Date;
