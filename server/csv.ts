@@ -72,6 +72,12 @@ export interface CsvSink {
   write(rows: readonly (readonly CsvCell[])[]): Promise<void>;
 }
 
+class ClientGone extends Error {
+  constructor() {
+    super('the client closed the connection during a CSV export');
+  }
+}
+
 /**
  * Streams a list export: `produce` checks and counts first (a refusal before `start` is an
  * ordinary error answer), then writes pages. A failure after the first byte cannot change the
@@ -87,7 +93,9 @@ export async function streamCsv(res: Response, produce: (sink: CsvSink) => Promi
       res.write(csvRecord(header));
     },
     async write(rows) {
-      if (!rows.length || res.destroyed) return;
+      // The person cancelled the download: stop reading pages for nobody.
+      if (res.destroyed) throw new ClientGone();
+      if (!rows.length) return;
       if (!res.write(rows.map(csvRecord).join(''))) {
         await new Promise<void>((resolve) => {
           const done = () => {
@@ -105,7 +113,9 @@ export async function streamCsv(res: Response, produce: (sink: CsvSink) => Promi
     await produce(sink);
   } catch (err) {
     if (!started) throw err;
-    (res.req?.log ?? logger).error({ err }, 'CSV export failed after it started; connection cut');
+    const log = res.req?.log ?? logger;
+    if (err instanceof ClientGone) log.info('CSV export cancelled by the client');
+    else log.error({ err }, 'CSV export failed after it started; connection cut');
     res.destroy();
     return undefined;
   }
