@@ -143,3 +143,14 @@ export function fromPlantInput(value: string, zone: string): string | null {
   if (!dt.isValid) return null;
   return dt.toUTC().toISO();
 }
+
+/**
+ * The plant's wall-clock time of an instant as if it were UTC, in milliseconds: for a chart's
+ * time axis drawn in UTC (ECharts `useUTC`), so its ticks fall on whole plant hours and days and
+ * its labels read plant time whatever the browser's zone. Format such a value with zone 'UTC'.
+ * In the hour a daylight-saving change repeats, two instants can share a wall-clock time.
+ */
+export function plantWallClockMs(value: InstantLike, zone: string): number {
+  const dt = toDateTime(value, zone);
+  return dt.toMillis() + dt.offset * 60_000;
+}

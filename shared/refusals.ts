@@ -91,6 +91,9 @@ export const REFUSALS = {
   NOT_REWORKABLE: { status: 409, title: 'Driver cannot be reworked' },
   REWORK_IN_PROGRESS: { status: 409, title: 'Rework in progress' },
 
+  // Exports
+  EXPORT_TOO_LARGE: { status: 409, title: 'Too many rows for one export' },
+
   // Alerts
   ALERT_ACKNOWLEDGED: { status: 409, title: 'Alert already acknowledged' },
   ALERT_RESOLVED: { status: 409, title: 'Alert already resolved' },

@@ -170,3 +170,23 @@ export const ALERT_STATE_WORDS: Record<AlertState, string> = {
   resolved: 'Resolved',
 };
 export const alertStateWords = lookup(ALERT_STATE_WORDS);
+
+/** Why an expiry is what it is, in words (causes from shared/expiry.ts). */
+export const EXPIRY_CAUSE_TEXT: Record<string, string> = {
+  supplier_expiry: "supplier's expiry date",
+  shelf_life: 'shelf life',
+  open_life: 'after-opening life',
+  thawed_life: 'life after thawing',
+  out_of_storage: 'time out of cold storage',
+  pot_life: 'pot life',
+};
+
+export function expiryCauseText(cause: string | null | undefined): string {
+  if (!cause) return '';
+  return EXPIRY_CAUSE_TEXT[cause] ?? cause.replace(/_/g, ' ');
+}
+
+/** How a reading's source reads: typed in on the page, or the name a logger or script gave it. */
+export function readingSourceWords(source: string): string {
+  return source === 'manual' ? 'Entered by hand' : source;
+}

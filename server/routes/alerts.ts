@@ -1,14 +1,18 @@
 import { Router } from 'express';
 import { alertListQuerySchema, alertParamsSchema, alertResolveInputSchema } from '../../shared/schemas/alerts';
 import { endpoint } from '../http';
-import { acknowledgeAlert, listAlerts, resolveAlert } from '../services/alerts';
+import { acknowledgeAlert, exportAlertsCsv, listAlerts, resolveAlert } from '../services/alerts';
+import { streamCsv } from '../csv';
 import { runComplianceNow } from '../services/compliance';
 
 export const alertsRouter = Router();
 
+/** One page of alerts; `?format=csv` streams every alert the same filters select. */
 alertsRouter.get(
   '/',
-  endpoint({ access: 'signed-in', query: alertListQuerySchema }, ({ actor, query }) => listAlerts(actor, query)),
+  endpoint({ access: 'signed-in', query: alertListQuerySchema }, ({ actor, query, res }) =>
+    query.format === 'csv' ? streamCsv(res, (sink) => exportAlertsCsv(actor, query, sink)) : listAlerts(actor, query),
+  ),
 );
 
 alertsRouter.post(

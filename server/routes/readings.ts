@@ -1,13 +1,17 @@
 import { Router } from 'express';
 import { endpoint } from '../http';
 import { readingQuerySchema, readingsPostSchema } from '../../shared/schemas/readings';
-import { listReadings, recordReadings } from '../services/readings';
+import { exportReadingsCsv, listReadings, recordReadings } from '../services/readings';
+import { streamCsv } from '../csv';
 
 export const readingsRouter = Router();
 
+/** The newest `limit` readings; `?format=csv` streams every reading the same filters select. */
 readingsRouter.get(
   '/',
-  endpoint({ access: 'signed-in', query: readingQuerySchema }, ({ query }) => listReadings(query)),
+  endpoint({ access: 'signed-in', query: readingQuerySchema }, ({ query, res }) =>
+    query.format === 'csv' ? streamCsv(res, (sink) => exportReadingsCsv(query, sink)) : listReadings(query),
+  ),
 );
 
 /** One reading answers with the Reading; `{readings: [...]}` answers `{items}`. */

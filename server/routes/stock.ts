@@ -1,14 +1,10 @@
-import { Router, type Response } from 'express';
+import { Router } from 'express';
+import { sendCsv } from '../csv';
 import { endpoint } from '../http';
 import { expiryOutlook, expiryOutlookCsv, listStock, materialStock, simulateStock, stockCsv, stockToday } from '../services/stock';
 import { outlookQuerySchema, simulateInputSchema, stockMaterialParamsSchema, stockQuerySchema } from '../../shared/schemas/stock';
 
 export const stockRouter = Router();
-
-function sendCsv(res: Response, csv: { filename: string; body: string }): undefined {
-  res.status(200).type('text/csv; charset=utf-8; header=present').attachment(csv.filename).set('Cache-Control', 'no-store').send(csv.body);
-  return undefined;
-}
 
 /** One row per material; `?format=csv` sends the same rows as text/csv. */
 stockRouter.get(

@@ -2,6 +2,7 @@ import { Router } from 'express';
 import { serialParamsSchema } from '../../shared/schemas/drivers';
 import { lotStatsQuerySchema, lotTraceParamsSchema } from '../../shared/schemas/trace';
 import { endpoint } from '../http';
+import { sendCsv } from '../csv';
 import { lotContainmentCsv, lotStats, traceDriver, traceLot } from '../services/trace';
 
 /**
@@ -29,13 +30,6 @@ traceRouter.get(
 traceRouter.get(
   '/lots/:id/trace.csv',
   endpoint({ access: 'signed-in', params: lotTraceParamsSchema }, async ({ params, res }) => {
-    const csv = await lotContainmentCsv(params.id);
-    res
-      .status(200)
-      .type('text/csv; charset=utf-8; header=present')
-      .attachment(csv.filename)
-      .set('Cache-Control', 'no-store')
-      .send(csv.body);
-    return undefined;
+    return sendCsv(res, await lotContainmentCsv(params.id));
   }),
 );

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { ALERT_SEVERITIES, ALERT_STATES, ROLES } from '../constants';
-import { idSchema, instantSchema } from './common';
+import { idSchema, instantSchema, listFormatSchema } from './common';
 
 export const alertSchema = z.object({
   id: idSchema,
@@ -35,6 +35,7 @@ export const alertListQuerySchema = z.object({
   severity: z.enum(ALERT_SEVERITIES).optional(),
   limit: z.coerce.number().int().min(1).max(500).default(100),
   offset: z.coerce.number().int().min(0).default(0),
+  format: listFormatSchema,
 });
 export type AlertListQuery = z.infer<typeof alertListQuerySchema>;
 

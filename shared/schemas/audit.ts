@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { dateSchema, idSchema, instantSchema } from './common';
+import { dateSchema, idSchema, instantSchema, listFormatSchema } from './common';
 
 /** GET /api/audit filters; every one optional. `from`/`to` are plant dates or instants. */
 export const auditQuerySchema = z.object({
@@ -12,6 +12,7 @@ export const auditQuerySchema = z.object({
   /** Continue after this row id (the previous page's nextCursor). */
   cursor: z.coerce.number().int().positive().optional(),
   limit: z.coerce.number().int().min(1).max(500).default(100),
+  format: listFormatSchema,
 });
 export type AuditQuery = z.infer<typeof auditQuerySchema>;
 

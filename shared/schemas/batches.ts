@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { BATCH_STATUSES, DRIVER_STATUSES } from '../constants';
-import { idSchema, instantSchema, paginationQuerySchema } from './common';
+import { idSchema, instantSchema, listFormatSchema, paginationQuerySchema } from './common';
 import { stepRunSchema } from './steps';
 import { driverBatchSchema, driverSchema } from './drivers';
 
@@ -48,6 +48,7 @@ export const batchListQuerySchema = paginationQuerySchema.extend({
   q: z.string().trim().min(1).max(60).optional(),
   createdFrom: instantSchema.optional(),
   createdTo: instantSchema.optional(),
+  format: listFormatSchema,
 });
 export type BatchListQuery = z.infer<typeof batchListQuerySchema>;
 

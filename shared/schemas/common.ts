@@ -15,6 +15,9 @@ export const dateSchema = z
     return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
   }, 'is not a real calendar date');
 
+/** `?format=csv` on a list route: the same filtered rows as a CSV download (every matching row, not one page). */
+export const listFormatSchema = z.enum(['json', 'csv'], { message: 'must be json or csv' }).default('json');
+
 export const paginationQuerySchema = z.object({
   limit: z.coerce.number().int().min(1).max(500).default(50),
   offset: z.coerce.number().int().min(0).default(0),

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { LOT_STATUSES } from '../constants';
-import { dateSchema, fitsColumn, idSchema, instantSchema, QUANTITY_COLUMN } from './common';
+import { dateSchema, fitsColumn, idSchema, instantSchema, listFormatSchema, QUANTITY_COLUMN } from './common';
 import { attachmentSchema } from './attachments';
 import { containerSchema, fefoEntrySchema } from './containers';
 import { gtinSchema, materialSchema, orRequired, requiredIdSchema } from './materials';
@@ -144,6 +144,7 @@ export const lotListQuerySchema = z.object({
     .min(0, 'must not be negative')
     .max(3650, 'must be at most 3650')
     .optional(),
+  format: listFormatSchema,
   /** Text search in supplier lot numbers and container codes. */
   q: z
     .string()

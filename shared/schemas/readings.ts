@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { fitsColumn, idSchema, instantSchema, READING_COLUMN } from './common';
+import { fitsColumn, idSchema, instantSchema, listFormatSchema, READING_COLUMN } from './common';
 
 /** A reading may be stamped at most this far ahead of the server's clock (clock drift). */
 export const READING_MAX_FUTURE_MS = 5 * 60 * 1000;
@@ -117,6 +117,7 @@ export const readingQuerySchema = z
     from: instantSchema.optional(),
     to: instantSchema.optional(),
     limit: z.coerce.number().int().min(1).max(5000).default(500),
+    format: listFormatSchema,
   })
   .refine((q) => !q.from || !q.to || Date.parse(q.from) <= Date.parse(q.to), { path: ['to'], message: 'is before from' });
 export type ReadingQuery = z.infer<typeof readingQuerySchema>;

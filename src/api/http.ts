@@ -41,7 +41,7 @@ export class ApiError extends Error {
   }
 }
 
-type QueryValue = string | number | boolean | null | undefined;
+export type QueryValue = string | number | boolean | null | undefined;
 
 export interface ApiRequest<S extends z.ZodTypeAny> {
   method?: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
@@ -203,6 +203,40 @@ export async function apiFetch<S extends z.ZodTypeAny>(path: string, request: Ap
     throw new ApiError(response.status, 'BAD_RESPONSE', 'The page may be out of date: reload it.');
   }
   return parsed.data as z.infer<S>;
+}
+
+/** A file the API sent for download: its bytes and the name from Content-Disposition. */
+export interface DownloadedFile {
+  blob: Blob;
+  filename: string;
+}
+
+/** The file name in `attachment; filename="tacklog-lots-2026-12-02.csv"` (or `fallback`). */
+export function filenameFrom(disposition: string | null, fallback: string): string {
+  const match = /filename="?([^";]+)"?/i.exec(disposition ?? '');
+  return match ? match[1] : fallback;
+}
+
+/**
+ * GET a file (a CSV export) with the session cookie. A refusal (409 too many rows, 401, 403…) is
+ * thrown as an ApiError like any other call, so the page can say what is wrong instead of the
+ * browser saving an error as a file.
+ */
+export async function apiDownload(path: string, query: Record<string, QueryValue>, fallbackName: string): Promise<DownloadedFile> {
+  let response: Response;
+  try {
+    response = await fetch(withQuery(path, query), { headers: { Accept: 'text/csv' }, credentials: 'same-origin' });
+  } catch {
+    throw new ApiError(0, 'NETWORK', 'The Tacklog server could not be reached. Check the connection and try again.');
+  }
+  if (!response.ok) {
+    const error = errorFrom(response.status, await readJson(response).catch(() => undefined));
+    if (response.status === 401) unauthorizedListeners.forEach((listener) => listener());
+    if (error.code === 'DB_UNAVAILABLE') reportDatabaseDown(retryDelayMs(response.headers.get('Retry-After')));
+    throw error;
+  }
+  reportDatabaseUp();
+  return { blob: await response.blob(), filename: filenameFrom(response.headers.get('Content-Disposition'), fallbackName) };
 }
 
 /** A fresh Idempotency-Key for one user action (reuse it when retrying that same action). */

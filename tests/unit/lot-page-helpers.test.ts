@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { can } from '../../shared/permissions';
 import type { Role } from '../../shared/constants';
 import { containerMenu } from '../../src/components/lots/containerActions';
-import { actionText, fieldChanges, fieldLabel, valueText } from '../../src/components/lots/historyText';
+import { actionText, fieldChanges, fieldLabel, valueText } from '../../shared/history-words';
 
 const sealed = { status: 'sealed' as const, thawedAt: null, outOfStorageSince: null };
 type MenuArgs = Parameters<typeof containerMenu>;

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { ageText, percentText, probabilityText } from '@/components/quality/qualityText';
-import { ACTION_OPTIONS, ENTITY_OPTIONS, auditActionText, entityText } from '@/components/audit/auditWords';
+import { ACTION_OPTIONS, ENTITY_OPTIONS, auditActionText, entityText } from '../../shared/audit-words';
 import { NAV_ITEMS } from '@/navigation';
 import { rolesFor } from '../../shared/permissions';
 

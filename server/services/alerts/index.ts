@@ -45,7 +45,11 @@ export function toAlert(r: AlertRow, names: ReadonlyMap<string, string> = new Ma
 }
 
 /** Alerts for the roles the actor holds (an administrator sees all), newest first. */
-export async function listAlerts(actor: Actor, query: AlertListQuery): Promise<{ items: Alert[]; total: number }> {
+export async function listAlerts(
+  actor: Actor,
+  query: Pick<AlertListQuery, 'state' | 'kind' | 'limit' | 'offset'>,
+  tx: DbOrTx = db,
+): Promise<{ items: Alert[]; total: number }> {
   const filters = [];
   if (query.state === 'live') filters.push(ne(alerts.state, 'resolved'));
   else if (query.state) filters.push(eq(alerts.state, query.state));
@@ -54,10 +58,10 @@ export async function listAlerts(actor: Actor, query: AlertListQuery): Promise<{
   if (!can(actor.roles, 'alerts.readAll')) filters.push(arrayOverlaps(alerts.audience, actor.roles));
   const where = filters.length ? and(...filters) : undefined;
   const [rows, [{ n }]] = await Promise.all([
-    db.select().from(alerts).where(where).orderBy(desc(alerts.raisedAt), alerts.id).limit(query.limit).offset(query.offset),
-    db.select({ n: count() }).from(alerts).where(where),
+    tx.select().from(alerts).where(where).orderBy(desc(alerts.raisedAt), alerts.id).limit(query.limit).offset(query.offset),
+    tx.select({ n: count() }).from(alerts).where(where),
   ]);
-  const names = await namesOf(db, rows);
+  const names = await namesOf(tx, rows);
   return { items: rows.map((r) => toAlert(r, names)), total: n };
 }
 
@@ -100,3 +104,4 @@ export function resolveAlert(actor: Actor, id: string, resolution: string): Prom
   requirePermission(actor, 'alerts.resolve');
   return changeState(actor, id, 'resolved', resolution);
 }
+export { exportAlertsCsv } from './export';

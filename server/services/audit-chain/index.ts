@@ -86,9 +86,8 @@ function bound(value: string, end: boolean): Date {
   return new Date(value);
 }
 
-/** GET /api/audit: newest first, filtered, paged by cursor (the last id seen). */
-export async function listAudit(actor: Actor, query: AuditQuery): Promise<AuditPage> {
-  requirePermission(actor, 'audit.read');
+/** The audit list's filters (not the cursor), shared by GET /api/audit and its CSV. */
+export function auditFilters(query: Pick<AuditQuery, 'entity' | 'entityId' | 'actor' | 'action' | 'from' | 'to'>): SQL[] {
   const where: SQL[] = [];
   if (query.entity) where.push(sql`a.entity_type = ${query.entity}`);
   if (query.entityId) where.push(sql`a.entity_id = ${query.entityId}`);
@@ -96,9 +95,24 @@ export async function listAudit(actor: Actor, query: AuditQuery): Promise<AuditP
   if (query.action) where.push(sql`a.action = ${query.action}`);
   if (query.from) where.push(sql`a.at >= ${bound(query.from, false)}`);
   if (query.to) where.push(sql`a.at < ${bound(query.to, true)}`);
+  return where;
+}
+
+const whereClause = (where: SQL[]) => (where.length ? sql`WHERE ${sql.join(where, sql` AND `)}` : sql``);
+
+/** How many entries the filters match (the CSV checks its row cap with it). */
+export async function countAudit(query: AuditQuery, tx: DbOrTx = db): Promise<number> {
+  const rows = (await tx.execute<{ n: string }>(sql`SELECT count(*) AS n FROM audit_log a ${whereClause(auditFilters(query))}`)).rows;
+  return Number(rows[0]?.n ?? 0);
+}
+
+/** GET /api/audit: newest first, filtered, paged by cursor (the last id seen). */
+export async function listAudit(actor: Actor, query: AuditQuery, tx: DbOrTx = db): Promise<AuditPage> {
+  requirePermission(actor, 'audit.read');
+  const where = auditFilters(query);
   if (query.cursor) where.push(sql`a.id < ${query.cursor}`);
   const rows = (
-    await db.execute<{
+    await tx.execute<{
       id: string;
       at: Date;
       actor_id: string | null;
@@ -116,7 +130,7 @@ export async function listAudit(actor: Actor, query: AuditQuery): Promise<AuditP
       SELECT a.id, a.at, a.actor_id, u.name AS actor_name, u.email AS actor_email, a.action, a.entity_type, a.entity_id,
              a.before, a.after, a.reason, a.prev_hash, a.hash
       FROM audit_log a LEFT JOIN users u ON u.id = a.actor_id
-      ${where.length ? sql`WHERE ${sql.join(where, sql` AND `)}` : sql``}
+      ${whereClause(where)}
       ORDER BY a.id DESC
       LIMIT ${query.limit + 1}`)
   ).rows;
@@ -136,3 +150,5 @@ export async function listAudit(actor: Actor, query: AuditQuery): Promise<AuditP
   }));
   return { items, nextCursor: rows.length > query.limit ? Number(page[page.length - 1].id) : null };
 }
+
+export { exportAuditCsv } from './export';

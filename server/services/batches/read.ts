@@ -34,7 +34,7 @@ export async function findBatch(tx: DbOrTx, id: string, lock = false): Promise<{
   return { row: r.b, batch: toBatch(r.b, r.m) };
 }
 
-export async function listBatches(query: BatchListQuery): Promise<BatchPage> {
+export async function listBatches(query: Omit<BatchListQuery, 'format'>, tx: DbOrTx = db): Promise<BatchPage> {
   const where = and(
     query.status ? eq(buildBatches.status, query.status) : undefined,
     query.modelId ? eq(buildBatches.modelId, query.modelId) : undefined,
@@ -43,7 +43,7 @@ export async function listBatches(query: BatchListQuery): Promise<BatchPage> {
     query.createdTo ? lte(buildBatches.createdAt, new Date(query.createdTo)) : undefined,
   );
   const [rows, [{ n }]] = await Promise.all([
-    db
+    tx
       .select({ b: buildBatches, m: { code: driverModels.code, name: driverModels.name, revision: driverModels.revision } })
       .from(buildBatches)
       .innerJoin(driverModels, eq(driverModels.id, buildBatches.modelId))
@@ -51,7 +51,7 @@ export async function listBatches(query: BatchListQuery): Promise<BatchPage> {
       .orderBy(desc(buildBatches.createdAt), asc(buildBatches.code))
       .limit(query.limit)
       .offset(query.offset),
-    db.select({ n: count() }).from(buildBatches).where(where),
+    tx.select({ n: count() }).from(buildBatches).where(where),
   ]);
   return { items: rows.map((r) => toBatch(r.b, r.m)), total: n };
 }

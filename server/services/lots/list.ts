@@ -1,5 +1,5 @@
 import { and, asc, desc, eq, ilike, inArray, or, sql, type SQL } from 'drizzle-orm';
-import { db } from '../../db/client';
+import { db, type DbOrTx } from '../../db/client';
 import { containers, lots, materials, suppliers } from '../../db/schema';
 import type { LotListItem, LotListQuery, LotPage } from '../../../shared/schemas/lots';
 import { PLANT_ZONE, toLot } from './present';
@@ -45,11 +45,11 @@ function ordering(query: LotListQuery, expiry: SQL): SQL[] {
 }
 
 /** GET /api/lots: one page of lots with their material, supplier and container totals. */
-export async function listLots(query: LotListQuery, now = new Date()): Promise<LotPage> {
+export async function listLots(query: LotListQuery, now = new Date(), tx: DbOrTx = db): Promise<LotPage> {
   const expiry = lotExpirySql(PLANT_ZONE);
   const where = filters(query, expiry, now);
   const active = sql`${containers.status} IN ('sealed', 'open')`;
-  const rows = await db
+  const rows = await tx
     .select({
       lot: lots,
       material: materials,
@@ -65,7 +65,7 @@ export async function listLots(query: LotListQuery, now = new Date()): Promise<L
     .orderBy(...ordering(query, expiry))
     .limit(query.limit)
     .offset(query.offset);
-  const [{ total }] = await db
+  const [{ total }] = await tx
     .select({ total: sql<number>`count(*)::int` })
     .from(lots)
     .innerJoin(materials, eq(materials.id, lots.materialId))

@@ -1,5 +1,5 @@
 import crypto from 'node:crypto';
-import { and, desc, eq, gte, lte, sql } from 'drizzle-orm';
+import { and, desc, eq, gte, lte, sql, type SQL } from 'drizzle-orm';
 import { db } from '../../db/client';
 import { runNamed } from '../../db/named';
 import { readings } from '../../db/schema';
@@ -7,7 +7,7 @@ import type { Actor } from '../auth/actor';
 import { requirePermission } from '../auth/actor';
 import type { Reading, ReadingInput, ReadingQuery } from '../../../shared/schemas/readings';
 
-function toReading(r: typeof readings.$inferSelect): Reading {
+export function toReading(r: typeof readings.$inferSelect): Reading {
   return {
     id: r.id,
     area: r.area,
@@ -75,20 +75,28 @@ export async function recordReadings(actor: Actor, items: ReadingInput[]): Promi
   return out;
 }
 
+/** The list's filters, shared by GET /api/readings and its CSV. */
+export function readingsWhere(query: Pick<ReadingQuery, 'area' | 'stationId' | 'from' | 'to'>): SQL | undefined {
+  return and(
+    query.area ? eq(readings.area, query.area) : undefined,
+    query.stationId ? eq(readings.stationId, query.stationId) : undefined,
+    query.from ? gte(readings.at, new Date(query.from)) : undefined,
+    query.to ? lte(readings.at, new Date(query.to)) : undefined,
+  );
+}
+
+/** Newest first; the id breaks ties so that paging through the same snapshot is stable. */
+export const READINGS_ORDER = [desc(readings.at), desc(readings.createdAt), desc(readings.id)];
+
 /** GET /api/readings: newest first. */
 export async function listReadings(query: ReadingQuery): Promise<{ items: Reading[] }> {
   const rows = await db
     .select()
     .from(readings)
-    .where(
-      and(
-        query.area ? eq(readings.area, query.area) : undefined,
-        query.stationId ? eq(readings.stationId, query.stationId) : undefined,
-        query.from ? gte(readings.at, new Date(query.from)) : undefined,
-        query.to ? lte(readings.at, new Date(query.to)) : undefined,
-      ),
-    )
-    .orderBy(desc(readings.at), desc(readings.createdAt))
+    .where(readingsWhere(query))
+    .orderBy(...READINGS_ORDER)
     .limit(query.limit);
   return { items: rows.map(toReading) };
 }
+
+export { exportReadingsCsv } from './export';

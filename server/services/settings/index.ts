@@ -27,6 +27,8 @@ export const SETTING_DEFAULTS = {
   homeCureSoonHours: 4,
   /** … the first this many of them by name (the count covers them all). */
   homeCureSoonShown: 5,
+  /** A CSV export of a list holds at most this many rows; more is refused (narrow the filters). */
+  csvExportMaxRows: 100_000,
 } as const;
 
 export type SettingKey = keyof typeof SETTING_DEFAULTS;

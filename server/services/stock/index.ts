@@ -22,7 +22,7 @@ import {
   type StockToday,
 } from '../../../shared/schemas/stock';
 import { PLANT_ZONE } from '../lots/present';
-import { toCsv } from '../trace/csv';
+import { toCsv } from '../../csv';
 import { loadStockData } from './load';
 import { buildMaterialModel, type MaterialModel } from './model';
 import { readStockSettings, type StockSettings } from './settings';

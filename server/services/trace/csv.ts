@@ -1,33 +1,9 @@
 import { CONTAINMENT_CSV_COLUMNS } from '../../../shared/schemas/trace';
 import { loadLotTrace } from './lot-trace';
 import { plantDate, plantDateTime } from '../../plant-time';
+import { csvField, safeFileName, toCsv } from '../../csv';
 
-/**
- * One CSV field per RFC 4180 §2: a field holding a comma, a double quote, CR or LF is
- * enclosed in double quotes, and a double quote inside it is doubled. A field a spreadsheet
- * would run as a formula (starting with =, +, -, @, tab or CR) gets a leading apostrophe
- * (OWASP "CSV Injection" advice).
- */
-export function csvField(value: string | number | null | undefined): string {
-  let s = value === null || value === undefined ? '' : String(value);
-  if (/^[=+\-@\t\r]/.test(s)) s = `'${s}`;
-  return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
-
-/** Records joined with CRLF, the last one ended too (RFC 4180 §2, rules 1–2). */
-export function toCsv(rows: (string | number | null | undefined)[][]): string {
-  return rows.map((r) => r.map(csvField).join(',')).join('\r\n') + '\r\n';
-}
-
-/** A file name safe in a Content-Disposition header: letters, digits, dot, dash, underscore. */
-export function safeFileName(s: string): string {
-  return (
-    s
-      .replace(/[^A-Za-z0-9._-]+/g, '_')
-      .replace(/^[._]+/, '')
-      .slice(0, 80) || 'lot'
-  );
-}
+export { csvField, toCsv, safeFileName };
 
 export interface ContainmentCsv {
   filename: string;

@@ -1,5 +1,5 @@
 import type { ContainerStatus, LotStatus, StorageClass } from '@shared/constants';
-import { CONTAINER_STATUS_WORDS as C, LOT_STATUS_WORDS as L, STORAGE_CLASS_WORDS, humanize } from '@shared/words';
+import { CONTAINER_STATUS_WORDS as C, LOT_STATUS_WORDS as L, STORAGE_CLASS_WORDS, expiryCauseText, humanize } from '@shared/words';
 
 /**
  * How statuses read on screen: always a word, with a colour and an icon beside it (never
@@ -61,20 +61,7 @@ export function statusLook(
   };
 }
 
-/** Why an expiry is what it is, in words (causes from shared/expiry.ts). */
-export const EXPIRY_CAUSE_TEXT: Record<string, string> = {
-  supplier_expiry: "supplier's expiry date",
-  shelf_life: 'shelf life',
-  open_life: 'after-opening life',
-  thawed_life: 'life after thawing',
-  out_of_storage: 'time out of cold storage',
-  pot_life: 'pot life',
-};
-
-export function expiryCauseText(cause: string | null | undefined): string {
-  if (!cause) return '';
-  return EXPIRY_CAUSE_TEXT[cause] ?? cause.replace(/_/g, ' ');
-}
+export { EXPIRY_CAUSE_TEXT, expiryCauseText } from '@shared/words';
 
 const STORAGE_ICONS: Record<StorageClass, string> = { ambient: 'thermostat', refrigerated: 'kitchen', frozen: 'ac_unit' };
 

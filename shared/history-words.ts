@@ -1,10 +1,10 @@
 /**
- * How an audit entry reads in a lot's history: actions and fields in words, statuses as their
+ * How an audit entry reads in a lot's history, on the audit page and in the audit CSV: actions and fields in words, statuses as their
  * labels, times in plant time, ids as the thing's name or code (the history answer carries
  * them), and internal bookkeeping (checksums, raw ids) left out.
  */
-import { formatDateTime, formatDuration } from '@shared/plant-time';
-import { CONTAINER_STATUS_LOOK, LOT_STATUS_LOOK } from '@/components/common/statusText';
+import { formatDateTime, formatDuration } from './plant-time';
+import { CONTAINER_STATUS_WORDS, LOT_STATUS_WORDS } from './words';
 
 export interface FieldChange {
   field: string;
@@ -58,9 +58,7 @@ const FIELD_LABELS: Record<string, string | null> = {
 };
 
 /** Fields whose value is a status, in the words of the status chips. */
-const STATUS_WORDS: Record<string, string> = Object.fromEntries(
-  [...Object.entries(LOT_STATUS_LOOK), ...Object.entries(CONTAINER_STATUS_LOOK)].map(([k, v]) => [k, v.label]),
-);
+const STATUS_WORDS: Record<string, string> = { ...LOT_STATUS_WORDS, ...CONTAINER_STATUS_WORDS };
 
 function sentenceCase(words: string): string {
   const w = words.trim();

@@ -2,7 +2,8 @@
  * How the audit page names record types and actions. Lot and container actions reuse the lot
  * history's words (historyText.ts); the rest are named here, unknown ones are split into words.
  */
-import { actionText as lotActionText } from '@/components/lots/historyText';
+import { actionText as lotActionText, fieldChanges, type FieldChange } from './history-words';
+import type { AuditItem } from './schemas/audit';
 
 export const ENTITY_WORDS: Record<string, string> = {
   lot: 'Lot',
@@ -98,4 +99,33 @@ export function entityText(entity: string): string {
 /** The problem the chain check reports, in words (the server's text is already plain; kept as is). */
 export function verifyProblemText(problem: string): string {
   return problem.charAt(0).toUpperCase() + problem.slice(1);
+}
+
+/** Old → new in words. A creation lists what was set; an entry with only `after` and no record shape shows nothing. */
+export function auditChanges(e: Pick<AuditItem, 'before' | 'after'>, zone: string): FieldChange[] {
+  const after = e.after && typeof e.after === 'object' && !Array.isArray(e.after) ? (e.after as Record<string, unknown>) : {};
+  const pick = e.before
+    ? undefined
+    : Object.keys(after)
+        .filter((k) => !/(^id$|Id$|hash|sha256)/i.test(k))
+        .slice(0, 8);
+  return fieldChanges(e.before, e.after, { zone }, pick);
+}
+
+/** The changes on one line, for a CSV cell: "Status: On hold → Released; Reason: Passed". */
+export function auditChangesLine(e: Pick<AuditItem, 'before' | 'after'>, zone: string): string {
+  return auditChanges(e, zone)
+    .map((c) => `${c.label}: ${c.from !== null ? `${c.from} → ` : ''}${c.to}`)
+    .join('; ');
+}
+
+/** The record's own name or code when the entry carries it (a lot's supplier lot, a station's code…). */
+export function auditRecordName(e: Pick<AuditItem, 'before' | 'after'>): string {
+  for (const side of [e.after, e.before]) {
+    if (side && typeof side === 'object' && !Array.isArray(side)) {
+      const r = side as Record<string, unknown>;
+      for (const key of ['supplierLot', 'code', 'serial', 'name', 'email']) if (typeof r[key] === 'string' && r[key]) return r[key];
+    }
+  }
+  return '';
 }
