@@ -47,7 +47,7 @@ export function toAlert(r: AlertRow, names: ReadonlyMap<string, string> = new Ma
 /** Alerts for the roles the actor holds (an administrator sees all), newest first. */
 export async function listAlerts(
   actor: Actor,
-  query: Pick<AlertListQuery, 'state' | 'kind' | 'limit' | 'offset'>,
+  query: Pick<AlertListQuery, 'state' | 'kind' | 'severity' | 'limit' | 'offset'>,
   tx: DbOrTx = db,
 ): Promise<{ items: Alert[]; total: number }> {
   const filters = [];
