@@ -136,6 +136,29 @@ describe('cure methods: stations and their own readings', () => {
     const listed = await as(assembler).get(`/api/readings?stationId=${oven.id}`);
     expect(listed.status).toBe(200);
     expect(listed.body.items).toHaveLength(2);
+    // Only the radiometer readings (what the station screen asks for a UV step's dose).
+    const lampOnly = await as(assembler).get(`/api/readings?stationId=${oven.id}&measure=irradiance`);
+    expect(lampOnly.body.items.map((r: { irradianceMWcm2: number }) => r.irradianceMWcm2)).toEqual([95.5]);
+    expect(fields(await as(assembler).get(`/api/readings?stationId=${oven.id}&measure=light`))).toEqual(['measure']);
+  });
+
+  it('readings: an unknown stationId is a 400 naming the field (alone or in a list), and nothing is recorded', async () => {
+    const oven = await createStation({ cureEnvironment: 'own' });
+    const at = iso(-60_000);
+    const unknown = '00000000-0000-4000-8000-00000000abcd';
+    const one = await as(assembler).post('/api/readings', { stationId: unknown, at, tempC: 150 });
+    expect(one.status).toBe(400);
+    expect(fields(one)).toEqual(['stationId']);
+    expect(one.body.error.message).toContain('not a station');
+    const many = await as(assembler).post('/api/readings', {
+      readings: [
+        { stationId: oven.id, at, tempC: 149 },
+        { stationId: unknown, at, irradianceMWcm2: 90 },
+      ],
+    });
+    expect(many.status).toBe(400);
+    expect(fields(many)).toEqual(['readings.1.stationId']);
+    expect(await db.select().from(readings).where(eq(readings.stationId, oven.id))).toHaveLength(0);
   });
 });
 

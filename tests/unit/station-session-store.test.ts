@@ -62,6 +62,8 @@ function step(n: number, name: string, kind: string, state: TravelerStep['state'
     run: null,
     handlingAt: null,
     cureCompleteAt: null,
+    cure: null,
+    humidity: null,
     ...extra,
   };
 }
@@ -277,6 +279,7 @@ describe('station session store', () => {
       shortCure: false,
       deviationId: null,
       unitsDone: null,
+      uv: null,
       materials: [],
     };
     vi.mocked(stepsApi.startStep).mockResolvedValueOnce({ stepRun: run });
