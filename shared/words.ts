@@ -170,3 +170,11 @@ export const ALERT_STATE_WORDS: Record<AlertState, string> = {
   resolved: 'Resolved',
 };
 export const alertStateWords = lookup(ALERT_STATE_WORDS);
+
+/** How an adhesive cures (shared/cure-methods.ts), as the traveler and the material form say it. */
+export const CURE_METHOD_WORDS: Record<'ambient' | 'heat' | 'uv', string> = {
+  ambient: 'Room-temperature cure',
+  heat: 'Oven (heat) cure',
+  uv: 'UV-light cure (by dose)',
+};
+export const cureMethodWords = lookup(CURE_METHOD_WORDS);

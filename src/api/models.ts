@@ -8,7 +8,9 @@ import {
 import { apiFetch } from './http';
 
 /** GET /api/models: driver models with their recipes (retired ones, every revision, one code when asked). */
-export async function listModels(options: { includeRetired?: boolean; includeRevisions?: boolean; code?: string } = {}): Promise<DriverModel[]> {
+export async function listModels(
+  options: { includeRetired?: boolean; includeRevisions?: boolean; code?: string } = {},
+): Promise<DriverModel[]> {
   const result = await apiFetch('/api/models', {
     schema: driverModelListSchema,
     query: {

@@ -4,12 +4,11 @@ import { drivers, materials, stations, stepRuns } from '../../db/schema';
 import type { BatchDetail, StepCure, TravelerStep } from '../../../shared/schemas/batches';
 import type { CureProfileJson } from '../../db/schema';
 import { humidityOfRun } from '../cure/humidity';
+import { stepCureMethod } from '../../../shared/cure-methods';
 import { describeRuns } from '../steps/describe';
 import { cureOfRun, profilesForRuns } from '../cure/compute';
 import { findBatch } from './read';
 import { batchProgress } from './progress';
-
-const METHOD_ORDER = ['uv', 'heat', 'ambient'] as const;
 
 /**
  * How a step's adhesives cure, from the recipe's materials' profiles: UV before heat before
@@ -19,7 +18,7 @@ const METHOD_ORDER = ['uv', 'heat', 'ambient'] as const;
 export function stepCureOf(profiles: (CureProfileJson | null)[]): StepCure | null {
   const ps = profiles.filter((p): p is CureProfileJson => !!p);
   if (ps.length === 0) return null;
-  const method = METHOD_ORDER.find((m) => ps.some((p) => (p.method ?? 'ambient') === m)) ?? 'ambient';
+  const method = stepCureMethod(ps) ?? 'ambient';
   const of = ps.filter((p) => (p.method ?? 'ambient') === method);
   const nums = (xs: (number | undefined)[]) => xs.filter((x): x is number => typeof x === 'number');
   const doses = nums(of.map((p) => p.uvDoseMJcm2));

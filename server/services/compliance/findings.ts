@@ -386,7 +386,12 @@ export async function humidityOutOfWindow(tx: DbOrTx, now: Date): Promise<Findin
   const out: Finding[] = [];
   for (const r of runs) {
     if (!r.finishedAt) continue;
-    const h = await humidityOfRun(tx, { finishedAt: r.finishedAt, cureCompleteAt: r.cureCompleteAt, area: r.area }, profiles.get(r.id) ?? [], now);
+    const h = await humidityOfRun(
+      tx,
+      { finishedAt: r.finishedAt, cureCompleteAt: r.cureCompleteAt, area: r.area },
+      profiles.get(r.id) ?? [],
+      now,
+    );
     if (!h || h.outside.length === 0) continue;
     const first = h.outside[0];
     const range = `${h.rhMinPct ?? 0}–${h.rhMaxPct ?? 100} % RH`;
