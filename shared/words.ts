@@ -76,6 +76,8 @@ export const STATION_KIND_WORDS: Record<string, string> = {
   lead_termination: 'Lead termination',
   dust_cap: 'Dust cap',
   magnetize_test: 'Magnetize and test',
+  cure_oven: 'Cure oven',
+  uv_cure: 'UV cure',
 };
 export const stationKindWords = lookup(STATION_KIND_WORDS);
 

@@ -67,7 +67,7 @@ describe('recipe revisions', () => {
     expect(await page.locator('[data-test="model-title"]').innerText()).toBe(`Driver model ${code} rev 1`);
     await page.locator('[data-test="recipe-locked"]').waitFor();
     expect(await page.locator('[data-test="recipe-locked"]').innerText()).toContain('used by 1 batch');
-    expect(await page.locator('[data-test="step-name"] input').first().isDisabled()).toBe(true);
+    expect(await page.locator('input[data-test="step-name"]').first().isDisabled()).toBe(true);
 
     // Copy as a new revision: the draft opens, editable.
     await page.locator('[data-test="copy-revision"]').click();
@@ -77,7 +77,7 @@ describe('recipe revisions', () => {
     expect(await page.locator('[data-test="revision-row"][data-revision="1"] [data-test="revision-use"]').innerText()).toContain(
       'used by 1 batch',
     );
-    const stepName = page.locator('[data-test="step-name"] input').first();
+    const stepName = page.locator('input[data-test="step-name"]').first();
     await stepName.fill('Dust cap, centred with jig');
     await page.locator('[data-test="model-save"]').click();
     await expect

@@ -105,7 +105,7 @@ describe('UV step at the station', () => {
     expect(await page.locator('[data-test="finish-step"]').isDisabled()).toBe(true);
 
     // 20 s × 97 mW/cm² = 1,940 mJ/cm²: shown short, and the server refuses it in words.
-    await page.locator('[data-test="uv-exposure"] input').fill('20');
+    await page.locator('input[data-test="uv-exposure"]').fill('20');
     await expect
       .poll(() => page.locator('[data-test="uv-dose-value"]').innerText())
       .toBe('Dose 1,940 of 3,000 mJ/cm² — too low: the finish will be refused');
@@ -117,9 +117,9 @@ describe('UV step at the station', () => {
     expect(refusal).toContain('at least 31 s');
     expect(await feedback().innerText()).not.toContain('UV_DOSE_LOW');
 
-    // 35 s × 97 = 3,395 mJ/cm²: enough; the finish goes through.
+    // 35 s × 97 = 3,395 mJ/cm²: enough; the finish goes through. The step is running again after the refusal.
+    await page.locator('input[data-test="uv-exposure"]').fill('35');
     await page.locator('[data-test="finish-step"]:not([disabled])').waitFor();
-    await page.locator('[data-test="uv-exposure"] input').fill('35');
     await expect.poll(() => page.locator('[data-test="uv-dose-value"]').innerText()).toBe('Dose 3,395 of 3,000 mJ/cm² — enough');
     await page.screenshot({ path: '/tmp/uv-station-1024x768.png' });
     // Nothing on the tablet runs off to the side.
@@ -148,9 +148,10 @@ describe('UV step at the station', () => {
     await page.goto('/cure');
     await page.locator('[data-test="cure-board"]').waitFor();
     await expect.poll(() => page.locator('[data-test="cure-basis-own"]').count(), { timeout: 15_000 }).toBeGreaterThan(0);
-    expect((await page.locator('[data-test="cure-basis-own"]').allInnerTexts()).join(' ')).toMatch(
-      /Oven ST-OVN-1's own readings.*latest 1\d\d °C/,
-    );
+    // The oven's latest temperature arrives after the board itself.
+    await expect
+      .poll(async () => (await page.locator('[data-test="cure-basis-own"]').allInnerTexts()).join(' '), { timeout: 15_000 })
+      .toMatch(/Oven ST-OVN-1's own readings.*latest 1\d\d °C/);
     expect((await page.locator('[data-test="cure-basis-uv"]').allInnerTexts()).join(' ')).toMatch(/of 3,000 mJ\/cm² \(97 mW\/cm² ×/);
     await page.screenshot({ path: '/tmp/cure-board-1440x900.png', fullPage: true });
   });
