@@ -59,6 +59,7 @@ describe('recipe revisions', () => {
     await page.goto('/admin/models');
     const card = page.locator(`[data-test="model-card"][data-code="${code}"]`);
     await card.waitFor();
+    await page.screenshot({ path: '/tmp/models-1440x900.png', fullPage: true });
     expect(await card.locator('[data-test="model-revisions"]').innerText()).toContain('rev 1 · Current · used by 1 batch');
 
     // The model page: rev 1 is current and frozen (read-only steps).
