@@ -420,7 +420,7 @@ export function simulateHistory(now: DateTime, materials: DemoMaterial[], models
   // whose motor bond has just come out of the oven and is still curing (15 min at 150 °C).
   const ovenUv = modelByCode.get('HB12X');
   if (ovenUv) {
-    const uvDone = newBatch('HB12X', 30, now.minus({ hours: 6 }));
+    const uvDone = newBatch('HB12X', 24, now.minus({ hours: 6 }));
     uvDone.status = 'in_process';
     runStep(uvDone, ovenUv, 0, now.minus({ hours: 5, minutes: 45 }), 25);
     runStep(uvDone, ovenUv, 1, now.minus({ hours: 5 }), 60);
@@ -435,7 +435,7 @@ export function simulateHistory(now: DateTime, materials: DemoMaterial[], models
     runStep(atLamp, ovenUv, 1, now.minus({ hours: 3 }), 50);
     runStep(atLamp, ovenUv, 2, now.minus({ hours: 1, minutes: 50 }), 30);
 
-    const inOven = newBatch('HB12X', 60, now.minus({ minutes: 50 }));
+    const inOven = newBatch('HB12X', 24, now.minus({ minutes: 50 }));
     inOven.status = 'in_process';
     runStep(inOven, ovenUv, 0, now.minus({ minutes: 30 }), 22);
   }
