@@ -222,3 +222,13 @@ export function humidityWindowCheck(
   }
   return { ok: outside.length === 0, outside };
 }
+
+/**
+ * The method that names a step using several adhesives: UV before heat before ambient (the one
+ * with its own equipment); null when none has a cure profile.
+ */
+export function stepCureMethod(profiles: readonly ({ method?: CureMethod | null } | null | undefined)[]): CureMethod | null {
+  const methods = new Set(profiles.filter((p) => !!p).map((p) => p?.method ?? 'ambient'));
+  if (methods.size === 0) return null;
+  return (['uv', 'heat', 'ambient'] as const).find((m) => methods.has(m)) ?? 'ambient';
+}

@@ -76,6 +76,8 @@ export const STATION_KIND_WORDS: Record<string, string> = {
   lead_termination: 'Lead termination',
   dust_cap: 'Dust cap',
   magnetize_test: 'Magnetize and test',
+  cure_oven: 'Cure oven',
+  uv_cure: 'UV cure',
 };
 export const stationKindWords = lookup(STATION_KIND_WORDS);
 
@@ -190,3 +192,11 @@ export function expiryCauseText(cause: string | null | undefined): string {
 export function readingSourceWords(source: string): string {
   return source === 'manual' ? 'Entered by hand' : source;
 }
+
+/** How an adhesive cures (shared/cure-methods.ts), as the traveler and the material form say it. */
+export const CURE_METHOD_WORDS: Record<'ambient' | 'heat' | 'uv', string> = {
+  ambient: 'Room-temperature cure',
+  heat: 'Oven (heat) cure',
+  uv: 'UV-light cure (by dose)',
+};
+export const cureMethodWords = lookup(CURE_METHOD_WORDS);

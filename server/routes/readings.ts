@@ -18,7 +18,7 @@ readingsRouter.get(
 readingsRouter.post(
   '/',
   endpoint({ access: 'readings.record', body: readingsPostSchema, status: 201 }, async ({ actor, body }) => {
-    const items = await recordReadings(actor, body.items);
+    const items = await recordReadings(actor, body.items, { single: body.single });
     return body.single ? items[0] : { items };
   }),
 );

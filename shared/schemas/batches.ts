@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { BATCH_STATUSES, DRIVER_STATUSES } from '../constants';
+import { CURE_METHODS } from '../cure-methods';
 import { idSchema, instantSchema, listFormatSchema, paginationQuerySchema } from './common';
 import { stepRunSchema } from './steps';
 import { driverBatchSchema, driverSchema } from './drivers';
@@ -71,7 +72,34 @@ export const travelerMaterialSchema = z.object({
   amountPerUnit: z.number(),
   /** One part of a two-part adhesive (it has a mix partner): the step's material is a mix. */
   twoPart: z.boolean(),
+  /** How this material cures (null: no cure profile, not an adhesive that cures). */
+  cureMethod: z.enum(CURE_METHODS).nullable().default(null),
 });
+
+/**
+ * How a step's adhesives cure, from their data sheets: the method (UV before heat before
+ * ambient when a step uses several), the UV dose needed, the oven schedule's range and the
+ * humidity window of a moisture-curing adhesive.
+ */
+export const stepCureSchema = z.object({
+  method: z.enum(CURE_METHODS),
+  uvDoseMJcm2: z.number().nullable(),
+  minTempC: z.number().nullable(),
+  /** Heat: the schedule's points (temperature, minutes), coolest first. */
+  schedule: z.array(z.object({ tempC: z.number(), minutes: z.number() })),
+  rhMinPct: z.number().nullable(),
+  rhMaxPct: z.number().nullable(),
+});
+export type StepCure = z.infer<typeof stepCureSchema>;
+
+/** A finished run's cure against its adhesive's humidity window: `outside` lists the stretches out of it. */
+export const stepHumiditySchema = z.object({
+  rhMinPct: z.number().nullable(),
+  rhMaxPct: z.number().nullable(),
+  area: z.string(),
+  outside: z.array(z.object({ from: instantSchema, to: instantSchema, rhPct: z.number() })),
+});
+export type StepHumidity = z.infer<typeof stepHumiditySchema>;
 
 export const travelerStepSchema = z.object({
   id: idSchema,
@@ -86,6 +114,10 @@ export const travelerStepSchema = z.object({
   handlingAt: instantSchema.nullable(),
   /** Recomputed from the readings recorded since the finish. */
   cureCompleteAt: instantSchema.nullable(),
+  /** How the step's adhesive cures (null when none of its materials has a cure profile). */
+  cure: stepCureSchema.nullable().default(null),
+  /** The finished run's humidity check (null: no adhesive of the run has a humidity window). */
+  humidity: stepHumiditySchema.nullable().default(null),
 });
 export type TravelerStep = z.infer<typeof travelerStepSchema>;
 

@@ -84,6 +84,13 @@ export const cureItemSchema = z.object({
   cureEnvironment: z.enum(['area', 'own']),
   /** 0..1 of the full cure, now. */
   progress: z.number(),
+  /** How the run's adhesive cures (UV before heat before ambient when several). */
+  cureMethod: z.enum(['ambient', 'heat', 'uv']).nullable().default(null),
+  /** A UV run's dose at its finish. */
+  uv: z
+    .object({ exposureSeconds: z.number(), irradianceMWcm2: z.number(), doseMJcm2: z.number(), neededMJcm2: z.number() })
+    .nullable()
+    .default(null),
   ready: z.boolean(),
   /** The step that waits for this cure (null after the last step). */
   nextStep: z.object({ id: idSchema, seq: z.number().int(), name: z.string() }).nullable(),

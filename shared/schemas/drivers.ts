@@ -25,6 +25,8 @@ export const driverBatchSchema = z.object({
   modelId: idSchema,
   modelCode: z.string(),
   modelName: z.string(),
+  /** The recipe revision the batch was built with. */
+  modelRevision: z.number().int().positive(),
   createdAt: instantSchema,
 });
 export type DriverBatch = z.infer<typeof driverBatchSchema>;

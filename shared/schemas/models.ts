@@ -38,6 +38,8 @@ export const driverModelSchema = z.object({
   steps: z.array(recipeStepSchema),
   /** True once a build batch has used the model (its steps can no longer be replaced). */
   inUse: z.boolean(),
+  /** Build batches built with this revision. */
+  batchCount: z.number().int().nonnegative().default(0),
   createdAt: instantSchema,
   /** Recipe revision (1, 2, …): a revision used by a batch is frozen; a copy becomes the next one. */
   revision: z.number().int().positive(),
@@ -111,6 +113,8 @@ export const modelListQuerySchema = z.object({
     .enum(['true', 'false'])
     .optional()
     .transform((v) => v === 'true'),
+  /** Only this model code (its revisions, with includeRevisions). */
+  code: modelCodeSchema.optional(),
 });
 
 /** How people name a revision: "HB12W rev 2". */

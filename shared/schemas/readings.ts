@@ -114,6 +114,8 @@ export const readingQuerySchema = z
   .object({
     area: areaSchema.optional(),
     stationId: idSchema.optional(),
+    /** Only readings carrying this measure (a UV lamp's radiometer readings: 'irradiance'). */
+    measure: z.enum(['temperature', 'irradiance'], { error: "must be 'temperature' or 'irradiance'" }).optional(),
     from: instantSchema.optional(),
     to: instantSchema.optional(),
     limit: z.coerce.number().int().min(1).max(5000).default(500),

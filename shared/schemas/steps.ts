@@ -54,6 +54,16 @@ export const stepRunSchema = z.object({
   deviationId: idSchema.nullable(),
   unitsDone: z.number().int().nullable(),
   materials: z.array(stepRunMaterialSchema),
+  /** A UV step's dose at its finish: irradiance of the lamp's latest radiometer reading × the exposure given. */
+  uv: z
+    .object({
+      exposureSeconds: z.number(),
+      irradianceMWcm2: z.number(),
+      doseMJcm2: z.number(),
+      neededMJcm2: z.number(),
+    })
+    .nullable()
+    .default(null),
 });
 export type StepRun = z.infer<typeof stepRunSchema>;
 
@@ -68,3 +78,12 @@ export const cureIncompleteDetailsSchema = z.object({
   stepId: idSchema,
 });
 export type CureIncompleteDetails = z.infer<typeof cureIncompleteDetailsSchema>;
+
+/** Details of a 409 UV_DOSE_LOW refusal (irradiance null: the lamp has no radiometer reading). */
+export const uvDoseLowDetailsSchema = z.object({
+  doseMJcm2: z.number(),
+  neededMJcm2: z.number(),
+  irradianceMWcm2: z.number().nullable(),
+  exposureSeconds: z.number(),
+});
+export type UvDoseLowDetails = z.infer<typeof uvDoseLowDetailsSchema>;

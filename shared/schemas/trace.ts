@@ -105,6 +105,8 @@ export const traceBatchSchema = z.object({
   modelId: idSchema,
   modelCode: z.string(),
   modelName: z.string(),
+  /** The recipe revision the batch was built with. */
+  modelRevision: z.number().int().positive(),
   createdAt: instantSchema,
   /** A whole-batch run used the lot (every driver of the batch is reached). */
   wholeBatch: z.boolean(),

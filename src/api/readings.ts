@@ -7,7 +7,9 @@ export function recordReading(input: ReadingInput, idempotencyKey?: string): Pro
 }
 
 /** GET /api/readings: newest first. */
-export async function listReadings(filter: { area?: string; from?: string; to?: string; limit?: number } = {}): Promise<Reading[]> {
+export async function listReadings(
+  filter: { area?: string; stationId?: string; measure?: 'temperature' | 'irradiance'; from?: string; to?: string; limit?: number } = {},
+): Promise<Reading[]> {
   const result = await apiFetch('/api/readings', { schema: readingPageSchema, query: { ...filter } });
   return result.items;
 }

@@ -17,6 +17,8 @@ export interface StepPayload {
   batchId: string;
   stepId: string;
   stepName: string;
+  /** Finish of a UV step: the exposure under the lamp, seconds. */
+  exposureSeconds?: number;
 }
 export interface UnloadPayload {
   stationId: string;
@@ -41,7 +43,9 @@ export function sendStationAction(action: QueuedAction): Promise<unknown> {
     case 'finish': {
       const p = action.payload as StepPayload;
       const call = action.kind === 'start' ? stepsApi.startStep : stepsApi.finishStep;
-      return call(p.batchId, p.stepId, { stationId: p.stationId }, key);
+      const body =
+        p.exposureSeconds !== undefined ? { stationId: p.stationId, exposureSeconds: p.exposureSeconds } : { stationId: p.stationId };
+      return call(p.batchId, p.stepId, body, key);
     }
     case 'unload': {
       const p = action.payload as UnloadPayload;

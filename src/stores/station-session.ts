@@ -9,6 +9,7 @@ import type { StepRunResult } from '@shared/schemas/steps';
 import * as stationsApi from '@/api/stations';
 import * as batchesApi from '@/api/batches';
 import * as deviationsApi from '@/api/deviations';
+import * as readingsApi from '@/api/readings';
 import { activeCureGate } from '@/components/station/startGate';
 import { ApiError } from '@/api/http';
 import { useOfflineQueue, type QueuedAction, type QueueOutcome } from '@/composables/useOfflineQueue';
@@ -51,6 +52,8 @@ export const useStationSessionStore = defineStore('station-session', () => {
 
   /** Quality signed an early start (unused deviation) for the step here: Start may go on while curing. */
   const earlyStartSigned = ref(false);
+  /** The UV lamp's latest radiometer reading at this station (read for a UV step only; null: none recorded). */
+  const lamp = ref<{ irradianceMWcm2: number; at: string } | null>(null);
 
   const queue = useOfflineQueue({ storageKey: KEYS.queue, send: sendStationAction, onResult });
   const stepHere = computed(() => stepAtStation(traveler.value, station.value?.kind));
@@ -175,6 +178,7 @@ export const useStationSessionStore = defineStore('station-session', () => {
     try {
       if (batch) setTraveler(await batchesApi.getBatch(batch.id));
       await checkEarlyStart();
+      await readLamp();
       if (st) {
         const loaded = await stationsApi.listLoaded(st.id, batch?.id);
         loads.value = loaded.items;
@@ -183,6 +187,17 @@ export const useStationSessionStore = defineStore('station-session', () => {
     } catch (err) {
       if (!(err instanceof ApiError && err.status === 0)) throw err;
     }
+  }
+
+  /** The lamp's latest radiometer reading, when the step here cures by UV dose (the finish computes the same). */
+  async function readLamp(): Promise<void> {
+    const st = station.value;
+    if (!st || stepHere.value?.cure?.method !== 'uv') {
+      lamp.value = null;
+      return;
+    }
+    const [latest] = await readingsApi.listReadings({ stationId: st.id, measure: 'irradiance', limit: 1 });
+    lamp.value = latest && latest.irradianceMWcm2 !== null ? { irradianceMWcm2: latest.irradianceMWcm2, at: latest.at } : null;
   }
 
   /** Looks for an unused early-start deviation, only while the step here waits for a cure. */
@@ -291,13 +306,15 @@ export const useStationSessionStore = defineStore('station-session', () => {
     act('load', payload, `Load ${meaning.code}`);
   }
 
-  function stepAction(kind: 'start' | 'finish') {
+  function stepAction(kind: 'start' | 'finish', exposureSeconds?: number) {
     const step = stepHere.value;
     if (!station.value || !traveler.value || !step) return;
+    const payload: StepPayload = { stationId: station.value.id, batchId: traveler.value.batch.id, stepId: step.id, stepName: step.name };
+    if (kind === 'finish' && exposureSeconds !== undefined) payload.exposureSeconds = exposureSeconds;
     act(
       kind,
-      { stationId: station.value.id, batchId: traveler.value.batch.id, stepId: step.id, stepName: step.name },
-      `${kind === 'start' ? 'Start' : 'Finish'} "${step.name}"`,
+      payload,
+      `${kind === 'start' ? 'Start' : 'Finish'} "${step.name}"${payload.exposureSeconds !== undefined ? ` (${payload.exposureSeconds} s under the lamp)` : ''}`,
     );
     // Shown at once, corrected by the server's answer (or refusal) when it comes.
     setTraveler({
@@ -326,6 +343,7 @@ export const useStationSessionStore = defineStore('station-session', () => {
     loads.value = [];
     cureBlock.value = null;
     earlyStartSigned.value = false;
+    lamp.value = null;
   }
 
   function forgetStation() {
@@ -343,6 +361,7 @@ export const useStationSessionStore = defineStore('station-session', () => {
     history: computed(() => history.value),
     cureBlock: computed(() => cureBlock.value),
     earlyStartSigned: computed(() => earlyStartSigned.value),
+    lamp: computed(() => lamp.value),
     stepHere,
     /** Actions waiting to be sent (offline), oldest first. */
     queued: computed(() => queue.items.value),
@@ -356,7 +375,8 @@ export const useStationSessionStore = defineStore('station-session', () => {
     selectStation,
     selectBatch,
     startStep: () => stepAction('start'),
-    finishStep: () => stepAction('finish'),
+    /** `exposureSeconds`: a UV step's time under the lamp (the server computes the dose from it). */
+    finishStep: (exposureSeconds?: number) => stepAction('finish', exposureSeconds),
     unload,
     recordMix,
     leaveBatch,

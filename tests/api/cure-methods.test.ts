@@ -136,6 +136,29 @@ describe('cure methods: stations and their own readings', () => {
     const listed = await as(assembler).get(`/api/readings?stationId=${oven.id}`);
     expect(listed.status).toBe(200);
     expect(listed.body.items).toHaveLength(2);
+    // Only the radiometer readings (what the station screen asks for a UV step's dose).
+    const lampOnly = await as(assembler).get(`/api/readings?stationId=${oven.id}&measure=irradiance`);
+    expect(lampOnly.body.items.map((r: { irradianceMWcm2: number }) => r.irradianceMWcm2)).toEqual([95.5]);
+    expect(fields(await as(assembler).get(`/api/readings?stationId=${oven.id}&measure=light`))).toEqual(['query.measure']);
+  });
+
+  it('readings: an unknown stationId is a 400 naming the field (alone or in a list), and nothing is recorded', async () => {
+    const oven = await createStation({ cureEnvironment: 'own' });
+    const at = iso(-60_000);
+    const unknown = '00000000-0000-4000-8000-00000000abcd';
+    const one = await as(assembler).post('/api/readings', { stationId: unknown, at, tempC: 150 });
+    expect(one.status).toBe(400);
+    expect(fields(one)).toEqual(['stationId']);
+    expect(one.body.error.message).toContain('not a station');
+    const many = await as(assembler).post('/api/readings', {
+      readings: [
+        { stationId: oven.id, at, tempC: 149 },
+        { stationId: unknown, at, irradianceMWcm2: 90 },
+      ],
+    });
+    expect(many.status).toBe(400);
+    expect(fields(many)).toEqual(['readings.1.stationId']);
+    expect(await db.select().from(readings).where(eq(readings.stationId, oven.id))).toHaveLength(0);
   });
 });
 
@@ -283,6 +306,14 @@ describe('cure methods: a UV step is finished by its dose', () => {
     const ok = await u.finish({ exposureSeconds: 40 });
     expect(ok.status).toBe(200);
     expect(ok.body.stepRun.finishedAt).not.toBeNull();
+    // The run keeps the figures (dose = irradiance × time: 80 mW/cm² × 40 s = 3,200 mJ/cm²), and the traveler shows them.
+    expect(ok.body.stepRun.uv).toEqual({ exposureSeconds: 40, irradianceMWcm2: 80, doseMJcm2: 3200, neededMJcm2: 3000 });
+    const traveler = await as(assembler).get(`/api/batches/${u.batch.id}`);
+    const step = traveler.body.steps[0];
+    expect(step.cure).toMatchObject({ method: 'uv', uvDoseMJcm2: 3000 });
+    expect(step.materials[0].cureMethod).toBe('uv');
+    expect(step.run.uv).toMatchObject({ doseMJcm2: 3200, neededMJcm2: 3000 });
+    expect(step.humidity).toBeNull();
   });
 
   it('a quality deviation (uv_dose_low) lets a short dose finish, once', async () => {
@@ -354,6 +385,10 @@ describe('cure methods: humidity window', () => {
     await createReading(area, hoursAgo(4), 23, 50);
     await as(quality).post('/api/compliance/run', {});
     expect(await db.select().from(alerts).where(eq(alerts.subjectId, inside.id))).toHaveLength(0);
+    const travelerStep = async () => (await as(assembler).get(`/api/batches/${inside.batchId}`)).body.steps[0];
+    const before = await travelerStep();
+    expect(before.cure).toMatchObject({ method: 'ambient', rhMinPct: 40, rhMaxPct: 60 });
+    expect(before.humidity).toMatchObject({ rhMinPct: 40, rhMaxPct: 60, area, outside: [] });
 
     // 1 h ago the area dropped to 30 % RH: below the window (the cure is still running).
     await createReading(area, hoursAgo(1), 23, 30);
@@ -362,5 +397,9 @@ describe('cure methods: humidity window', () => {
     expect(flag).toMatchObject({ kind: 'humidity_out_of_window', subjectType: 'step_run', state: 'open' });
     expect(flag.message).toContain('30 % RH');
     expect(flag.message).toContain('40–60 % RH');
+    // The batch page shows the same flag, computed from the readings (not from the alert).
+    const after = await travelerStep();
+    expect(after.humidity.outside).toHaveLength(1);
+    expect(after.humidity.outside[0]).toMatchObject({ rhPct: 30 });
   });
 });

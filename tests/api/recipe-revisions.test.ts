@@ -1,17 +1,20 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { api, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
-import { createMaterial, createStation, sfx } from '../helpers/fixtures';
+import { createLot, createMaterial, createStation, createStepRun, sfx } from '../helpers/fixtures';
 
 let app: TestApp;
 let admin: TestUser;
 let assembler: TestUser;
 let kind: string;
+let stationId: string;
 let glueId: string;
 beforeAll(async () => {
   app = await startApp();
   [admin, assembler] = await Promise.all([ensureUser(['admin']), ensureUser(['assembler'])]);
-  kind = (await createStation({ kind: `dust cap ${sfx()}` })).kind;
+  const station = await createStation({ kind: `dust cap ${sfx()}` });
+  kind = station.kind;
+  stationId = station.id;
   glueId = (await createMaterial({ name: 'Cap glue' })).id;
 });
 afterAll(() => app.close());
@@ -82,6 +85,38 @@ describe('recipe revisions', () => {
     const detail = await as(assembler).get(`/api/batches/${batch1.body.batch.id}`);
     expect(detail.body.batch.modelRevision).toBe(1);
     expect(detail.body.steps.map((s: { name: string }) => s.name)).toEqual(['Dust cap']);
+
+    // Both traces name the revision each batch was built with: one lot used by both batches.
+    const lot = await createLot({ materialId: glueId, quantity: 100 });
+    await createStepRun({
+      batchId: batch1.body.batch.id,
+      stepId: rev1.steps[0].id,
+      stationId,
+      used: [{ containerId: lot.containers[0].id, quantity: 0.8 }],
+    });
+    await createStepRun({
+      batchId: batch2.body.batch.id,
+      stepId: made.body.steps[0].id,
+      stationId,
+      used: [{ containerId: lot.containers[0].id, quantity: 0.5 }],
+    });
+    const forward = await as(assembler).get(`/api/lots/${lot.id}/trace`);
+    expect(forward.status).toBe(200);
+    const byCode = Object.fromEntries(forward.body.batches.map((b: { code: string; modelRevision: number }) => [b.code, b.modelRevision]));
+    expect(byCode).toEqual({ [batch1.body.batch.code]: 1, [batch2.body.batch.code]: 2 });
+    const back1 = await as(assembler).get(`/api/drivers/${batch1.body.drivers[0].serial}/trace`);
+    expect(back1.body.batch.modelRevision).toBe(1);
+    const back2 = await as(assembler).get(`/api/drivers/${batch2.body.drivers[0].serial}/trace`);
+    expect(back2.body.batch.modelRevision).toBe(2);
+
+    // The list counts the batches of each revision (rev 1 frozen by one, rev 2 by one now).
+    const revs = await as(admin).get(`/api/models?includeRevisions=true&code=${rev1.code}`);
+    expect(
+      revs.body.items.map((m: { revision: number; batchCount: number; current: boolean }) => [m.revision, m.batchCount, m.current]),
+    ).toEqual([
+      [1, 1, false],
+      [2, 1, true],
+    ]);
 
     // Lists show the current revision by default, every revision on request.
     const list = await as(assembler).get('/api/models');

@@ -16,6 +16,8 @@ function step(seq: number, over: Partial<TravelerStep> = {}): TravelerStep {
     run: null,
     handlingAt: null,
     cureCompleteAt: null,
+    cure: null,
+    humidity: null,
     ...over,
   };
 }

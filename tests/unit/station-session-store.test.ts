@@ -20,10 +20,12 @@ vi.mock('@/api/stations', () => ({
 vi.mock('@/api/batches', () => ({ listBatches: unexpected('listBatches'), getBatch: unexpected('getBatch') }));
 vi.mock('@/api/steps', () => ({ startStep: unexpected('startStep'), finishStep: unexpected('finishStep') }));
 vi.mock('@/api/mixes', () => ({ createMix: unexpected('createMix') }));
+vi.mock('@/api/readings', () => ({ listReadings: unexpected('listReadings') }));
 
 const stationsApi = await import('@/api/stations');
 const batchesApi = await import('@/api/batches');
 const stepsApi = await import('@/api/steps');
+const readingsApi = await import('@/api/readings');
 const { useStationSessionStore } = await import('@/stores/station-session');
 
 const id = (n: number) => `00000000-0000-4000-8000-${String(n).padStart(12, '0')}`;
@@ -62,6 +64,8 @@ function step(n: number, name: string, kind: string, state: TravelerStep['state'
     run: null,
     handlingAt: null,
     cureCompleteAt: null,
+    cure: null,
+    humidity: null,
     ...extra,
   };
 }
@@ -277,6 +281,7 @@ describe('station session store', () => {
       shortCure: false,
       deviationId: null,
       unitsDone: null,
+      uv: null,
       materials: [],
     };
     vi.mocked(stepsApi.startStep).mockResolvedValueOnce({ stepRun: run });
@@ -285,6 +290,50 @@ describe('station session store', () => {
     await flush();
     expect(stepsApi.startStep).toHaveBeenCalledWith(id(50), id(101), { stationId: magStation.id }, expect.any(String));
     expect(store.feedback).toMatchObject({ kind: 'accept', title: 'Started: Magnet assembly' });
+  });
+
+  it("a UV step: reads the lamp's latest radiometer reading and sends the exposure time with the finish", async () => {
+    const uvStation: Station = { ...capStation, id: id(3), code: 'ST-UV-1', kind: 'uv_cure', cureEnvironment: 'own' };
+    const cure = { method: 'uv' as const, uvDoseMJcm2: 3000, minTempC: null, schedule: [], rhMinPct: null, rhMaxPct: null };
+    const t = traveler([step(4, 'Dust cap (UV)', 'uv_cure', 'running', { cure })]);
+    const store = useStationSessionStore();
+    vi.mocked(stationsApi.listStations).mockResolvedValueOnce([uvStation]);
+    await store.refreshStations();
+    vi.mocked(stationsApi.listLoaded).mockResolvedValue({ items: [], now: NOW });
+    vi.mocked(batchesApi.getBatch).mockResolvedValue(t);
+    const lampReading = {
+      id: id(800),
+      area: null,
+      stationId: uvStation.id,
+      at: '2026-03-01T08:00:00.000Z',
+      tempC: null,
+      rhPct: null,
+      irradianceMWcm2: 97,
+      source: 'radiometer',
+      recordedBy: null,
+      createdAt: NOW,
+    };
+    vi.mocked(readingsApi.listReadings).mockResolvedValue([lampReading]);
+    await store.scan('ST-UV-1');
+    vi.mocked(batchesApi.listBatches).mockResolvedValueOnce({ items: [t.batch], total: 1 });
+    await store.scan('HB12W-260304-01');
+    await flush();
+    expect(readingsApi.listReadings).toHaveBeenCalledWith({ stationId: uvStation.id, measure: 'irradiance', limit: 1 });
+    expect(store.lamp).toEqual({ irradianceMWcm2: 97, at: lampReading.at });
+
+    vi.mocked(stepsApi.finishStep).mockRejectedValueOnce(
+      new ApiError(409, 'UV_DOSE_LOW', 'The UV dose reached is 1,940 mJ/cm² (97 mW/cm² × 20 s); the adhesive needs 3,000 mJ/cm².'),
+    );
+    store.finishStep(20);
+    await flush();
+    expect(stepsApi.finishStep).toHaveBeenCalledWith(
+      t.batch.id,
+      id(104),
+      { stationId: uvStation.id, exposureSeconds: 20 },
+      expect.any(String),
+    );
+    expect(store.feedback).toMatchObject({ kind: 'refuse', code: 'UV_DOSE_LOW', title: 'Refused: UV dose too low' });
+    expect(store.feedback?.message).toContain('1,940 mJ/cm²');
   });
 
   it('on CURE_INCOMPLETE shows when the previous step cure completes', async () => {

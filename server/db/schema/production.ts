@@ -90,6 +90,11 @@ export const stepRuns = pgTable(
     shortCure: boolean('short_cure').notNull().default(false),
     deviationId: uuid('deviation_id').references(() => deviations.id),
     unitsDone: integer('units_done'),
+    /** A UV step's finish: the exposure given, the lamp's irradiance then, the dose reached and the dose the adhesive needs. */
+    exposureSeconds: numeric('exposure_seconds', { precision: 8, scale: 1 }),
+    uvIrradianceMWcm2: numeric('uv_irradiance_mw_cm2', { precision: 8, scale: 2 }),
+    uvDoseMJcm2: numeric('uv_dose_mj_cm2', { precision: 12, scale: 1 }),
+    uvDoseNeededMJcm2: numeric('uv_dose_needed_mj_cm2', { precision: 12, scale: 1 }),
   },
   (t) => [
     index('step_runs_batch_idx').on(t.batchId, t.stepId),

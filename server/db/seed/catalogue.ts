@@ -450,6 +450,51 @@ export const DEMO_MODELS: { code: string; name: string; description: string; ste
       { name: 'Magnetize and test', stationKind: 'magnetize_test', waitForCure: false, materials: [] },
     ],
   },
+  /**
+   * A woofer whose motor is bonded with the one-part heat-cure epoxy in the oven and whose dust cap
+   * is bonded with the UV-curing acrylic under the UV lamp: built only today in the demo (the
+   * oven's and the lamp's own readings cover today), so the cure board shows an oven cure and a
+   * UV cure with their own figures.
+   */
+  {
+    code: 'HB12X',
+    name: '12 in woofer, 600 W, oven-cured motor',
+    description: 'Ferrite motor bonded with heat-cure epoxy in the oven; UV-cured dust cap.',
+    steps: [
+      {
+        name: 'Magnet bond and oven cure',
+        stationKind: 'cure_oven',
+        waitForCure: true,
+        materials: [
+          ['MAG-FER-156', 1],
+          ['FRM-12S', 1],
+          ['ADH-HC-150', 1.5],
+        ],
+      },
+      {
+        name: 'Moving parts',
+        stationKind: 'moving_parts',
+        waitForCure: false,
+        materials: [
+          ['WIR-AL-EW', 14],
+          ['CON-12P', 1],
+          ['SPI-12', 1],
+          ['ADH-CA-40', 0.4],
+        ],
+      },
+      { name: 'Lead termination', stationKind: 'lead_termination', waitForCure: false, materials: [['WIR-TIN-16', 0.35]] },
+      {
+        name: 'Dust cap (UV)',
+        stationKind: 'uv_cure',
+        waitForCure: true,
+        materials: [
+          ['DCP-40', 1],
+          ['ADH-UV-30', 0.3],
+        ],
+      },
+      { name: 'Magnetize and test', stationKind: 'magnetize_test', waitForCure: false, materials: [] },
+    ],
+  },
 ];
 
 export const DEMO_DEFECT_CODES = [

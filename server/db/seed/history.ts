@@ -74,6 +74,8 @@ export interface SimStepRun {
   deviationReason?: string;
   uses: SimUse[];
   cureMinutes?: { handling: number; full: number };
+  /** A UV step's finish: exposure under the lamp and its dose (the lamp's reading × time). */
+  uv?: { exposureSeconds: number; irradianceMWcm2: number; doseMJcm2: number; neededMJcm2: number };
 }
 
 export interface SimDriver {
@@ -110,7 +112,12 @@ const STATION_FOR_KIND: Record<string, string> = {
   lead_termination: 'ST-LEAD-1',
   dust_cap: 'ST-CAP-1',
   magnetize_test: 'ST-MZT-1',
+  cure_oven: 'ST-OVN-1',
+  uv_cure: 'ST-UV-1',
 };
+
+/** The UV lamp's last radiometer reading in the demo (seed/plant.ts writes it, 9 days before now). */
+export const DEMO_LAMP_IRRADIANCE = 97;
 
 function dateOnly(dt: DateTime): string {
   return dt.toISODate() as string;
@@ -406,6 +413,32 @@ export function simulateHistory(now: DateTime, materials: DemoMaterial[], models
   runStep(curingLater, woofer, 1, now.minus({ hours: 3, minutes: 50 }), 40);
   runStep(curingLater, woofer, 2, now.minus({ hours: 2, minutes: 20 }), 25);
   runStep(curingLater, woofer, 3, now.minus({ hours: 1, minutes: 20 }), 30);
+
+  // The oven-and-UV woofer (HB12X), today only (the oven's and the lamp's own readings cover today):
+  // one batch whose UV dust cap was cured 40 min ago (35 s × 97 mW/cm² = 3,395 mJ/cm², 3,000 needed)
+  // and waits for its final test, one at the UV lamp next (its lead termination done), and one
+  // whose motor bond has just come out of the oven and is still curing (15 min at 150 °C).
+  const ovenUv = modelByCode.get('HB12X');
+  if (ovenUv) {
+    const uvDone = newBatch('HB12X', 24, now.minus({ hours: 6 }));
+    uvDone.status = 'in_process';
+    runStep(uvDone, ovenUv, 0, now.minus({ hours: 5, minutes: 45 }), 25);
+    runStep(uvDone, ovenUv, 1, now.minus({ hours: 5 }), 60);
+    runStep(uvDone, ovenUv, 2, now.minus({ hours: 3, minutes: 30 }), 30);
+    const capRun = runStep(uvDone, ovenUv, 3, now.minus({ minutes: 50 }), 10);
+    const needed = byCode.get('ADH-UV-30')?.cure?.uvDoseMJcm2 ?? 3000;
+    capRun.uv = { exposureSeconds: 35, irradianceMWcm2: DEMO_LAMP_IRRADIANCE, doseMJcm2: 35 * DEMO_LAMP_IRRADIANCE, neededMJcm2: needed };
+
+    const atLamp = newBatch('HB12X', 12, now.minus({ hours: 4 }));
+    atLamp.status = 'in_process';
+    runStep(atLamp, ovenUv, 0, now.minus({ hours: 3, minutes: 50 }), 25);
+    runStep(atLamp, ovenUv, 1, now.minus({ hours: 3 }), 50);
+    runStep(atLamp, ovenUv, 2, now.minus({ hours: 1, minutes: 50 }), 30);
+
+    const inOven = newBatch('HB12X', 24, now.minus({ minutes: 50 }));
+    inOven.status = 'in_process';
+    runStep(inOven, ovenUv, 0, now.minus({ minutes: 30 }), 22);
+  }
 
   const running = newBatch('HB65F', 150, now.minus({ hours: 2 }));
   running.status = 'in_process';

@@ -4,7 +4,7 @@ import { DateTime } from 'luxon';
 import type { Tx } from '../client';
 import * as s from '../schema';
 import { DEMO_DEFECT_CODES, DEMO_MATERIALS, DEMO_MODELS, DEMO_STATIONS, DEMO_SUPPLIERS } from './catalogue';
-import { simulateHistory, type SimContainer, type SimMix } from './history';
+import { DEMO_LAMP_IRRADIANCE, simulateHistory, type SimContainer, type SimMix } from './history';
 import { CROCKFORD_ALPHABET, containerCodeFromBody } from '../../../shared/schemas/containers';
 
 /** A container code in the format the receiving service issues (see shared/schemas/containers.ts). */
@@ -259,6 +259,14 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
         shortCure: run.shortCure,
         deviationId,
         unitsDone: run.finishedAt ? (run.driverSerial ? 1 : batch.quantity) : null,
+        ...(run.uv
+          ? {
+              exposureSeconds: String(run.uv.exposureSeconds),
+              uvIrradianceMWcm2: String(run.uv.irradianceMWcm2),
+              uvDoseMJcm2: String(run.uv.doseMJcm2),
+              uvDoseNeededMJcm2: String(run.uv.neededMJcm2),
+            }
+          : {}),
       })
       .returning({ id: s.stepRuns.id });
     if (run.uses.length) {
@@ -317,7 +325,7 @@ export async function seedPlant(tx: Tx, users: Record<string, string>, now = Dat
     const lampReadings = [23, 16, 9].map((days, i) => ({
       stationId: lamp.id,
       at: iso(now.minus({ days })),
-      irradianceMWcm2: String([104, 101, 97][i]),
+      irradianceMWcm2: String([104, 101, DEMO_LAMP_IRRADIANCE][i]),
       source: 'radiometer',
       recordedBy: admin,
     }));

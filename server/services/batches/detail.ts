@@ -1,11 +1,39 @@
 import { and, asc, eq, inArray, isNotNull } from 'drizzle-orm';
 import { db } from '../../db/client';
 import { drivers, materials, stations, stepRuns } from '../../db/schema';
-import type { BatchDetail, TravelerStep } from '../../../shared/schemas/batches';
+import type { BatchDetail, StepCure, TravelerStep } from '../../../shared/schemas/batches';
+import type { CureProfileJson } from '../../db/schema';
+import { humidityOfRun } from '../cure/humidity';
+import { stepCureMethod } from '../../../shared/cure-methods';
 import { describeRuns } from '../steps/describe';
 import { cureOfRun, profilesForRuns } from '../cure/compute';
 import { findBatch } from './read';
 import { batchProgress } from './progress';
+
+/**
+ * How a step's adhesives cure, from the recipe's materials' profiles: UV before heat before
+ * ambient when a step uses several (the one with its own equipment names the step); the
+ * highest UV dose, the narrowest humidity window.
+ */
+export function stepCureOf(profiles: (CureProfileJson | null)[]): StepCure | null {
+  const ps = profiles.filter((p): p is CureProfileJson => !!p);
+  if (ps.length === 0) return null;
+  const method = stepCureMethod(ps) ?? 'ambient';
+  const of = ps.filter((p) => (p.method ?? 'ambient') === method);
+  const nums = (xs: (number | undefined)[]) => xs.filter((x): x is number => typeof x === 'number');
+  const doses = nums(of.map((p) => p.uvDoseMJcm2));
+  const mins = nums(ps.map((p) => p.minTempC));
+  const rhMin = nums(ps.map((p) => p.rhMinPct));
+  const rhMax = nums(ps.map((p) => p.rhMaxPct));
+  return {
+    method,
+    uvDoseMJcm2: doses.length ? Math.max(...doses) : null,
+    minTempC: mins.length ? Math.max(...mins) : null,
+    schedule: method === 'heat' ? [...(of.find((p) => p.schedule?.length)?.schedule ?? [])].sort((a, b) => a.tempC - b.tempC) : [],
+    rhMinPct: rhMin.length ? Math.max(...rhMin) : null,
+    rhMaxPct: rhMax.length ? Math.min(...rhMax) : null,
+  };
+}
 
 /** GET /api/batches/:id — the traveler: every step with its state, run and cure (recomputed now). */
 export async function getBatchDetail(id: string, now: Date = new Date()): Promise<BatchDetail> {
@@ -20,6 +48,7 @@ export async function getBatchDetail(id: string, now: Date = new Date()): Promis
           name: materials.name,
           unit: materials.unit,
           partnerMaterialId: materials.partnerMaterialId,
+          cure: materials.cure,
         })
         .from(materials)
         .where(inArray(materials.id, materialIds))
@@ -58,17 +87,22 @@ export async function getBatchDetail(id: string, now: Date = new Date()): Promis
     let state: TravelerStep['state'] = 'pending';
     let handlingAt: string | null = null;
     let cureCompleteAt: string | null = null;
+    let humidity: TravelerStep['humidity'] = null;
     if (runRow && !runRow.finishedAt) state = 'running';
     if (runRow?.finishedAt) {
-      const cure = await cureOfRun(
-        db,
-        { finishedAt: runRow.finishedAt, area: areas.get(runRow.stationId) ?? '', stationId: runRow.stationId },
-        profiles.get(runRow.id) ?? [],
-        now,
-      );
+      const area = areas.get(runRow.stationId) ?? '';
+      const runProfiles = profiles.get(runRow.id) ?? [];
+      const cure = await cureOfRun(db, { finishedAt: runRow.finishedAt, area, stationId: runRow.stationId }, runProfiles, now);
       handlingAt = cure?.handlingAt ?? null;
       cureCompleteAt = cure?.cureCompleteAt ?? null;
       state = cure && (cure.cureCompleteAt === null || Date.parse(cure.cureCompleteAt) > now.getTime()) ? 'curing' : 'done';
+      const h = await humidityOfRun(
+        db,
+        { finishedAt: runRow.finishedAt, cureCompleteAt: cureCompleteAt ? new Date(cureCompleteAt) : null, area },
+        runProfiles,
+        now,
+      );
+      humidity = h ? { ...h, area } : null;
     }
     steps.push({
       id: s.id,
@@ -85,12 +119,15 @@ export async function getBatchDetail(id: string, now: Date = new Date()): Promis
           unit: mat?.unit ?? '',
           amountPerUnit: m.amountPerUnit,
           twoPart: !!mat?.partnerMaterialId,
+          cureMethod: mat?.cure ? (mat.cure.method ?? 'ambient') : null,
         };
       }),
       state,
       run,
       handlingAt,
       cureCompleteAt,
+      cure: stepCureOf(s.materials.map((m) => mats.find((x) => x.id === m.materialId)?.cure ?? null)),
+      humidity,
     });
   }
   const driverRows = await db

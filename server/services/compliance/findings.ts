@@ -19,7 +19,7 @@ import { plantDateTime } from '../../plant-time';
 import { formatDate } from '../../../shared/plant-time';
 import { pChartLimits } from '../../../shared/stats';
 import { lotFailureDetail, lotFailureSentence } from '../../../shared/alert-words';
-import { humidityWindowCheck, type MethodCureProfile } from '../../../shared/cure-methods';
+import { humidityOfRun } from '../cure/humidity';
 
 export interface Finding {
   kind: string;
@@ -385,47 +385,32 @@ export async function humidityOutOfWindow(tx: DbOrTx, now: Date): Promise<Findin
   );
   const out: Finding[] = [];
   for (const r of runs) {
-    const windows = ((profiles.get(r.id) ?? []) as MethodCureProfile[]).filter(
-      (p) => typeof p.rhMinPct === 'number' || typeof p.rhMaxPct === 'number',
+    if (!r.finishedAt) continue;
+    const h = await humidityOfRun(
+      tx,
+      { finishedAt: r.finishedAt, cureCompleteAt: r.cureCompleteAt, area: r.area },
+      profiles.get(r.id) ?? [],
+      now,
     );
-    if (windows.length === 0 || !r.finishedAt) continue;
-    const to = r.cureCompleteAt && r.cureCompleteAt < now ? r.cureCompleteAt : now;
-    const rows = await tx
-      .select({ at: readings.at, rh: readings.rhPct })
-      .from(readings)
-      .where(
-        and(
-          eq(readings.area, r.area),
-          isNotNull(readings.rhPct),
-          lte(readings.at, to),
-          gte(readings.at, new Date(r.finishedAt.getTime() - 4 * 3_600_000)),
-        ),
-      )
-      .orderBy(readings.at);
-    const rh = rows.map((x) => ({ at: x.at.toISOString(), rhPct: Number(x.rh) }));
-    for (const w of windows) {
-      const check = humidityWindowCheck(w, r.finishedAt.toISOString(), to.toISOString(), rh);
-      if (check.ok) continue;
-      const first = check.outside[0];
-      const range = `${w.rhMinPct ?? 0}–${w.rhMaxPct ?? 100} % RH`;
-      out.push({
-        kind: 'humidity_out_of_window',
-        severity: 'warning',
-        subjectType: 'step_run',
-        subjectId: r.id,
-        message: `Batch ${r.batch}, step "${r.step}": the adhesive cured while ${r.area} was at ${first.rhPct} % RH (from ${when(new Date(first.from))}), outside its data sheet range of ${range}.`,
-        audience: ['quality'],
-        data: {
-          batchCode: r.batch,
-          step: r.step,
-          area: r.area,
-          outside: check.outside,
-          rhMinPct: w.rhMinPct ?? null,
-          rhMaxPct: w.rhMaxPct ?? null,
-        },
-      });
-      break;
-    }
+    if (!h || h.outside.length === 0) continue;
+    const first = h.outside[0];
+    const range = `${h.rhMinPct ?? 0}–${h.rhMaxPct ?? 100} % RH`;
+    out.push({
+      kind: 'humidity_out_of_window',
+      severity: 'warning',
+      subjectType: 'step_run',
+      subjectId: r.id,
+      message: `Batch ${r.batch}, step "${r.step}": the adhesive cured while ${r.area} was at ${first.rhPct} % RH (from ${when(new Date(first.from))}), outside its data sheet range of ${range}.`,
+      audience: ['quality'],
+      data: {
+        batchCode: r.batch,
+        step: r.step,
+        area: r.area,
+        outside: h.outside,
+        rhMinPct: h.rhMinPct,
+        rhMaxPct: h.rhMaxPct,
+      },
+    });
   }
   return out;
 }

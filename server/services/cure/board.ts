@@ -4,6 +4,7 @@ import { buildBatches, driverModels, drivers, recipeSteps, stations, stepRuns } 
 import type { CureItem, CureList } from '../../../shared/schemas/cure';
 import { findBatch } from '../batches/read';
 import { cureOfRun, profilesForRuns } from './compute';
+import { stepCureMethod, type MethodCureProfile } from '../../../shared/cure-methods';
 
 /** Cures older than this are not looked at by the board (a cure of a week is far beyond any adhesive here). */
 const BOARD_LOOKBACK_DAYS = 14;
@@ -83,6 +84,16 @@ async function cureItems(tx: DbOrTx, where: ReturnType<typeof and>, now: Date, i
       cureCompleteAt: cure.cureCompleteAt,
       progress: cure.progress,
       cureEnvironment: cure.environment,
+      cureMethod: stepCureMethod((profiles.get(r.run.id) ?? []) as MethodCureProfile[]),
+      uv:
+        r.run.uvDoseMJcm2 !== null && r.run.uvDoseNeededMJcm2 !== null
+          ? {
+              exposureSeconds: Number(r.run.exposureSeconds),
+              irradianceMWcm2: Number(r.run.uvIrradianceMWcm2),
+              doseMJcm2: Number(r.run.uvDoseMJcm2),
+              neededMJcm2: Number(r.run.uvDoseNeededMJcm2),
+            }
+          : null,
       ready,
       nextStep: next ? { id: next.id, seq: next.seq, name: next.name } : null,
     });

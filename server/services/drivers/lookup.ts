@@ -28,6 +28,7 @@ export async function findDriverWithBatch(dbx: DbOrTx, serial: string): Promise<
       modelId: driverModels.id,
       modelCode: driverModels.code,
       modelName: driverModels.name,
+      modelRevision: driverModels.revision,
     })
     .from(drivers)
     .innerJoin(buildBatches, eq(buildBatches.id, drivers.batchId))
@@ -45,6 +46,7 @@ export async function findDriverWithBatch(dbx: DbOrTx, serial: string): Promise<
       modelId: row.modelId,
       modelCode: row.modelCode,
       modelName: row.modelName,
+      modelRevision: row.modelRevision,
       createdAt: row.batchCreatedAt.toISOString(),
     },
   };

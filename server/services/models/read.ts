@@ -1,4 +1,4 @@
-import { and, asc, eq, inArray } from 'drizzle-orm';
+import { and, asc, count, eq, inArray } from 'drizzle-orm';
 import { db, type DbOrTx } from '../../db/client';
 import { buildBatches, driverModels, recipeStepMaterials, recipeSteps } from '../../db/schema';
 import { notFound } from '../../errors';
@@ -35,15 +35,20 @@ export async function loadSteps(tx: DbOrTx, modelIds: string[]): Promise<Map<str
   return out;
 }
 
-async function modelsInUse(tx: DbOrTx, modelIds: string[]): Promise<Set<string>> {
-  if (modelIds.length === 0) return new Set();
-  const rows = await tx.selectDistinct({ modelId: buildBatches.modelId }).from(buildBatches).where(inArray(buildBatches.modelId, modelIds));
-  return new Set(rows.map((r) => r.modelId));
+/** How many build batches use each model revision (a revision with any is frozen). */
+async function batchCounts(tx: DbOrTx, modelIds: string[]): Promise<Map<string, number>> {
+  if (modelIds.length === 0) return new Map();
+  const rows = await tx
+    .select({ modelId: buildBatches.modelId, n: count() })
+    .from(buildBatches)
+    .where(inArray(buildBatches.modelId, modelIds))
+    .groupBy(buildBatches.modelId);
+  return new Map(rows.map((r) => [r.modelId, r.n]));
 }
 
 export async function toModels(tx: DbOrTx, rows: ModelRow[]): Promise<DriverModel[]> {
   const ids = rows.map((r) => r.id);
-  const [steps, used] = await Promise.all([loadSteps(tx, ids), modelsInUse(tx, ids)]);
+  const [steps, used] = await Promise.all([loadSteps(tx, ids), batchCounts(tx, ids)]);
   return rows.map((r) => ({
     id: r.id,
     code: r.code,
@@ -51,7 +56,8 @@ export async function toModels(tx: DbOrTx, rows: ModelRow[]): Promise<DriverMode
     description: r.description,
     active: r.active,
     steps: steps.get(r.id) ?? [],
-    inUse: used.has(r.id),
+    inUse: (used.get(r.id) ?? 0) > 0,
+    batchCount: used.get(r.id) ?? 0,
     createdAt: r.createdAt.toISOString(),
     revision: r.revision,
     current: r.current,
@@ -70,7 +76,11 @@ export async function getModel(id: string, tx: DbOrTx = db): Promise<DriverModel
   return model;
 }
 
-export async function listModels(query: { includeRetired: boolean; includeRevisions?: boolean }): Promise<{ items: DriverModel[] }> {
+export async function listModels(query: {
+  includeRetired: boolean;
+  includeRevisions?: boolean;
+  code?: string;
+}): Promise<{ items: DriverModel[] }> {
   const rows = await db
     .select()
     .from(driverModels)
@@ -78,6 +88,7 @@ export async function listModels(query: { includeRetired: boolean; includeRevisi
       and(
         query.includeRetired ? undefined : eq(driverModels.active, true),
         query.includeRevisions ? undefined : eq(driverModels.current, true),
+        query.code ? eq(driverModels.code, query.code) : undefined,
       ),
     )
     .orderBy(asc(driverModels.code), asc(driverModels.revision));

@@ -1,8 +1,9 @@
 import crypto from 'node:crypto';
-import { and, desc, eq, gte, lte, sql, type SQL } from 'drizzle-orm';
+import { and, desc, eq, gte, inArray, isNotNull, lte, sql, type SQL } from 'drizzle-orm';
 import { db } from '../../db/client';
 import { runNamed } from '../../db/named';
-import { readings } from '../../db/schema';
+import { readings, stations } from '../../db/schema';
+import { fieldError } from '../../errors';
 import type { Actor } from '../auth/actor';
 import { requirePermission } from '../auth/actor';
 import type { Reading, ReadingInput, ReadingQuery } from '../../../shared/schemas/readings';
@@ -27,8 +28,9 @@ export function toReading(r: typeof readings.$inferSelect): Reading {
  * statement (atomic on its own): ids and times are made here, so the answer and the audit rows
  * are known before the insert and nothing needs reading back.
  */
-export async function recordReadings(actor: Actor, items: ReadingInput[]): Promise<Reading[]> {
+export async function recordReadings(actor: Actor, items: ReadingInput[], options: { single?: boolean } = {}): Promise<Reading[]> {
   requirePermission(actor, 'readings.record');
+  await checkStations(items, options.single ?? items.length === 1);
   const createdAt = new Date().toISOString();
   const out: Reading[] = items.map((r) => ({
     id: crypto.randomUUID(),
@@ -76,10 +78,12 @@ export async function recordReadings(actor: Actor, items: ReadingInput[]): Promi
 }
 
 /** The list's filters, shared by GET /api/readings and its CSV. */
-export function readingsWhere(query: Pick<ReadingQuery, 'area' | 'stationId' | 'from' | 'to'>): SQL | undefined {
+export function readingsWhere(query: Pick<ReadingQuery, 'area' | 'stationId' | 'measure' | 'from' | 'to'>): SQL | undefined {
   return and(
     query.area ? eq(readings.area, query.area) : undefined,
     query.stationId ? eq(readings.stationId, query.stationId) : undefined,
+    query.measure === 'irradiance' ? isNotNull(readings.irradianceMWcm2) : undefined,
+    query.measure === 'temperature' ? isNotNull(readings.tempC) : undefined,
     query.from ? gte(readings.at, new Date(query.from)) : undefined,
     query.to ? lte(readings.at, new Date(query.to)) : undefined,
   );
@@ -87,6 +91,19 @@ export function readingsWhere(query: Pick<ReadingQuery, 'area' | 'stationId' | '
 
 /** Newest first; the id breaks ties so that paging through the same snapshot is stable. */
 export const READINGS_ORDER = [desc(readings.at), desc(readings.createdAt), desc(readings.id)];
+
+/**
+ * A station's own readings must name a station Tacklog knows: a 400 naming the field (`stationId`,
+ * or `readings.N.stationId` in a list) rather than the foreign key's refusal. Area readings (the
+ * logger's bulk) need no look-up.
+ */
+async function checkStations(items: ReadingInput[], single: boolean): Promise<void> {
+  const ids = [...new Set(items.flatMap((r) => (r.stationId ? [r.stationId] : [])))];
+  if (ids.length === 0) return;
+  const known = new Set((await db.select({ id: stations.id }).from(stations).where(inArray(stations.id, ids))).map((r) => r.id));
+  const i = items.findIndex((r) => r.stationId && !known.has(r.stationId));
+  if (i >= 0) throw fieldError(single ? 'stationId' : `readings.${i}.stationId`, 'is not a station in Tacklog');
+}
 
 /** GET /api/readings: newest first. */
 export async function listReadings(query: ReadingQuery): Promise<{ items: Reading[] }> {

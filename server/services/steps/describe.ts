@@ -64,6 +64,15 @@ export async function describeRuns(tx: DbOrTx, runs: StepRunRow[]): Promise<Step
     deviationId: r.deviationId,
     unitsDone: r.unitsDone,
     materials: mats.filter((m) => m.stepRunId === r.id).map(material),
+    uv:
+      r.uvDoseMJcm2 !== null && r.uvDoseNeededMJcm2 !== null
+        ? {
+            exposureSeconds: Number(r.exposureSeconds),
+            irradianceMWcm2: Number(r.uvIrradianceMWcm2),
+            doseMJcm2: Number(r.uvDoseMJcm2),
+            neededMJcm2: Number(r.uvDoseNeededMJcm2),
+          }
+        : null,
   }));
 }
 

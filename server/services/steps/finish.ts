@@ -74,6 +74,14 @@ export async function finishStep(
         unitsDone: units,
         handlingAt: cure?.handlingAt ? new Date(cure.handlingAt) : null,
         cureCompleteAt: cure?.cureCompleteAt ? new Date(cure.cureCompleteAt) : null,
+        ...(uv
+          ? {
+              exposureSeconds: String(uv.exposureSeconds),
+              uvIrradianceMWcm2: String(uv.irradianceMWcm2),
+              uvDoseMJcm2: String(Math.round(uv.doseMJcm2 * 10) / 10),
+              uvDoseNeededMJcm2: String(uv.neededMJcm2),
+            }
+          : {}),
       })
       .where(eq(stepRuns.id, run.id));
     const stepRun = await describeRun(tx, run.id);

@@ -25,6 +25,7 @@ interface HeaderRow {
   model_id: string;
   model_code: string;
   model_name: string;
+  model_revision: number;
 }
 
 /** A step run with one container it used (the walk's row; all null for a run that used nothing). */
@@ -79,7 +80,7 @@ export function driverTraceQueries(serial: string): { header: SQL; steps: SQL; t
     header: sql`
       SELECT d.id, d.serial, d.batch_id, d.status, d.created_at,
              b.code AS batch_code, b.status AS batch_status, b.quantity, b.created_at AS batch_created_at,
-             dm.id AS model_id, dm.code AS model_code, dm.name AS model_name
+             dm.id AS model_id, dm.code AS model_code, dm.name AS model_name, dm.revision AS model_revision
       FROM drivers d JOIN build_batches b ON b.id = d.batch_id JOIN driver_models dm ON dm.id = b.model_id
       WHERE d.serial = ${serial}`,
     steps: sql`
@@ -199,6 +200,7 @@ export async function traceDriver(serial: string): Promise<DriverTrace> {
       modelId: h.model_id,
       modelCode: h.model_code,
       modelName: h.model_name,
+      modelRevision: h.model_revision,
       createdAt: iso(h.batch_created_at),
     },
     steps: stepsFromRows(steps as StepRow[]),

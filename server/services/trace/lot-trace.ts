@@ -38,6 +38,7 @@ interface UseRow extends Pick<LotUseRow, 'step_run_id' | 'container_code' | 'mix
   model_id: string;
   model_code: string;
   model_name: string;
+  model_revision: number;
 }
 
 interface DriverRow {
@@ -79,7 +80,8 @@ export function lotTraceQueries(lotId: string): { header: SQL; uses: SQL; driver
       SELECT sr.id AS step_run_id, sr.kind, sr.batch_id, sr.driver_id, d.serial AS driver_serial,
              sr.step_id, rs.name AS step_name, rs.seq, st.code AS station_code, sr.started_at, sr.finished_at,
              u.container_code, u.mix_code,
-             b.code AS batch_code, b.created_at AS batch_created_at, dm.id AS model_id, dm.code AS model_code, dm.name AS model_name
+             b.code AS batch_code, b.created_at AS batch_created_at, dm.id AS model_id, dm.code AS model_code, dm.name AS model_name,
+             dm.revision AS model_revision
       FROM used u
       JOIN step_runs sr ON sr.id = u.step_run_id
       JOIN recipe_steps rs ON rs.id = sr.step_id
@@ -147,6 +149,7 @@ export async function loadLotTrace(lotId: string): Promise<LotTraceData> {
         modelId: u.model_id,
         modelCode: u.model_code,
         modelName: u.model_name,
+        modelRevision: u.model_revision,
         createdAt: iso(u.batch_created_at)!,
         wholeBatch: wholeBatch.has(u.batch_id),
         driverCount: (driversByBatch.get(u.batch_id) ?? []).length,
