@@ -23,6 +23,10 @@ export const SETTING_DEFAULTS = {
   baselineMinTested: 200,
   /** A UV lamp whose last radiometer reading is older than this many days raises "radiometer check due". */
   lampCheckDays: 7,
+  /** Shortest password accepted (characters) when one is set, changed or reset. */
+  minPasswordLength: 12,
+  /** A password reset link an administrator sends works this many hours, once. */
+  passwordResetHours: 24,
 } as const;
 
 export type SettingKey = keyof typeof SETTING_DEFAULTS;
