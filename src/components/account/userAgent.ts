@@ -35,3 +35,8 @@ export function describeUserAgent(userAgent: string | null | undefined): string 
   if (system) return `A browser on ${system}`;
   return ua.length > 60 ? `${ua.slice(0, 57)}…` : ua;
 }
+
+/** Whether the session came from a phone or tablet (for its icon). */
+export function isPhone(userAgent: string | null | undefined): boolean {
+  return /iPhone|iPad|Android|Mobile/.test(userAgent ?? '');
+}
