@@ -243,6 +243,42 @@ describe('changing a user', () => {
     }
   });
 
+  it('administrators removing themselves all at once leave exactly one (the check is made under a lock)', async () => {
+    const others = await db
+      .select({ id: users.id })
+      .from(users)
+      .where(and(eq(users.active, true), sql`'admin' = ANY(${users.roles})`));
+    const otherIds = others.map((o) => o.id);
+    if (otherIds.length) await db.update(users).set({ active: false }).where(inArray(users.id, otherIds));
+    try {
+      const admins = await Promise.all([0, 1, 2].map((i) => ensureUser(['admin'], { email: `race-admin-${i}-${sfx()}@tacklog.test` })));
+      // 30 requests: each of the three asks ten times to drop their own administrator role.
+      const answers = await Promise.all(
+        admins.flatMap((a) => Array.from({ length: 10 }, () => as(a).patch(`/api/users/${a.id}`, { roles: ['quality'] }))),
+      );
+      // Each answer: done, refused as the last administrator, or (once their role is gone) not allowed any more.
+      const kinds = answers.map((r) => (r.status === 200 ? 'done' : `${r.status} ${r.body.error.code}`));
+      expect(kinds.filter((k) => !['done', '409 LAST_ADMIN', '403 FORBIDDEN'].includes(k))).toEqual([]);
+      expect(kinds).toContain('409 LAST_ADMIN');
+      const left = await db
+        .select({ id: users.id })
+        .from(users)
+        .where(and(eq(users.active, true), sql`'admin' = ANY(${users.roles})`));
+      expect(left).toHaveLength(1);
+      await db
+        .update(users)
+        .set({ active: false })
+        .where(
+          inArray(
+            users.id,
+            admins.map((a) => a.id),
+          ),
+        );
+    } finally {
+      if (otherIds.length) await db.update(users).set({ active: true }).where(inArray(users.id, otherIds));
+    }
+  });
+
   it('refuses an unknown user with 404 and an empty change with 400', async () => {
     expect((await as(admin).patch(`/api/users/${crypto.randomUUID()}`, { name: 'Nobody' })).status).toBe(404);
     const empty = await as(admin).patch(`/api/users/${admin.id}`, {});
@@ -259,7 +295,7 @@ describe('password policy (create, change, reset)', () => {
     const short = await change('short-one');
     expect(short.status).toBe(400);
     expect(short.body.error.details).toEqual([{ field: 'newPassword', message: 'must be at least 12 characters (it has 9)' }]);
-    // On the common list as is (a list from published breach corpora, via @zxcvbn-ts/language-common).
+    // Found whole on the common-password list that @zxcvbn-ts/language-common ships (an outside list, not ours).
     const listed = await change('password1234');
     expect(listed.body.error.details[0]).toEqual({ field: 'newPassword', message: 'is on the list of common passwords; choose another' });
     // Built from common passwords, a keyboard row, a repeat, the program's name, the person's own e-mail.

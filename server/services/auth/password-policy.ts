@@ -6,7 +6,7 @@
  *      person types, not bytes).
  *   2. Not a common password, nor one built from common passwords, words, keyboard rows,
  *      sequences, repeats, dates or the person's own e-mail and name: zxcvbn-ts, with its list of
- *      common passwords from published breach corpora (@zxcvbn-ts/language-common) and its
+ *      common passwords (@zxcvbn-ts/language-common) and its
  *      English dictionaries, must rate it at least 3 of 4 ("safely unguessable": an estimated
  *      10^8 guesses or more). A password found whole in the common list is refused whatever the
  *      score.
