@@ -34,6 +34,11 @@ interface EndpointOptions<BS, QS, PS> {
   params?: PS;
   /** Status on success (default 200). */
   status?: number;
+  /**
+   * Answers someone who must still replace a temporary password (their own account and password
+   * routes); every other signed-in route refuses them with 403 PASSWORD_CHANGE_REQUIRED.
+   */
+  beforePasswordChange?: boolean;
 }
 
 function parsePart<S extends Schema>(schema: S | undefined, value: unknown, where: string): z.output<S> | undefined {
@@ -99,6 +104,12 @@ export function endpoint<
         throw unsupportedMediaType(req.get('content-type'));
       }
       checkAccess(options.access, req.actor);
+      if (req.actor?.mustChangePassword && options.access !== 'public' && !options.beforePasswordChange) {
+        throw new AppError(
+          'PASSWORD_CHANGE_REQUIRED',
+          'Choose your own password on your account page first; the temporary one works only for that.',
+        );
+      }
       const params = parsePart(options.params as Schema | undefined, req.params, 'params');
       const query = parsePart(options.query as Schema | undefined, req.query, 'query');
       const body = parsePart(options.body as Schema | undefined, req.body, 'body');

@@ -64,7 +64,14 @@ const ACTION_WORDS: Record<string, string> = {
   'supplier.retire': 'Supplier retired',
   'supplier.update': 'Supplier changed',
   'test.record': 'Final test recorded',
+  'session.end': 'Session ended by its user',
+  'user.create': 'User added',
+  'user.deactivate': 'User deactivated (sessions ended)',
   'user.password_change': 'Password changed',
+  'user.password_reset': 'Password set with a reset link',
+  'user.password_reset_sent': 'Password reset link sent',
+  'user.reactivate': 'User reactivated',
+  'user.update': 'User changed (name or roles)',
 };
 
 /** Actions offered in the filter, in words, sorted by their words. */

@@ -70,7 +70,7 @@ export const EMAIL_STATUSES = ['queued', 'sending', 'sent', 'failed'] as const;
 export type EmailStatus = (typeof EMAIL_STATUSES)[number];
 
 /** What an outgoing e-mail is about. */
-export const EMAIL_KINDS = ['alert', 'alert_resolved', 'digest', 'other'] as const;
+export const EMAIL_KINDS = ['alert', 'alert_resolved', 'digest', 'password_reset', 'other'] as const;
 export type EmailKind = (typeof EMAIL_KINDS)[number];
 
 /** GHS pictogram codes (UN GHS, Annex 3). */

@@ -25,6 +25,8 @@ export const REFUSALS = {
   TRY_AGAIN: { status: 409, title: 'Another change happened at the same moment; send again' },
   REFERENCE_CHANGED: { status: 409, title: 'A record this refers to changed; reload' },
   DUPLICATE_EMAIL: { status: 409, title: 'A user with this e-mail already exists' },
+  PASSWORD_CHANGE_REQUIRED: { status: 403, title: 'Choose your own password first' },
+  RESET_LINK_INVALID: { status: 400, title: 'Reset link not valid' },
   ALREADY_LOADED: { status: 409, title: 'Already loaded for this batch at this station' },
   INTERNAL: { status: 500, title: 'Something went wrong' },
   DB_UNAVAILABLE: { status: 503, title: 'Database unreachable, retrying' },
@@ -93,6 +95,11 @@ export const REFUSALS = {
 
   // Exports
   EXPORT_TOO_LARGE: { status: 409, title: 'Too many rows for one export' },
+
+  // Users
+  CANNOT_DEACTIVATE_SELF: { status: 409, title: 'You cannot deactivate your own account' },
+  LAST_ADMIN: { status: 409, title: 'The last administrator must stay' },
+  USER_DEACTIVATED: { status: 409, title: 'User deactivated' },
 
   // Alerts
   ALERT_ACKNOWLEDGED: { status: 409, title: 'Alert already acknowledged' },

@@ -1,8 +1,12 @@
 import { Router } from 'express';
 import { rateLimit } from 'express-rate-limit';
-import { loginInputSchema, passwordChangeInputSchema } from '../../shared/schemas/auth';
+import { z } from 'zod';
+import { loginInputSchema, passwordChangeInputSchema, passwordResetInputSchema } from '../../shared/schemas/auth';
+import { idSchema } from '../../shared/schemas/common';
 import { endpoint } from '../http';
 import { changePassword, login, logout } from '../services/auth';
+import { endOwnSession, listOwnSessions } from '../services/auth/sessions';
+import { resetPasswordWithLink } from '../services/auth/reset';
 import { SESSION_COOKIE } from '../services/auth/tokens';
 import { config } from '../config';
 import { sendError } from '../middleware/errors';
@@ -28,8 +32,8 @@ function attemptLimiter() {
 authRouter.post(
   '/login',
   attemptLimiter(),
-  endpoint({ access: 'public', body: loginInputSchema }, async ({ body, res }) => {
-    const result = await login(body);
+  endpoint({ access: 'public', body: loginInputSchema }, async ({ body, req, res }) => {
+    const result = await login(body, { userAgent: req.get('user-agent'), ip: req.ip });
     res.cookie(SESSION_COOKIE, result.token, {
       httpOnly: true,
       sameSite: 'strict',
@@ -55,15 +59,45 @@ authRouter.post(
 authRouter.post(
   '/password',
   attemptLimiter(),
-  endpoint({ access: 'signed-in', body: passwordChangeInputSchema }, async ({ actor, body }) => {
+  endpoint({ access: 'signed-in', beforePasswordChange: true, body: passwordChangeInputSchema }, async ({ actor, body }) => {
     const { endedSessions } = await changePassword(actor, body);
     return { ok: true, endedSessions };
   }),
 );
 
+/** Sets a new password with the token of an e-mailed reset link (public: the person is signed out); ends all their sessions. */
+authRouter.post(
+  '/reset',
+  attemptLimiter(),
+  endpoint({ access: 'public', body: passwordResetInputSchema }, ({ body }) => resetPasswordWithLink(body)),
+);
+
+/** The signed-in user's open sessions, this one marked. */
+authRouter.get(
+  '/sessions',
+  endpoint({ access: 'signed-in', beforePasswordChange: true }, ({ actor }) => listOwnSessions(actor)),
+);
+
+/** Ends one of the signed-in user's own sessions (this one too: then the cookie goes as well). */
+authRouter.delete(
+  '/sessions/:id',
+  endpoint({ access: 'signed-in', beforePasswordChange: true, params: z.object({ id: idSchema }) }, async ({ actor, params, res }) => {
+    const result = await endOwnSession(actor, params.id);
+    if (result.current) res.clearCookie(SESSION_COOKIE, { path: '/' });
+    return result;
+  }),
+);
+
 authRouter.get(
   '/me',
-  endpoint({ access: 'signed-in' }, ({ actor }) => ({
-    user: { id: actor.id, email: actor.email, name: actor.name, roles: actor.roles, permissions: permissionsFor(actor.roles) },
+  endpoint({ access: 'signed-in', beforePasswordChange: true }, ({ actor }) => ({
+    user: {
+      id: actor.id,
+      email: actor.email,
+      name: actor.name,
+      roles: actor.roles,
+      permissions: permissionsFor(actor.roles),
+      mustChangePassword: actor.mustChangePassword ?? false,
+    },
   })),
 );

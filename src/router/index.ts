@@ -15,6 +15,7 @@ import { actionsOf } from './meta';
 import { stockRoutes } from './routes/stock';
 import { mailRoutes } from './routes/mail';
 import { oversightRoutes } from './routes/oversight';
+import { usersRoutes } from './routes/users';
 import MainLayout from '@/layouts/MainLayout.vue';
 
 // ---------------------------------------------------------------------------------------------
@@ -34,6 +35,7 @@ const areaRoutes: RouteRecordRaw[] = [
   ...stockRoutes,
   ...mailRoutes,
   ...oversightRoutes,
+  ...usersRoutes,
 ];
 
 export const routes: RouteRecordRaw[] = [
@@ -69,6 +71,8 @@ export async function guard(to: RouteLocationNormalized) {
   if (!user) {
     return to.fullPath === '/' ? { name: 'auth.signin' } : { name: 'auth.signin', query: { redirect: to.fullPath } };
   }
+  // A temporary password opens only the account page, where it is replaced (the server refuses the rest).
+  if (user.mustChangePassword && to.name !== 'me.account') return { name: 'me.account' };
   // Not a silent redirect: a page that says so, with a way back (NotAllowedPage).
   if (to.meta.permission && !session.can(...actionsOf(to.meta.permission))) return { name: 'not-allowed', query: { from: to.fullPath } };
   return true;

@@ -11,6 +11,8 @@ export const usePlantStore = defineStore('plant', () => {
   const zone = ref('UTC');
   const name = ref('Tacklog');
   const known = ref(false);
+  /** Shortest password accepted (for hints on password forms; the server checks). */
+  const minPasswordLength = ref(12);
   let inFlight: Promise<void> | null = null;
 
   /** Asks the server once; a later call after success does nothing, after a failure asks again. */
@@ -22,6 +24,7 @@ export const usePlantStore = defineStore('plant', () => {
       .then((config) => {
         zone.value = config.plantZone;
         name.value = config.plantName;
+        if (config.minPasswordLength) minPasswordLength.value = config.minPasswordLength;
         known.value = true;
       })
       .finally(() => {
@@ -30,5 +33,11 @@ export const usePlantStore = defineStore('plant', () => {
     return inFlight;
   }
 
-  return { zone: readonly(zone), name: readonly(name), known: computed(() => known.value), ensureLoaded };
+  return {
+    zone: readonly(zone),
+    name: readonly(name),
+    minPasswordLength: readonly(minPasswordLength),
+    known: computed(() => known.value),
+    ensureLoaded,
+  };
 });

@@ -67,6 +67,12 @@ export const useSessionStore = defineStore('session', () => {
     return result.user;
   }
 
+  /** Asks the server again who is signed in (after a change to one's own account, e.g. a new password). */
+  async function refresh(): Promise<DeepReadonly<SessionUser> | null> {
+    loaded.value = false;
+    return load();
+  }
+
   async function signOut(): Promise<void> {
     try {
       await authApi.logout();
@@ -85,5 +91,5 @@ export const useSessionStore = defineStore('session', () => {
     return actions.some((action) => permissions.value.has(action));
   }
 
-  return { user, loaded: computed(() => loaded.value), roles, signedIn, load, signIn, signOut, can };
+  return { user, loaded: computed(() => loaded.value), roles, signedIn, load, refresh, signIn, signOut, can };
 });

@@ -25,6 +25,12 @@ const EXPECTED: Record<string, Access> = {
   'POST /api/auth/logout': 'public',
   'GET /api/auth/me': 'signed-in',
   'GET /api/users': 'users.manage',
+  'POST /api/users': 'users.manage',
+  'PATCH /api/users/:id': 'users.manage',
+  'POST /api/users/:id/password-reset': 'users.manage',
+  'POST /api/auth/reset': 'public',
+  'GET /api/auth/sessions': 'signed-in',
+  'DELETE /api/auth/sessions/:id': 'signed-in',
 
   'GET /api/drivers/:serial/trace': 'signed-in',
   'GET /api/lots/stats': 'signed-in',

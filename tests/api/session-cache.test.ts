@@ -101,6 +101,18 @@ describe('session cache', () => {
     expect((await api(app.baseUrl, token).get('/api/auth/me')).status).toBe(401);
   });
 
+  it("ends a remembered user's sessions at once when an administrator deactivates them, and applies new roles at once", async () => {
+    await startSessionCache();
+    const admin = await ensureUser(['admin'], { email: `cache-admin-${crypto.randomUUID()}@tacklog.test` });
+    const { user, token } = await rememberedSession(['quality']);
+    const roles = await api(app.baseUrl, admin.token).patch(`/api/users/${user.id}`, { roles: ['receiving'] });
+    expect(roles.status).toBe(200);
+    expect((await api(app.baseUrl, token).get('/api/auth/me')).body.user.roles).toEqual(['receiving']);
+    const off = await api(app.baseUrl, admin.token).patch(`/api/users/${user.id}`, { active: false });
+    expect(off.status).toBe(200);
+    expect((await api(app.baseUrl, token).get('/api/auth/me')).status).toBe(401);
+  });
+
   it('remembers nothing while not listening: a revocation counts on the next request', async () => {
     await startSessionCache();
     const { token } = await rememberedSession();

@@ -75,12 +75,14 @@ describe('route table against the permission map', () => {
     expect(mixed.map((r) => `${r.method} ${r.path}: ${r.accesses.join(', ')}`)).toEqual([]);
   });
 
-  it('only reads are open to everyone signed in; every change names an action (except signing in and out, and the cure calculator)', () => {
+  it('only reads are open to everyone signed in; every change names an action (except signing in and out, their own password and sessions, and the cure calculator)', () => {
     const openChanges = routes.filter((r) => r.method !== 'GET' && (r.access === 'signed-in' || r.access === 'public'));
     expect(openChanges.map((r) => `${r.method} ${r.path}`).sort()).toEqual([
+      'DELETE /api/auth/sessions/:id',
       'POST /api/auth/login',
       'POST /api/auth/logout',
       'POST /api/auth/password',
+      'POST /api/auth/reset',
       'POST /api/cure/estimate',
       'POST /api/scans/resolve',
       'PUT /api/me/notifications',

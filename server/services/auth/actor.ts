@@ -11,6 +11,8 @@ export interface Actor {
   roles: Role[];
   /** The session the request came with (absent for actors made by jobs). */
   sessionId?: string;
+  /** Signed in with a temporary password: only the routes that let them change it answer. */
+  mustChangePassword?: boolean;
 }
 
 /** The refusal for someone whose roles do not allow `action`, naming the roles that would. */

@@ -10,6 +10,8 @@ import { signSessionToken, type SessionClaims } from './tokens';
 import { recordAudit } from '../audit';
 import { logger } from '../../logger';
 import { cacheGeneration, cachedActor, forgetSession, forgetUser, remember } from './session-cache';
+import { enforcePasswordPolicy } from './password-policy';
+import { noteSessionSeen } from './activity';
 
 // A hash to compare against when the e-mail is unknown, so both paths take the same time.
 const DUMMY_HASH = bcrypt.hashSync('not-a-real-password', 10);
@@ -18,9 +20,20 @@ export function hashPassword(password: string): Promise<string> {
   return bcrypt.hash(password, 10);
 }
 
-function toUser(row: Pick<typeof users.$inferSelect, 'id' | 'email' | 'name' | 'roles'>): User {
-  return { id: row.id, email: row.email, name: row.name, roles: row.roles };
+function toUser(row: Pick<typeof users.$inferSelect, 'id' | 'email' | 'name' | 'roles' | 'mustChangePassword'>): User & {
+  mustChangePassword: boolean;
+} {
+  return { id: row.id, email: row.email, name: row.name, roles: row.roles, mustChangePassword: row.mustChangePassword };
 }
+
+/** Where a session was started from, as the sessions list shows it (both optional). */
+export interface SessionOrigin {
+  userAgent?: string | null;
+  ip?: string | null;
+}
+
+/** Longest User-Agent kept (some are very long; the list shows the start). */
+const USER_AGENT_MAX = 300;
 
 let lastPrune = 0;
 
@@ -37,14 +50,20 @@ function pruneExpiredSessions(): void {
 }
 
 /** A new session row for the user and its signed token (valid for TACKLOG_SESSION_HOURS). */
-export async function createSession(userId: string): Promise<{ token: string; sessionId: string }> {
+export async function createSession(userId: string, origin: SessionOrigin = {}): Promise<{ token: string; sessionId: string }> {
   pruneExpiredSessions();
   const expiresAt = new Date(Date.now() + config.sessionHours * 3600 * 1000);
-  const [row] = await db.insert(sessions).values({ userId, expiresAt }).returning({ id: sessions.id });
+  const [row] = await db
+    .insert(sessions)
+    .values({ userId, expiresAt, userAgent: origin.userAgent?.slice(0, USER_AGENT_MAX) || null, ip: origin.ip || null })
+    .returning({ id: sessions.id });
   return { token: signSessionToken(userId, row.id), sessionId: row.id };
 }
 
-export async function login(input: LoginInput): Promise<{ token: string; user: User }> {
+export async function login(
+  input: LoginInput,
+  origin: SessionOrigin = {},
+): Promise<{ token: string; user: User & { mustChangePassword: boolean } }> {
   const [row] = await db
     .select()
     .from(users)
@@ -54,8 +73,11 @@ export async function login(input: LoginInput): Promise<{ token: string; user: U
   if (!row || !ok || !row.active) {
     throw new AppError('BAD_CREDENTIALS', 'The e-mail or password is not right.', 401);
   }
-  const { token } = await createSession(row.id);
-  await recordAudit(db, { actorId: row.id, action: 'login', entityType: 'user', entityId: row.id });
+  const { token } = await createSession(row.id, origin);
+  await db.transaction(async (tx) => {
+    await tx.update(users).set({ lastSignInAt: new Date() }).where(eq(users.id, row.id));
+    await recordAudit(tx, { actorId: row.id, action: 'login', entityType: 'user', entityId: row.id });
+  });
   return { token, user: toUser(row) };
 }
 
@@ -64,7 +86,14 @@ export async function login(input: LoginInput): Promise<{ token: string; user: U
  * parses and plans it once (session by primary key joined to its user, only what an actor needs).
  */
 const actorBySession = db
-  .select({ id: users.id, email: users.email, name: users.name, roles: users.roles, expiresAt: sessions.expiresAt })
+  .select({
+    id: users.id,
+    email: users.email,
+    name: users.name,
+    roles: users.roles,
+    mustChangePassword: users.mustChangePassword,
+    expiresAt: sessions.expiresAt,
+  })
   .from(sessions)
   .innerJoin(users, eq(users.id, sessions.userId))
   .where(
@@ -86,10 +115,14 @@ const actorBySession = db
  */
 export async function actorForSession(claims: SessionClaims): Promise<Actor | null> {
   const known = cachedActor(claims.sessionId, claims.userId);
-  if (known) return known;
+  if (known) {
+    noteSessionSeen(claims.sessionId);
+    return known;
+  }
   const readAt = cacheGeneration();
   const [row] = await actorBySession.execute({ sessionId: claims.sessionId, userId: claims.userId });
   if (!row) return null;
+  noteSessionSeen(claims.sessionId);
   const actor: Actor = { ...toUser(row), sessionId: claims.sessionId };
   remember(claims.sessionId, actor, row.expiresAt, readAt);
   return actor;
@@ -114,7 +147,11 @@ export async function logout(actor: Actor): Promise<void> {
  * session of this user (a token someone else may hold stops working); this session stays.
  */
 export async function changePassword(actor: Actor, input: PasswordChangeInput): Promise<{ endedSessions: number }> {
-  const [row] = await db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, actor.id)).limit(1);
+  const [row] = await db
+    .select({ passwordHash: users.passwordHash, email: users.email, name: users.name })
+    .from(users)
+    .where(eq(users.id, actor.id))
+    .limit(1);
   if (!row || !(await bcrypt.compare(input.currentPassword, row.passwordHash))) {
     throw new AppError('VALIDATION_FAILED', 'The current password is not right.', 400, [
       { field: 'currentPassword', message: 'is not right' },
@@ -125,10 +162,11 @@ export async function changePassword(actor: Actor, input: PasswordChangeInput): 
       { field: 'newPassword', message: 'must differ from the current password' },
     ]);
   }
+  await enforcePasswordPolicy('newPassword', input.newPassword, { email: row.email, name: row.name });
   const passwordHash = await hashPassword(input.newPassword);
   const result = await db.transaction(async (tx) => {
     const now = new Date();
-    await tx.update(users).set({ passwordHash, updatedAt: now }).where(eq(users.id, actor.id));
+    await tx.update(users).set({ passwordHash, mustChangePassword: false, updatedAt: now }).where(eq(users.id, actor.id));
     const others = actor.sessionId ? ne(sessions.id, actor.sessionId) : undefined;
     const ended = await tx
       .update(sessions)

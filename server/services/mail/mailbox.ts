@@ -54,6 +54,19 @@ function toItem(r: Row): MailItem {
   };
 }
 
+/**
+ * A password reset link is for its recipient's eyes only: an administrator reading everyone's
+ * mail sees that it was sent, not the link (which would let them set the person's password).
+ */
+function forReader(actor: Actor, item: MailItem): MailItem {
+  if (item.kind !== 'password_reset' || item.to.some((to) => to.toLowerCase() === actor.email.toLowerCase())) return item;
+  return {
+    ...item,
+    text: `A one-time password reset link was sent to ${item.to.join(', ')}. Only its recipient sees the link.`,
+    html: null,
+  };
+}
+
 /** Whose mail the actor may read: everyone's (admin) or their own (filters added here). */
 function scope(actor: Actor, to: string | undefined): SQL[] {
   if (can(actor.roles, 'mail.readAll')) return to ? [sentTo(to)] : [];
@@ -78,7 +91,7 @@ export async function listMail(actor: Actor, query: MailListQuery): Promise<Mail
   ]);
   const transport = mailTransport();
   return {
-    items: rows.map(toItem),
+    items: rows.map((r) => forReader(actor, toItem(r))),
     total: n,
     transport: transport?.describe ?? null,
     local: transport?.local ?? false,
@@ -92,5 +105,5 @@ export async function getMail(actor: Actor, id: string): Promise<MailItem> {
     .from(outgoingEmails)
     .where(and(eq(outgoingEmails.id, id), ...scope(actor, undefined)));
   if (!row) throw notFound('That message');
-  return toItem(row);
+  return forReader(actor, toItem(row));
 }

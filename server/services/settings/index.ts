@@ -29,6 +29,10 @@ export const SETTING_DEFAULTS = {
   homeCureSoonShown: 5,
   /** A CSV export of a list holds at most this many rows; more is refused (narrow the filters). */
   csvExportMaxRows: 100_000,
+  /** Shortest password accepted (characters) when one is set, changed or reset. */
+  minPasswordLength: 12,
+  /** A password reset link an administrator sends works this many hours, once. */
+  passwordResetHours: 24,
 } as const;
 
 export type SettingKey = keyof typeof SETTING_DEFAULTS;

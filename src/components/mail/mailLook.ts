@@ -17,6 +17,7 @@ export const MAIL_KIND_WORDS: Record<EmailKind, string> = {
   alert: 'Alert',
   alert_resolved: 'Alert resolved',
   digest: 'Daily digest',
+  password_reset: 'Password reset link',
   other: 'Other',
 };
 

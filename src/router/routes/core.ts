@@ -8,6 +8,13 @@ export const publicRoutes: RouteRecordRaw[] = [
     component: () => import('@/pages/auth/SignInPage.vue'),
     meta: { public: true, title: 'Sign in' },
   },
+  {
+    // The page an e-mailed one-time reset link opens (?token=…).
+    path: '/reset-password',
+    name: 'auth.reset',
+    component: () => import('@/pages/auth/ResetPasswordPage.vue'),
+    meta: { public: true, title: 'Set a new password' },
+  },
 ];
 
 /** Inside the layout, for anyone signed in. */
