@@ -17,6 +17,7 @@ export const ENTITY_WORDS: Record<string, string> = {
   build_batch: 'Build batch',
   step_run: 'Process step',
   mix: 'Mix',
+  reading: 'Shop reading',
   deviation: 'Deviation',
   defect_code: 'Defect code',
   test_result: 'Final test result',
@@ -27,8 +28,10 @@ export const ENTITY_WORDS: Record<string, string> = {
 };
 
 const ACTION_WORDS: Record<string, string> = {
+  'alert.acknowledge': 'Alert acknowledged',
   'alert.clear': 'Alert cleared',
   'alert.raise': 'Alert raised',
+  'alert.resolve': 'Alert resolved',
   'batch.create': 'Batch started',
   'batch.status': 'Batch status changed',
   'baseline.override': 'Baseline failure rate overridden',
@@ -54,6 +57,7 @@ const ACTION_WORDS: Record<string, string> = {
   'model.update': 'Driver model changed',
   'notifications.change': 'Notification settings changed',
   'notifications.digest': 'Daily digest sent',
+  'reading.record': 'Shop reading recorded',
   'station.create': 'Station added',
   'station.retire': 'Station retired',
   'station.unload': 'Unloaded from a station',

@@ -4,7 +4,17 @@
  * them), and internal bookkeeping (checksums, raw ids) left out.
  */
 import { formatDateTime, formatDuration } from './plant-time';
-import { CONTAINER_STATUS_WORDS, LOT_STATUS_WORDS } from './words';
+import {
+  ALERT_KIND_WORDS,
+  ALERT_SEVERITY_WORDS,
+  ALERT_STATE_WORDS,
+  CONTAINER_STATUS_WORDS,
+  LOT_STATUS_WORDS,
+  MATERIAL_KIND_WORDS,
+  STATION_KIND_WORDS,
+  STORAGE_CLASS_WORDS,
+  humanize,
+} from './words';
 
 export interface FieldChange {
   field: string;
@@ -60,6 +70,16 @@ const FIELD_LABELS: Record<string, string | null> = {
 /** Fields whose value is a status, in the words of the status chips. */
 const STATUS_WORDS: Record<string, string> = { ...LOT_STATUS_WORDS, ...CONTAINER_STATUS_WORDS };
 
+/** Other fields whose value is an internal code (an alert's kind, a material's storage class…), in words. */
+const CODE_FIELD_WORDS: Record<string, Readonly<Record<string, string>>> = {
+  kind: { ...STATION_KIND_WORDS, ...MATERIAL_KIND_WORDS, ...ALERT_KIND_WORDS },
+  severity: ALERT_SEVERITY_WORDS,
+  state: ALERT_STATE_WORDS,
+  storageClass: STORAGE_CLASS_WORDS,
+};
+/** Fields naming a type of record ("step_run"): their words ("Step run"). */
+const TYPE_FIELDS = new Set(['subjectType', 'entityType']);
+
 function sentenceCase(words: string): string {
   const w = words.trim();
   return w ? w.charAt(0).toUpperCase() + w.slice(1).toLowerCase() : w;
@@ -95,6 +115,9 @@ export function valueText(value: unknown, ctx: ValueContext = { zone: 'UTC' }): 
   if (typeof value === 'string') {
     if (ISO_INSTANT.test(value) && !Number.isNaN(Date.parse(value))) return formatDateTime(value, ctx.zone);
     if (UUID.test(value)) return ctx.names?.[value] ?? 'a record no longer on file';
+    const codeWords = ctx.field ? CODE_FIELD_WORDS[ctx.field] : undefined;
+    if (codeWords?.[value]) return codeWords[value];
+    if (ctx.field && TYPE_FIELDS.has(ctx.field)) return humanize(value);
     if (ctx.field === 'status' || ctx.field === undefined) {
       const status = STATUS_WORDS[value];
       if (status) return status;

@@ -294,6 +294,25 @@ describe('GET /api/audit?format=csv', () => {
     });
     expect(row.Changes).toContain('Status: On hold → Quarantined');
   });
+
+  it('says an alert state change in words, not codes', async () => {
+    const [alert] = await db
+      .insert(alerts)
+      .values({
+        kind: 'lamp_check_due',
+        severity: 'warning',
+        subjectType: 'station',
+        subjectId: sfx(),
+        message: 'Check the lamp',
+        audience: ['quality'],
+      })
+      .returning();
+    expect((await as('quality').post(`/api/alerts/${alert.id}/acknowledge`)).status).toBe(200);
+    const csv = readCsv(await as('quality').get(`/api/audit?entity=alert&entityId=${alert.id}&format=csv`), 'audit');
+    expect(csv.rows.map((r) => [r.Action, r['Record type'], r.Changes])).toEqual([
+      ['Alert acknowledged', 'Alert', 'State: Open → Acknowledged'],
+    ]);
+  });
 });
 
 describe('paging through more rows than one database page (1,000)', () => {

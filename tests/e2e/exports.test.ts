@@ -109,6 +109,11 @@ describe('Export CSV on the list pages', () => {
     expect(csv.rows).toHaveLength(total);
     const status = csv.header.indexOf('Status');
     expect(new Set(csv.rows.map((r) => r[status]))).toEqual(new Set(['Released']));
+    // The button sits in the page's title row at the phone's width too.
+    await page.setViewportSize({ width: 390, height: 844 });
+    await page.locator('[data-test="export-csv"]').waitFor();
+    expect(await fitsWidth()).toBe(true);
+    await keepScreenshot(page, 'lots-export-phone');
   });
 
   it('alerts, batches and the audit trail each download their list', async () => {
@@ -132,6 +137,7 @@ describe('Export CSV on the list pages', () => {
       await button.waitFor({ timeout: 15_000 }).catch((err: Error) => {
         throw new Error(`${path}: no Export CSV button (${err.message})`);
       });
+      await keepScreenshot(page, `export-${list}`);
       const csv = await downloadCsv(() => button.click());
       expect(csv.name, path).toMatch(new RegExp(`^tacklog-${list}-\\d{4}-\\d{2}-\\d{2}\\.csv$`));
       expect(csv.header, path).toContain(column);

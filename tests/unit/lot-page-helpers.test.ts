@@ -88,5 +88,11 @@ describe('history lines', () => {
       { field: 'containers', label: 'Containers', from: null, to: '3' },
     ]);
     expect(valueText(null)).toBe('—');
+    // Codes in other fields read as words too (an alert's kind and subject, a storage class).
+    expect(valueText('lamp_check_due', { zone: 'UTC', field: 'kind' })).toBe('UV lamp radiometer check due');
+    expect(valueText('dust_cap', { zone: 'UTC', field: 'kind' })).toBe('Dust cap');
+    expect(valueText('step_run', { zone: 'UTC', field: 'subjectType' })).toBe('Step run');
+    expect(valueText('refrigerated', { zone: 'UTC', field: 'storageClass' })).toBe('Refrigerated');
+    expect(valueText('free text', { zone: 'UTC', field: 'kind' })).toBe('free text');
   });
 });
