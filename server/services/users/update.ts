@@ -1,5 +1,5 @@
 import { forgetUser } from '../auth/session-cache';
-import { and, asc, arrayContains, eq, isNull } from 'drizzle-orm';
+import { and, asc, arrayContains, eq, isNull, sql } from 'drizzle-orm';
 import { db, type Tx } from '../../db/client';
 import { sessions, users } from '../../db/schema';
 import type { UpdateUserInput, UserListItem } from '../../../shared/schemas/users';
@@ -12,11 +12,17 @@ import { userItem } from './list';
 
 const sameRoles = (a: readonly Role[], b: readonly Role[]) => a.length === b.length && a.every((r) => b.includes(r));
 
+/** One lock all changes of users queue on (they are an administrator's rare acts). */
+const USER_CHANGE_LOCK = 7226012;
+
 /**
- * Locks every active administrator (in id order, so two changes at once queue instead of
- * deadlocking) and then the target, and returns the administrators' ids and the target row.
+ * Queues behind any other change of users, then locks every active administrator and the target,
+ * and returns the administrators' ids and the target row. Row locks alone, even in id order, let
+ * two changes deadlock: a row that stops being an administrator under one change drops out of
+ * the other's locked set, which then takes the target's row out of order.
  */
 async function lockForChange(tx: Tx, id: string) {
+  await tx.execute(sql`SELECT pg_advisory_xact_lock(${USER_CHANGE_LOCK})`);
   const admins = await tx
     .select({ id: users.id })
     .from(users)
