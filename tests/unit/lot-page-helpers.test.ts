@@ -88,5 +88,9 @@ describe('history lines', () => {
       { field: 'containers', label: 'Containers', from: null, to: '3' },
     ]);
     expect(valueText(null)).toBe('—');
+    // A nested record reads field by field, its instants in plant time (no JSON, no ISO text).
+    expect(valueText({ exposureSeconds: 35, irradianceAt: '2026-11-23T08:55:19.103Z' }, { zone: 'UTC' })).toBe(
+      'Exposure seconds: 35; Irradiance at: 2026-11-23 08:55',
+    );
   });
 });
