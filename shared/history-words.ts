@@ -127,7 +127,14 @@ export function valueText(value: unknown, ctx: ValueContext = { zone: 'UTC' }): 
   if (typeof value === 'boolean') return value ? 'Yes' : 'No';
   if (typeof value === 'number') return String(value);
   if (Array.isArray(value)) return String(value.length);
-  return JSON.stringify(value);
+  // A nested record (a UV finish's dose figures …): its fields in words, not its JSON.
+  if (isRecord(value)) {
+    return Object.entries(value)
+      .filter(([k]) => shown(k))
+      .map(([k, v]) => `${fieldLabel(k)}: ${valueText(v, { ...ctx, field: k })}`)
+      .join('; ');
+  }
+  return String(value);
 }
 
 function isRecord(v: unknown): v is Record<string, unknown> {

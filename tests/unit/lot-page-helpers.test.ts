@@ -94,5 +94,9 @@ describe('history lines', () => {
     expect(valueText('step_run', { zone: 'UTC', field: 'subjectType' })).toBe('Step run');
     expect(valueText('refrigerated', { zone: 'UTC', field: 'storageClass' })).toBe('Refrigerated');
     expect(valueText('free text', { zone: 'UTC', field: 'kind' })).toBe('free text');
+    // A nested record reads field by field, its instants in plant time (no JSON, no ISO text).
+    expect(valueText({ exposureSeconds: 35, irradianceAt: '2026-11-23T08:55:19.103Z' }, { zone: 'UTC' })).toBe(
+      'Exposure seconds: 35; Irradiance at: 2026-11-23 08:55',
+    );
   });
 });
