@@ -5,7 +5,7 @@ import type { TestRecord } from '../../../shared/schemas/tests';
 import type { DriverBatch } from '../../../shared/schemas/drivers';
 import { toTestRecord } from '../testing/records';
 import { runStatements } from './statements';
-import { walk, type MaterialUseRow } from './walk';
+import { usesOfRun, type MaterialUseRow } from './walk';
 
 type Nullable<T> = { [K in keyof T]: T[K] | null };
 
@@ -101,7 +101,7 @@ export function driverTraceQueries(serial: string): { header: SQL; steps: SQL; t
       FROM runs sr
       JOIN recipe_steps rs ON rs.id = sr.step_id
       JOIN stations st ON st.id = sr.station_id
-      LEFT JOIN ${walk} mu ON mu.step_run_id = sr.id
+      LEFT JOIN LATERAL ${usesOfRun(sql`sr.id`)} mu ON true
       LEFT JOIN containers c ON c.id = mu.container_id
       LEFT JOIN lots l ON l.id = c.lot_id
       LEFT JOIN materials mat ON mat.id = l.material_id
