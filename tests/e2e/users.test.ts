@@ -168,3 +168,25 @@ describe('account page', () => {
     await expect.poll(() => page.locator('[data-test="session-other"]').count()).toBe(0);
   });
 });
+
+describe('reset-link page', () => {
+  it('at phone size asks for the new password twice, names a repetition that differs, and says in words when the link is not valid', async () => {
+    await page.setViewportSize({ width: 390, height: 844 });
+    await page.goto(`/reset-password?token=${'x'.repeat(43)}`);
+    await page.locator('[data-test="reset-form"]').waitFor();
+    await page.locator('[data-test="reset-new"]').fill('copper lantern orchard 41');
+    await page.locator('[data-test="reset-repeat"]').fill('copper lantern orchard 42');
+    await page.locator('[data-test="reset-submit"]').click();
+    await expect.poll(() => page.locator('[data-test="reset-form"]').textContent()).toContain('is not the same as the new password');
+
+    await page.locator('[data-test="reset-repeat"]').fill('copper lantern orchard 41');
+    await page.locator('[data-test="reset-submit"]').click();
+    const error = page.locator('[data-test="reset-error"]');
+    await error.waitFor();
+    // The refusal's title and message in words, not its code (the banner's icon name aside).
+    expect(await error.textContent()).toContain('Reset link not valid');
+    expect(await error.textContent()).not.toContain('RESET_LINK_INVALID');
+    expect(await page.evaluate(() => document.documentElement.scrollWidth <= window.innerWidth)).toBe(true);
+    await keepScreenshot(page, 'reset-link-refused-390');
+  });
+});
