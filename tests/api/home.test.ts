@@ -108,7 +108,11 @@ describe('receiving: lots on the dock today, lots on hold', () => {
       containers: 3,
       receivedAt: new Date(midnight.getTime() + 60_000),
     });
-    const late = await createLot({ materialId: material.id, status: 'released', containers: 2, receivedAt: minutesAgo(1) });
+    // Two minutes ahead (unless the plant day ends sooner): newer than any lot the other test files
+    // write meanwhile into the shared database (the list shows the latest few of the day, newest first).
+    const dayEnd = DateTime.fromJSDate(midnight).setZone(ZONE).plus({ days: 1 }).toMillis();
+    const lateAt = dayEnd - Date.now() > 3 * 60_000 ? new Date(Date.now() + 2 * 60_000) : minutesAgo(1);
+    const late = await createLot({ materialId: material.id, status: 'released', containers: 2, receivedAt: lateAt });
     const yesterday = await createLot({
       materialId: material.id,
       status: 'on_hold',
