@@ -127,7 +127,9 @@ describe('receiving: lots on the dock today, lots on hold', () => {
     expect(after.receivedToday.containers - before.receivedToday.containers).toBe(5);
     const shown = after.receivedToday.latest.map((l) => l.lotId);
     expect(shown[0]).toBe(late.id); // newest first
-    expect(shown).toContain(early.id);
+    // `early` is counted above; whether it is among the latest few shown depends on what other test
+    // files receive today into the shared database, so only the order of ours is checked.
+    if (shown.includes(early.id)) expect(shown.indexOf(early.id)).toBeGreaterThan(0);
     expect(shown).not.toContain(yesterday.id);
     expect(after.receivedToday.latest[0]).toMatchObject({ supplierLot: late.supplierLot, status: 'released', containers: 2 });
 

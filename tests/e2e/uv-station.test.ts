@@ -52,7 +52,10 @@ describe('UV step at the station', () => {
     const quality = await signedIn(baseUrl, 'quality@tacklog.test');
     try {
       await json(quality, '/api/compliance/run', { data: {} });
-      const alerts = await json<{ items: { kind: string; message: string }[] }>(quality, '/api/alerts?state=open&limit=200');
+      const alerts = await json<{ items: { kind: string; message: string }[] }>(
+        quality,
+        '/api/alerts?state=live&kind=lamp_check_due&limit=200',
+      );
       const due = alerts.items.filter((a) => a.kind === 'lamp_check_due');
       expect(due.map((a) => a.message).join(' ')).toContain('ST-UV-1');
     } finally {
