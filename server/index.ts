@@ -13,8 +13,9 @@ export async function startServer(options: { serveClient?: boolean; port?: numbe
   const { createApp } = await import('./app');
   const { startSessionCache } = await import('./services/auth/session-cache');
   const app = createApp({ serveClient: options.serveClient ?? true });
-  // Without the database at start it keeps trying in the background; requests ask the database meanwhile.
-  await startSessionCache();
+  // Not awaited: the server listens at once; until the cache listens (or while the database is
+  // away) every request asks the database, as without it.
+  void startSessionCache();
   const port = options.port ?? config.port;
   return new Promise((resolve, reject) => {
     const server = app.listen(port, config.host, () => resolve(server));

@@ -108,7 +108,7 @@ function lost(err?: Error): void {
 
 async function connect(): Promise<void> {
   if (stopped) return;
-  const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
+  const client = new pg.Client({ connectionString: process.env.DATABASE_URL, connectionTimeoutMillis: 5000 });
   listener = client;
   client.on('notification', (msg) => {
     if (msg.channel === AUTH_CHANNEL) onMessage(msg.payload);
