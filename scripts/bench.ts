@@ -39,6 +39,7 @@ import { printTable, summary, timeEach, type Check } from './bench/measure';
 import { closedLoop, httpClient, type LoadResult } from './bench/load';
 import { findPgbench, pgbenchInit, pgbenchRun } from './bench/pgbench';
 import { buildServerIfStale, serverCommand } from './lib/server-build';
+import { CHROMIUM, ensureChromium } from './lib/apt';
 
 const quick = process.argv.includes('--quick');
 
@@ -195,7 +196,7 @@ async function measureFirstPage(
 ): Promise<{ gzipKb: number; rawKb: number; sentCompressed: boolean; fcpMs: number | null; files: number }> {
   const { chromium } = await import('playwright-core');
   const browser = await chromium.launch({
-    executablePath: '/usr/bin/chromium',
+    executablePath: CHROMIUM,
     headless: true,
     args: [
       '--headless',
@@ -267,6 +268,8 @@ runMain(async () => {
   }
   const { runMigrations } = await import('../server/db/migrate');
   await runMigrations(url);
+  // The first-page measurement drives Debian's chromium: installed now, not beside a measurement.
+  await ensureChromium('The first-page measurement');
   // Both builds before anything is measured: a build running beside a measurement takes its CPU.
   await buildServerIfStale();
   await buildClientIfStale();

@@ -11,12 +11,11 @@ import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { dropDatabase, ensureDatabase, providePostgres } from './pg';
-import { aptInstall } from './lib/apt';
+import { ensureChromium } from './lib/apt';
 import { buildClientIfStale, clientSourcesPresent, prepareDatabase } from './lib/app';
 import { isShuttingDown, log, onShutdown, root, runMain, stopChild, UserFacingError, waitForExit } from './lib/proc';
 import { summarise } from './lib/summary';
 
-const CHROMIUM = '/usr/bin/chromium';
 /** vitest options that take a value as the next argument (so that value is not a file filter). */
 const VALUE_OPTIONS = new Set([
   '--project',
@@ -59,19 +58,13 @@ function browserTestsSelected(args: string[]): boolean {
   return true;
 }
 
-async function ensureChromium(): Promise<void> {
-  if (fs.existsSync(CHROMIUM)) return;
-  await aptInstall(['chromium'], `Browser tests need Debian's chromium at ${CHROMIUM}`);
-  if (!fs.existsSync(CHROMIUM)) throw new UserFacingError(`chromium was installed but ${CHROMIUM} is still missing.`);
-}
-
 runMain(async () => {
   const args = process.argv.slice(2);
   const started = Date.now();
   const browser = browserTestsSelected(args);
   if (browser) {
     if (!clientSourcesPresent()) throw new UserFacingError('Browser tests need the client, but index.html is missing.');
-    await ensureChromium();
+    await ensureChromium('Browser tests');
   }
 
   const tmpDir = path.join(root, '.tmp');

@@ -1,5 +1,6 @@
 /** Installing Debian packages the scripts need (as root only; otherwise say the command). */
 import { spawnSync } from 'node:child_process';
+import fs from 'node:fs';
 import { isRoot, log, run, UserFacingError } from './proc';
 
 let updated = false;
@@ -77,4 +78,14 @@ export async function aptInstall(packages: string[], why: string, alternative = 
   }
   log(`  apt-get install -y ${list}`);
   await aptGet(['install', '-y', ...packages], env);
+}
+
+/** Debian's chromium, which the browser tests and the benchmark's first-page measurement drive. */
+export const CHROMIUM = '/usr/bin/chromium';
+
+/** Installs Debian's chromium when it is missing (as root; otherwise says the command). */
+export async function ensureChromium(why: string): Promise<void> {
+  if (fs.existsSync(CHROMIUM)) return;
+  await aptInstall(['chromium'], `${why} need Debian's chromium at ${CHROMIUM}`);
+  if (!fs.existsSync(CHROMIUM)) throw new UserFacingError(`chromium was installed but ${CHROMIUM} is still missing.`);
 }
