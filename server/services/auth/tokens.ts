@@ -7,6 +7,7 @@ export const SESSION_COOKIE = 'tacklog_session';
 interface TokenClaims {
   sub?: unknown;
   jti?: unknown;
+  exp?: unknown;
 }
 
 /**
@@ -32,12 +33,32 @@ export function signSessionToken(userId: string, sessionId: string): string {
   });
 }
 
+/**
+ * Tokens already verified, with their claims and expiry: a station sends the same token with
+ * every scan, and checking its signature again each time was ~10 % of the server's CPU under a
+ * scan load. A token's text is what was verified, so an equal text needs no second check; its
+ * expiry is still checked on every use. Bounded: the oldest entries go first.
+ */
+const verified = new Map<string, { claims: SessionClaims; expiresAtMs: number }>();
+const VERIFIED_MAX = 5000;
+
 /** The user and session in a valid token, or null for a bad or expired one (or one without a session). */
 export function verifySessionToken(token: string): SessionClaims | null {
+  const known = verified.get(token);
+  if (known) {
+    if (Date.now() < known.expiresAtMs) return known.claims;
+    verified.delete(token);
+    return null;
+  }
   try {
     const claims = jwt.verify(token, signingKey, { algorithms: ['HS256'] }) as TokenClaims;
     if (typeof claims.sub !== 'string' || typeof claims.jti !== 'string') return null;
-    return { userId: claims.sub, sessionId: claims.jti };
+    const result = { userId: claims.sub, sessionId: claims.jti };
+    if (typeof claims.exp === 'number') {
+      if (verified.size >= VERIFIED_MAX) verified.delete(verified.keys().next().value as string);
+      verified.set(token, { claims: result, expiresAtMs: claims.exp * 1000 });
+    }
+    return result;
   } catch {
     // An invalid or expired token is treated like no token: the request is anonymous.
     return null;
