@@ -18,7 +18,7 @@ export interface MixContext {
   hardener: ContainerContext;
 }
 
-function unknownCode(field: string, what: string, code: string): AppError {
+export function unknownCode(field: string, what: string, code: string): AppError {
   return new AppError('NOT_FOUND', `No ${what} has the code "${code}". Check the label and scan again.`, 404, [
     { field, message: 'is not known' },
   ]);
@@ -30,18 +30,14 @@ export function scannedContainerCode(scanned: string): string {
   return looksLikeContainerCode(inner) ? normalizeContainerCode(inner) : inner;
 }
 
-export async function containerByCode(tx: DbOrTx, scanned: string, field: string, lock = false): Promise<ContainerContext> {
+export async function containerByCode(tx: DbOrTx, scanned: string, field: string): Promise<ContainerContext> {
   const code = scannedContainerCode(scanned);
-  const q = tx
+  const [row] = await tx
     .select({ container: containers, lot: lots, material: materials })
     .from(containers)
     .innerJoin(lots, eq(lots.id, containers.lotId))
     .innerJoin(materials, eq(materials.id, lots.materialId))
     .where(eq(containers.code, code));
-  // Named: the same text every time, so each connection parses and plans it once.
-  const [row] = lock
-    ? await q.for('update', { of: containers }).prepare('loading_container_by_code_lock').execute()
-    : await q.prepare('loading_container_by_code').execute();
   if (!row) throw unknownCode(field, 'container', code);
   return row;
 }

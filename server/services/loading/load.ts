@@ -1,14 +1,15 @@
 import { eq, inArray, sql } from 'drizzle-orm';
 import { db, type Tx } from '../../db/client';
-import { runNamed } from '../../db/named';
-import { drivers, materials, type stationLoads } from '../../db/schema';
+import { namedStatement } from '../../db/named';
+import { containers, drivers, lots, materials, type stationLoads } from '../../db/schema';
+import { rowFromJson, rowJson } from '../../db/row-json';
 import { AppError, conflict, notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
 import { requirePermission } from '../auth/actor';
 import { checkBatchOpen } from '../batches/progress';
 import type { LoadInput, LoadResult, StationLoad } from '../../../shared/schemas/station-loads';
 import type { RecipeStep } from '../../../shared/schemas/models';
-import { containerByCode, mixByCode } from './context';
+import { mixByCode, scannedContainerCode, unknownCode, type ContainerContext } from './context';
 import { checkContainerUsable, checkMixUsable, expiryOfContainer, type MaterialRow } from './usability';
 import { containerSummary, describeLoads, materialSummary } from './describe';
 import { stationKindWords } from '../../../shared/words';
@@ -25,6 +26,9 @@ interface StationRow {
 type LoadRow = typeof stationLoads.$inferSelect;
 
 interface LoadContextRow {
+  container: Record<string, unknown> | null;
+  lot: Record<string, unknown> | null;
+  material: Record<string, unknown> | null;
   station_id: string | null;
   station_code: string;
   station_kind: string;
@@ -38,15 +42,22 @@ interface LoadContextRow {
 }
 
 /**
- * Station, batch and the batch's recipe with the steps already done, in one statement: a step is
- * done when its latest whole-batch run has finished (as batchProgress reads it).
+ * Station, batch and the batch's recipe with the steps already done, and the scanned container
+ * with its lot and material (its row locked for this transaction), in one statement: a step is
+ * done when its latest whole-batch run has finished (as batchProgress reads it). `containerCode`
+ * null (a mix, or no container) fetches no container.
  */
-async function loadContext(tx: Tx, stationId: string, batchId: string) {
-  const [r] = await runNamed<LoadContextRow>(
-    tx,
-    'load_context',
-    sql`
-    SELECT st.id AS station_id, st.code AS station_code, st.kind AS station_kind, st.active AS station_active,
+const loadContextStatement = namedStatement<{ stationId: string; batchId: string; containerCode: string | null }, LoadContextRow>(
+  'load_context',
+  sql`
+    WITH scanned AS MATERIALIZED (
+      SELECT ${rowJson(containers, 'c')} AS container, ${rowJson(lots, 'l')} AS lot, ${rowJson(materials, 'm')} AS material
+      FROM containers c JOIN lots l ON l.id = c.lot_id JOIN materials m ON m.id = l.material_id
+      WHERE c.code = ${sql.placeholder('containerCode')}::text
+      FOR UPDATE OF c
+    )
+    SELECT scanned.container, scanned.lot, scanned.material,
+           st.id AS station_id, st.code AS station_code, st.kind AS station_kind, st.active AS station_active,
            b.id AS batch_id, b.code AS batch_code, b.status AS batch_status, b.model_id,
            (SELECT coalesce(json_agg(json_build_object(
                      'id', rs.id, 'seq', rs.seq, 'name', rs.name, 'stationKind', rs.station_kind, 'waitForCure', rs.wait_for_cure,
@@ -58,9 +69,13 @@ async function loadContext(tx: Tx, stationId: string, batchId: string) {
                    WHERE sr.batch_id = b.id AND sr.driver_id IS NULL ORDER BY sr.step_id, sr.started_at DESC) last
                  WHERE last.finished_at IS NOT NULL) AS done_step_ids
     FROM (SELECT 1) one
-    LEFT JOIN stations st ON st.id = ${stationId}
-    LEFT JOIN build_batches b ON b.id = ${batchId}`,
-  );
+    LEFT JOIN stations st ON st.id = ${sql.placeholder('stationId')}::uuid
+    LEFT JOIN build_batches b ON b.id = ${sql.placeholder('batchId')}::uuid
+    LEFT JOIN scanned ON true`,
+);
+
+async function loadContext(tx: Tx, stationId: string, batchId: string, containerCode: string | null) {
+  const [r] = await loadContextStatement(tx, { stationId, batchId, containerCode });
   if (!r.station_id) throw notFound('The station');
   const station: StationRow = { id: r.station_id, code: r.station_code, kind: r.station_kind, active: r.station_active };
   if (!station.active) {
@@ -69,7 +84,11 @@ async function loadContext(tx: Tx, stationId: string, batchId: string) {
   if (!r.batch_id) throw notFound('The build batch');
   const batch = { id: r.batch_id, code: r.batch_code, status: r.batch_status, modelId: r.model_id };
   const done = new Set(r.done_step_ids);
-  return { station, batch, steps: r.steps, pending: r.steps.filter((s) => !done.has(s.id)) };
+  const container = rowFromJson(containers, r.container);
+  const scanned: ContainerContext | null = container
+    ? { container, lot: rowFromJson(lots, r.lot)!, material: rowFromJson(materials, r.material)! }
+    : null;
+  return { station, batch, steps: r.steps, pending: r.steps.filter((s) => !done.has(s.id)), scanned };
 }
 
 interface LoadWriteRow {
@@ -82,51 +101,46 @@ interface LoadWriteRow {
  * load unless the same thing is already loaded for this batch here (with its audit), and add it
  * to the genealogy of a step running here for the batch. Data-modifying CTEs all run, each once.
  */
-async function writeLoad(
-  tx: Tx,
-  a: {
-    actorId: string;
-    stationId: string;
-    stationCode: string;
-    batchId: string;
-    containerId: string | null;
-    mixId: string | null;
-    openContainer: boolean;
-    now: Date;
-  },
-): Promise<LoadWriteRow> {
-  const now = a.now.toISOString();
-  const [row] = await runNamed<LoadWriteRow>(
-    tx,
-    'load_write',
-    sql`
+interface LoadWriteValues {
+  actorId: string;
+  stationId: string;
+  stationCode: string;
+  batchId: string;
+  containerId: string | null;
+  mixId: string | null;
+  openContainer: boolean;
+  now: string;
+}
+const loadWriteStatement = namedStatement<LoadWriteValues, LoadWriteRow>(
+  'load_write',
+  sql`
     WITH opened AS (
-      UPDATE containers SET status = 'open', opened_at = ${now}::timestamptz, updated_at = ${now}::timestamptz
-      WHERE id = ${a.containerId}::uuid AND ${a.openContainer}::boolean AND status = 'sealed'
+      UPDATE containers SET status = 'open', opened_at = ${sql.placeholder('now')}::timestamptz, updated_at = ${sql.placeholder('now')}::timestamptz
+      WHERE id = ${sql.placeholder('containerId')}::uuid AND ${sql.placeholder('openContainer')}::boolean AND status = 'sealed'
       RETURNING id
     ),
     opened_audit AS (
       INSERT INTO audit_log (actor_id, action, entity_type, entity_id, before, after, reason)
-      SELECT ${a.actorId}::uuid, 'container.open', 'container', id::text, '{"status":"sealed","openedAt":null}'::jsonb,
-             jsonb_build_object('status', 'open', 'openedAt', ${now}::text), 'loaded at station ' || ${a.stationCode}::text
+      SELECT ${sql.placeholder('actorId')}::uuid, 'container.open', 'container', id::text, '{"status":"sealed","openedAt":null}'::jsonb,
+             jsonb_build_object('status', 'open', 'openedAt', ${sql.placeholder('now')}::text), 'loaded at station ' || ${sql.placeholder('stationCode')}::text
       FROM opened
     ),
     existing AS (
       SELECT * FROM station_loads
-      WHERE station_id = ${a.stationId}::uuid AND batch_id = ${a.batchId}::uuid AND unloaded_at IS NULL
-        AND (container_id = ${a.containerId}::uuid OR mix_id = ${a.mixId}::uuid)
+      WHERE station_id = ${sql.placeholder('stationId')}::uuid AND batch_id = ${sql.placeholder('batchId')}::uuid AND unloaded_at IS NULL
+        AND (container_id = ${sql.placeholder('containerId')}::uuid OR mix_id = ${sql.placeholder('mixId')}::uuid)
       LIMIT 1
     ),
     inserted AS (
       INSERT INTO station_loads (station_id, batch_id, container_id, mix_id, loaded_at, loaded_by)
-      SELECT ${a.stationId}::uuid, ${a.batchId}::uuid, ${a.containerId}::uuid, ${a.mixId}::uuid, ${now}::timestamptz, ${a.actorId}::uuid
+      SELECT ${sql.placeholder('stationId')}::uuid, ${sql.placeholder('batchId')}::uuid, ${sql.placeholder('containerId')}::uuid, ${sql.placeholder('mixId')}::uuid, ${sql.placeholder('now')}::timestamptz, ${sql.placeholder('actorId')}::uuid
       WHERE NOT EXISTS (SELECT 1 FROM existing)
       RETURNING *
     ),
     load_audit AS (
       INSERT INTO audit_log (actor_id, action, entity_type, entity_id, after)
-      SELECT ${a.actorId}::uuid, 'station.load', 'station_load', id::text,
-             jsonb_build_object('stationId', station_id, 'batchId', batch_id, 'containerId', container_id, 'mixId', mix_id, 'loadedAt', ${now}::text)
+      SELECT ${sql.placeholder('actorId')}::uuid, 'station.load', 'station_load', id::text,
+             jsonb_build_object('stationId', station_id, 'batchId', batch_id, 'containerId', container_id, 'mixId', mix_id, 'loadedAt', ${sql.placeholder('now')}::text)
       FROM inserted
     ),
     -- A container swapped in while a step runs here belongs to that run's genealogy too.
@@ -139,7 +153,10 @@ async function writeLoad(
                              'loadedAt', l.loaded_at, 'loadedBy', l.loaded_by, 'unloadedAt', l.unloaded_at) AS load,
            l.inserted
     FROM (SELECT *, true AS inserted FROM inserted UNION ALL SELECT *, false FROM existing) l`,
-  );
+);
+
+async function writeLoad(tx: Tx, a: Omit<LoadWriteValues, 'now'> & { now: Date }): Promise<LoadWriteRow> {
+  const [row] = await loadWriteStatement(tx, { ...a, now: a.now.toISOString() });
   return row;
 }
 
@@ -230,9 +247,11 @@ async function checkMaterialForStep(tx: Tx, step: RecipeStep, scanned: MaterialR
  */
 export async function loadAtStation(actor: Actor, stationId: string, input: LoadInput, now: Date = new Date()): Promise<LoadResult> {
   requirePermission(actor, 'stations.load');
-  // Round trips: BEGIN, the context, the container (locked) or mix, the writes, COMMIT.
+  // Round trips: BEGIN, the context with the container (locked), the writes, COMMIT; a mix
+  // adds its own look-up.
+  const containerCode = input.containerCode ? scannedContainerCode(input.containerCode) : null;
   return db.transaction(async (tx) => {
-    const { station, batch, steps, pending } = await loadContext(tx, stationId, input.batchId);
+    const { station, batch, steps, pending, scanned } = await loadContext(tx, stationId, input.batchId, containerCode);
     checkBatchOpen(batch, Boolean(input.serial));
     const step = input.serial
       ? await reworkStep(tx, station, batch, steps, input.serial, input.stepId)
@@ -241,8 +260,9 @@ export async function loadAtStation(actor: Actor, stationId: string, input: Load
     let described: StationLoad | null = null;
     let opened = false;
     let written: LoadWriteRow;
-    if (input.containerCode) {
-      const c = await containerByCode(tx, input.containerCode, 'containerCode', true);
+    if (containerCode !== null) {
+      if (!scanned) throw unknownCode('containerCode', 'container', containerCode);
+      const c = scanned;
       await checkMaterialForStep(tx, step, [c.material], `container ${c.container.code}`);
       checkContainerUsable(c.container, c.lot, c.material, now);
       opened = c.container.status === 'sealed';
