@@ -41,15 +41,17 @@ export async function buildServerIfStale(): Promise<void> {
 }
 
 /**
- * The old-generation cap of each server process, in MB (TACKLOG_HEAP_MB, default 192). Uncapped,
- * V8 lets a busy worker's heap grow to ~220–260 MB RSS although what it keeps alive is a few tens
- * of MB; capped, it collects sooner and stays ~125 MB under the benchmark's load (at roughly a
- * tenth fewer scan lookups per second). A report far larger than the plant's usual ones
- * (a lot trace of hundreds of thousands of drivers) may need more: raise it.
+ * The old-generation cap of each server process, in MB (TACKLOG_HEAP_MB; none by default).
+ * Uncapped, V8 lets a busy worker's heap grow to ~220–260 MB RSS although what it keeps alive is
+ * a few tens of MB; with any cap (96 to 192 MB alike) it collects far more often and stays
+ * ~125 MB under the benchmark's load — but lookups lose about a tenth of their rate and their p99
+ * doubles (13 → 20–30 ms), and the driver trace's p95 grows, from the extra full collections.
+ * So it is the operator's choice where memory is tighter than time; a report far larger than
+ * the plant's usual ones may need a higher cap.
  */
-export function heapCapMb(): number {
+export function heapCapMb(): number | null {
   const raw = process.env.TACKLOG_HEAP_MB;
-  if (raw === undefined || raw === '') return 192;
+  if (raw === undefined || raw === '') return null;
   const n = Number(raw);
   if (!Number.isInteger(n) || n < 96 || n > 65536)
     throw new UserFacingError(`TACKLOG_HEAP_MB must be a whole number of megabytes from 96 to 65536, got "${raw}"`);
@@ -60,8 +62,12 @@ export function heapCapMb(): number {
  * How to run the server: the built JS (with source maps for stack traces). A young generation of
  * 4 MB semi-spaces instead of V8's 16 MB: a request's garbage dies young either way, and each
  * process (cluster workers inherit the flags) stays ~40 MB smaller under load at no measurable
- * cost in throughput (`npm run bench`); and the old generation capped (heapCapMb).
+ * cost in throughput (`npm run bench`); the old generation capped only when asked (heapCapMb).
  */
 export function serverCommand(): [string, string[]] {
-  return [process.execPath, ['--enable-source-maps', '--max-semi-space-size=4', `--max-old-space-size=${heapCapMb()}`, SERVER_BUILD]];
+  const cap = heapCapMb();
+  return [
+    process.execPath,
+    ['--enable-source-maps', '--max-semi-space-size=4', ...(cap ? [`--max-old-space-size=${cap}`] : []), SERVER_BUILD],
+  ];
 }
