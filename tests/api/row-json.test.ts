@@ -8,7 +8,7 @@ import { createLot, createTwoPart } from '../helpers/fixtures';
 // The load's one-statement context carries its container, lot and material as JSON: they must
 // come back exactly as drizzle's own select gives them (Dates, exact numeric text, jsonb, nulls).
 describe('rows as JSON inside a statement', () => {
-  it('container, lot and material equal drizzle\'s select of the same rows', async () => {
+  it("container, lot and material equal drizzle's select of the same rows", async () => {
     const { resin } = await createTwoPart({ potLifeMinutes: 45 });
     const lot = await createLot({
       materialId: resin.id,
