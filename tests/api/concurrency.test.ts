@@ -5,7 +5,7 @@
  */
 import { and, eq, isNull, sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { db } from '../../server/db/client';
+import { db, pool } from '../../server/db/client';
 import { containers, materials, mixes, stationLoads, stations, suppliers } from '../../server/db/schema';
 import { api, startApp, type ApiResponse, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
@@ -177,6 +177,65 @@ describe('loading one thing many times at once', () => {
       .from(stationLoads)
       .where(and(eq(stationLoads.stationId, station.id), eq(stationLoads.containerId, resin.id), isNull(stationLoads.unloadedAt)));
     expect(active).toHaveLength(1);
+  });
+});
+
+describe('a load checks again when its container changes in between', () => {
+  it(`${N} parallel loads of one open container all get through, leaving one active load`, async () => {
+    const epoxy = await createTwoPart({ potLifeMinutes: 240 });
+    const station = await createStation({ kind: `open ${sfx()}` });
+    const model = await createModel({
+      steps: [{ name: 'Glue spider', stationKind: station.kind, materials: [{ materialId: epoxy.resin.id, amountPerUnit: 1 }] }],
+    });
+    const batch = await createBatch({ modelId: model.id, quantity: 2 });
+    const lot = await createLot({ materialId: epoxy.resin.id, quantity: 200, containerStatus: 'open', openedAt: minutesAgo(30) });
+    const code = lot.containers[0].code;
+    const results = await Promise.all(
+      Array.from({ length: N }, () => as(assembler).post(`/api/stations/${station.id}/load`, { batchId: batch.id, containerCode: code })),
+    );
+    expectNo5xx(results);
+    // Each one that found the container changed checks again under its row lock: all get through.
+    expect(
+      results.every((r) => r.status === 200),
+      JSON.stringify(tally(results)),
+    ).toBe(true);
+    expect(results.filter((r) => r.body.alreadyLoaded === false)).toHaveLength(1);
+    expect(results.filter((r) => r.status === 200 && r.body.opened === true)).toHaveLength(0);
+    const active = await db
+      .select()
+      .from(stationLoads)
+      .where(
+        and(eq(stationLoads.stationId, station.id), eq(stationLoads.containerId, lot.containers[0].id), isNull(stationLoads.unloadedAt)),
+      );
+    expect(active).toHaveLength(1);
+  });
+
+  it('a container emptied while its load waits is refused as empty, and nothing is loaded', async () => {
+    const epoxy = await createTwoPart({ potLifeMinutes: 240 });
+    const station = await createStation({ kind: `empty ${sfx()}` });
+    const model = await createModel({
+      steps: [{ name: 'Glue cone', stationKind: station.kind, materials: [{ materialId: epoxy.resin.id, amountPerUnit: 1 }] }],
+    });
+    const batch = await createBatch({ modelId: model.id, quantity: 2 });
+    const lot = await createLot({ materialId: epoxy.resin.id, quantity: 50, containerStatus: 'open', openedAt: minutesAgo(30) });
+    const container = lot.containers[0];
+    // Another transaction empties the container and holds its row until it commits; the load
+    // sent meanwhile reads the container as it was, then must wait, see it changed, and check again.
+    const other = await pool.connect();
+    try {
+      await other.query('BEGIN');
+      await other.query(`UPDATE containers SET status = 'empty', remaining = 0, updated_at = now() WHERE id = $1`, [container.id]);
+      const pending = as(assembler).post(`/api/stations/${station.id}/load`, { batchId: batch.id, containerCode: container.code });
+      await new Promise((r) => setTimeout(r, 400));
+      await other.query('COMMIT');
+      const res = await pending;
+      expect(res.status, JSON.stringify(res.body)).toBe(409);
+      expect(res.body.error.code).toBe('CONTAINER_EMPTY');
+    } finally {
+      other.release();
+    }
+    const loads = await db.select().from(stationLoads).where(eq(stationLoads.containerId, container.id));
+    expect(loads).toHaveLength(0);
   });
 });
 

@@ -1,5 +1,5 @@
 import { eq, inArray, sql } from 'drizzle-orm';
-import { db, type Tx } from '../../db/client';
+import { db, type DbOrTx } from '../../db/client';
 import { namedStatement } from '../../db/named';
 import { containers, drivers, lots, materials, type stationLoads } from '../../db/schema';
 import { rowFromJson, rowJson } from '../../db/row-json';
@@ -27,6 +27,8 @@ type LoadRow = typeof stationLoads.$inferSelect;
 
 interface LoadContextRow {
   container: Record<string, unknown> | null;
+  /** The container row's version (its xmin) as read: the write goes ahead only on this version. */
+  container_version: string | null;
   lot: Record<string, unknown> | null;
   material: Record<string, unknown> | null;
   station_id: string | null;
@@ -43,20 +45,22 @@ interface LoadContextRow {
 
 /**
  * Station, batch and the batch's recipe with the steps already done, and the scanned container
- * with its lot and material (its row locked for this transaction), in one statement: a step is
- * done when its latest whole-batch run has finished (as batchProgress reads it). `containerCode`
- * null (a mix, or no container) fetches no container.
+ * with its lot, material and row version, in one statement (no transaction: the write checks the
+ * version): a step is done when its latest whole-batch run has finished (as batchProgress reads
+ * it). `containerCode` null (a mix, or no container) fetches no container.
  */
-const loadContextStatement = namedStatement<{ stationId: string; batchId: string; containerCode: string | null }, LoadContextRow>(
-  'load_context',
-  sql`
+const contextStatement = (name: string, lock: boolean) =>
+  namedStatement<{ stationId: string; batchId: string; containerCode: string | null }, LoadContextRow>(
+    name,
+    sql`
     WITH scanned AS MATERIALIZED (
-      SELECT ${rowJson(containers, 'c')} AS container, ${rowJson(lots, 'l')} AS lot, ${rowJson(materials, 'm')} AS material
+      SELECT ${rowJson(containers, 'c')} AS container, ${rowJson(lots, 'l')} AS lot, ${rowJson(materials, 'm')} AS material,
+             c.xmin::text AS version
       FROM containers c JOIN lots l ON l.id = c.lot_id JOIN materials m ON m.id = l.material_id
       WHERE c.code = ${sql.placeholder('containerCode')}::text
-      FOR UPDATE OF c
+      ${lock ? sql`FOR UPDATE OF c` : sql``}
     )
-    SELECT scanned.container, scanned.lot, scanned.material,
+    SELECT scanned.container, scanned.lot, scanned.material, scanned.version AS container_version,
            st.id AS station_id, st.code AS station_code, st.kind AS station_kind, st.active AS station_active,
            b.id AS batch_id, b.code AS batch_code, b.status AS batch_status, b.model_id,
            (SELECT coalesce(json_agg(json_build_object(
@@ -72,10 +76,14 @@ const loadContextStatement = namedStatement<{ stationId: string; batchId: string
     LEFT JOIN stations st ON st.id = ${sql.placeholder('stationId')}::uuid
     LEFT JOIN build_batches b ON b.id = ${sql.placeholder('batchId')}::uuid
     LEFT JOIN scanned ON true`,
-);
+  );
 
-async function loadContext(tx: Tx, stationId: string, batchId: string, containerCode: string | null) {
-  const [r] = await loadContextStatement(tx, { stationId, batchId, containerCode });
+/** As read (the write checks the version), or with the container locked (inside a transaction). */
+const loadContextStatement = contextStatement('load_context', false);
+const loadContextLockedStatement = contextStatement('load_context_locked', true);
+
+async function loadContext(tx: DbOrTx, lock: boolean, stationId: string, batchId: string, containerCode: string | null) {
+  const [r] = await (lock ? loadContextLockedStatement : loadContextStatement)(tx, { stationId, batchId, containerCode });
   if (!r.station_id) throw notFound('The station');
   const station: StationRow = { id: r.station_id, code: r.station_code, kind: r.station_kind, active: r.station_active };
   if (!station.active) {
@@ -85,56 +93,74 @@ async function loadContext(tx: Tx, stationId: string, batchId: string, container
   const batch = { id: r.batch_id, code: r.batch_code, status: r.batch_status, modelId: r.model_id };
   const done = new Set(r.done_step_ids);
   const container = rowFromJson(containers, r.container);
-  const scanned: ContainerContext | null = container
-    ? { container, lot: rowFromJson(lots, r.lot)!, material: rowFromJson(materials, r.material)! }
+  const scanned: (ContainerContext & { version: string }) | null = container
+    ? { container, lot: rowFromJson(lots, r.lot)!, material: rowFromJson(materials, r.material)!, version: r.container_version! }
     : null;
   return { station, batch, steps: r.steps, pending: r.steps.filter((s) => !done.has(s.id)), scanned };
 }
 
 interface LoadWriteRow {
-  load: Omit<LoadRow, 'loadedAt' | 'unloadedAt'> & { loadedAt: string; unloadedAt: string | null };
-  inserted: boolean;
+  /** False when the container changed since it was read (nothing was written): check again. */
+  ok: boolean;
+  load: (Omit<LoadRow, 'loadedAt' | 'unloadedAt'> & { loadedAt: string; unloadedAt: string | null }) | null;
+  inserted: boolean | null;
 }
 
-/**
- * The writes of a load in one statement: open a sealed container (with its audit), record the
- * load unless the same thing is already loaded for this batch here (with its audit), and add it
- * to the genealogy of a step running here for the batch. Data-modifying CTEs all run, each once.
- */
 interface LoadWriteValues {
   actorId: string;
   stationId: string;
   stationCode: string;
   batchId: string;
   containerId: string | null;
+  /** The container's row version its checks read (null for a mix). */
+  containerVersion: string | null;
   mixId: string | null;
   openContainer: boolean;
   now: string;
 }
+
+/**
+ * The writes of a load in one statement, on its own (no transaction around the read and the
+ * checks): first the container row is updated only if it is still the version the checks read
+ * (opened now if it was sealed, otherwise only given a new version) — that row lock also makes a
+ * concurrent load of the same container wait, then find the version changed and check again.
+ * Then, only if that went through (or for a mix): the opening's audit, the load unless the same
+ * thing is already loaded for this batch here (with its audit), and the genealogy of a step
+ * running here for the batch. Data-modifying CTEs all run, each once; the audit rows are sealed
+ * into the chain at the statement's commit.
+ */
 const loadWriteStatement = namedStatement<LoadWriteValues, LoadWriteRow>(
   'load_write',
   sql`
-    WITH opened AS (
-      UPDATE containers SET status = 'open', opened_at = ${sql.placeholder('now')}::timestamptz, updated_at = ${sql.placeholder('now')}::timestamptz
-      WHERE id = ${sql.placeholder('containerId')}::uuid AND ${sql.placeholder('openContainer')}::boolean AND status = 'sealed'
+    WITH touched AS (
+      UPDATE containers
+      SET status = CASE WHEN ${sql.placeholder('openContainer')}::boolean THEN 'open' ELSE status END,
+          opened_at = CASE WHEN ${sql.placeholder('openContainer')}::boolean THEN ${sql.placeholder('now')}::timestamptz ELSE opened_at END,
+          updated_at = CASE WHEN ${sql.placeholder('openContainer')}::boolean THEN ${sql.placeholder('now')}::timestamptz ELSE updated_at END
+      WHERE id = ${sql.placeholder('containerId')}::uuid AND xmin::text = ${sql.placeholder('containerVersion')}::text
       RETURNING id
+    ),
+    go AS (
+      SELECT (${sql.placeholder('containerId')}::uuid IS NULL OR EXISTS (SELECT 1 FROM touched)) AS ok
     ),
     opened_audit AS (
       INSERT INTO audit_log (actor_id, action, entity_type, entity_id, before, after, reason)
       SELECT ${sql.placeholder('actorId')}::uuid, 'container.open', 'container', id::text, '{"status":"sealed","openedAt":null}'::jsonb,
              jsonb_build_object('status', 'open', 'openedAt', ${sql.placeholder('now')}::text), 'loaded at station ' || ${sql.placeholder('stationCode')}::text
-      FROM opened
+      FROM touched WHERE ${sql.placeholder('openContainer')}::boolean
     ),
     existing AS (
       SELECT * FROM station_loads
       WHERE station_id = ${sql.placeholder('stationId')}::uuid AND batch_id = ${sql.placeholder('batchId')}::uuid AND unloaded_at IS NULL
         AND (container_id = ${sql.placeholder('containerId')}::uuid OR mix_id = ${sql.placeholder('mixId')}::uuid)
+        AND (SELECT ok FROM go)
       LIMIT 1
     ),
     inserted AS (
       INSERT INTO station_loads (station_id, batch_id, container_id, mix_id, loaded_at, loaded_by)
-      SELECT ${sql.placeholder('stationId')}::uuid, ${sql.placeholder('batchId')}::uuid, ${sql.placeholder('containerId')}::uuid, ${sql.placeholder('mixId')}::uuid, ${sql.placeholder('now')}::timestamptz, ${sql.placeholder('actorId')}::uuid
-      WHERE NOT EXISTS (SELECT 1 FROM existing)
+      SELECT ${sql.placeholder('stationId')}::uuid, ${sql.placeholder('batchId')}::uuid, ${sql.placeholder('containerId')}::uuid, ${sql.placeholder('mixId')}::uuid,
+             ${sql.placeholder('now')}::timestamptz, ${sql.placeholder('actorId')}::uuid
+      WHERE (SELECT ok FROM go) AND NOT EXISTS (SELECT 1 FROM existing)
       RETURNING *
     ),
     load_audit AS (
@@ -149,13 +175,14 @@ const loadWriteStatement = namedStatement<LoadWriteValues, LoadWriteRow>(
       SELECT sr.id, i.container_id, i.mix_id, i.loaded_at, i.loaded_by
       FROM inserted i JOIN step_runs sr ON sr.batch_id = i.batch_id AND sr.station_id = i.station_id AND sr.finished_at IS NULL
     )
-    SELECT json_build_object('id', l.id, 'stationId', l.station_id, 'batchId', l.batch_id, 'containerId', l.container_id, 'mixId', l.mix_id,
+    SELECT go.ok,
+           json_build_object('id', l.id, 'stationId', l.station_id, 'batchId', l.batch_id, 'containerId', l.container_id, 'mixId', l.mix_id,
                              'loadedAt', l.loaded_at, 'loadedBy', l.loaded_by, 'unloadedAt', l.unloaded_at) AS load,
            l.inserted
-    FROM (SELECT *, true AS inserted FROM inserted UNION ALL SELECT *, false FROM existing) l`,
+    FROM go LEFT JOIN (SELECT *, true AS inserted FROM inserted UNION ALL SELECT *, false FROM existing) l ON true`,
 );
 
-async function writeLoad(tx: Tx, a: Omit<LoadWriteValues, 'now'> & { now: Date }): Promise<LoadWriteRow> {
+async function writeLoad(tx: DbOrTx, a: Omit<LoadWriteValues, 'now'> & { now: Date }): Promise<LoadWriteRow> {
   const [row] = await loadWriteStatement(tx, { ...a, now: a.now.toISOString() });
   return row;
 }
@@ -181,7 +208,7 @@ export function stepAtStation(station: StationRow, batchCode: string, pending: R
  * step is the one named, or the first of the recipe run at this station's kind.
  */
 async function reworkStep(
-  tx: Tx,
+  tx: DbOrTx,
   station: StationRow,
   batch: { id: string; code: string },
   steps: RecipeStep[],
@@ -222,7 +249,7 @@ async function reworkStep(
   return step;
 }
 
-async function namesOf(tx: Tx, ids: string[]): Promise<string> {
+async function namesOf(tx: DbOrTx, ids: string[]): Promise<string> {
   const rows = ids.length
     ? await tx.select({ id: materials.id, name: materials.name }).from(materials).where(inArray(materials.id, ids))
     : [];
@@ -231,7 +258,7 @@ async function namesOf(tx: Tx, ids: string[]): Promise<string> {
 }
 
 /** WRONG_MATERIAL unless one of the scanned materials is in the step's recipe. */
-async function checkMaterialForStep(tx: Tx, step: RecipeStep, scanned: MaterialRow[], what: string): Promise<void> {
+async function checkMaterialForStep(tx: DbOrTx, step: RecipeStep, scanned: MaterialRow[], what: string): Promise<void> {
   const wanted = step.materials.map((m) => m.materialId);
   if (scanned.some((m) => wanted.includes(m.id))) return;
   throw conflict(
@@ -244,85 +271,108 @@ async function checkMaterialForStep(tx: Tx, step: RecipeStep, scanned: MaterialR
 /**
  * POST /api/stations/:id/load — checks everything first (a refusal changes nothing), then opens
  * a sealed container (its after-opening life starts now) and records the load.
+ *
+ * First without a transaction — two round trips: the context with the container as read, then
+ * the writes, which go ahead only on the container version the checks read. When the container
+ * changed in between (another load of it, a use, a status change), nothing was written, and the
+ * load is read and checked again inside a transaction holding the container's row lock, which
+ * always gets through. A mix or a rework adds its look-ups.
  */
 export async function loadAtStation(actor: Actor, stationId: string, input: LoadInput, now: Date = new Date()): Promise<LoadResult> {
   requirePermission(actor, 'stations.load');
-  // Round trips: BEGIN, the context with the container (locked), the writes, COMMIT; a mix
-  // adds its own look-up.
   const containerCode = input.containerCode ? scannedContainerCode(input.containerCode) : null;
-  return db.transaction(async (tx) => {
-    const { station, batch, steps, pending, scanned } = await loadContext(tx, stationId, input.batchId, containerCode);
-    checkBatchOpen(batch, Boolean(input.serial));
-    const step = input.serial
-      ? await reworkStep(tx, station, batch, steps, input.serial, input.stepId)
-      : stepAtStation(station, batch.code, pending);
+  const result =
+    (await tryLoad(db, false, actor, stationId, input, containerCode, now)) ??
+    (await db.transaction((tx) => tryLoad(tx, true, actor, stationId, input, containerCode, now)));
+  if (result) return result;
+  // Not reached while the row lock holds the version; a refusal rather than a silent retry loop.
+  throw new AppError('TRY_AGAIN', 'The container changed while this load was checked; scan it again.', 409);
+}
 
-    let described: StationLoad | null = null;
-    let opened = false;
-    let written: LoadWriteRow;
-    if (containerCode !== null) {
-      if (!scanned) throw unknownCode('containerCode', 'container', containerCode);
-      const c = scanned;
-      await checkMaterialForStep(tx, step, [c.material], `container ${c.container.code}`);
-      checkContainerUsable(c.container, c.lot, c.material, now);
-      opened = c.container.status === 'sealed';
-      written = await writeLoad(tx, {
-        actorId: actor.id,
-        stationId: station.id,
-        stationCode: station.code,
-        batchId: batch.id,
-        containerId: c.container.id,
-        mixId: null,
-        openContainer: opened,
-        now,
-      });
-      // Described from what this request already holds (the container as opened just now).
-      const container = opened ? { ...c.container, status: 'open' as const, openedAt: now, updatedAt: now } : c.container;
-      const e = expiryOfContainer(container, c.lot, c.material, now);
-      const l = written.load;
-      described = {
-        id: l.id,
-        stationId: l.stationId,
-        batchId: l.batchId,
-        batchCode: batch.code,
-        loadedAt: new Date(l.loadedAt).toISOString(),
-        loadedBy: l.loadedBy,
-        container: containerSummary(container),
-        mix: null,
-        lot: { id: c.lot.id, supplierLot: c.lot.supplierLot, status: c.lot.status },
-        material: materialSummary(c.material),
-        partMaterial: null,
-        partLot: null,
-        expiresAt: e.at,
-        expiryCause: e.cause,
-      };
-    } else {
-      const m = await mixByCode(tx, input.mixCode!, 'mixCode');
-      await checkMaterialForStep(tx, step, [m.resin.material, m.hardener.material], `mix ${m.mix.code}`);
-      checkMixUsable(m.mix, [m.resin, m.hardener], now);
-      written = await writeLoad(tx, {
-        actorId: actor.id,
-        stationId: station.id,
-        stationCode: station.code,
-        batchId: batch.id,
-        containerId: null,
-        mixId: m.mix.id,
-        openContainer: false,
-        now,
-      });
-      const l = written.load;
-      [described] = await describeLoads(
-        tx,
-        [{ ...l, loadedAt: new Date(l.loadedAt), unloadedAt: l.unloadedAt ? new Date(l.unloadedAt) : null }],
-        now,
-      );
-    }
-    return {
-      ...described,
-      accepted: true as const,
-      step: { id: step.id, seq: step.seq, name: step.name },
-      opened,
-      alreadyLoaded: !written.inserted,
+/** One read, check and write; null when the container changed before the write (nothing written). */
+async function tryLoad(
+  tx: DbOrTx,
+  lock: boolean,
+  actor: Actor,
+  stationId: string,
+  input: LoadInput,
+  containerCode: string | null,
+  now: Date,
+): Promise<LoadResult | null> {
+  const { station, batch, steps, pending, scanned } = await loadContext(tx, lock, stationId, input.batchId, containerCode);
+  checkBatchOpen(batch, Boolean(input.serial));
+  const step = input.serial
+    ? await reworkStep(tx, station, batch, steps, input.serial, input.stepId)
+    : stepAtStation(station, batch.code, pending);
+
+  let described: StationLoad | null = null;
+  let opened = false;
+  let written: LoadWriteRow;
+  if (containerCode !== null) {
+    if (!scanned) throw unknownCode('containerCode', 'container', containerCode);
+    const c = scanned;
+    await checkMaterialForStep(tx, step, [c.material], `container ${c.container.code}`);
+    checkContainerUsable(c.container, c.lot, c.material, now);
+    opened = c.container.status === 'sealed';
+    written = await writeLoad(tx, {
+      actorId: actor.id,
+      stationId: station.id,
+      stationCode: station.code,
+      batchId: batch.id,
+      containerId: c.container.id,
+      containerVersion: c.version,
+      mixId: null,
+      openContainer: opened,
+      now,
+    });
+    if (!written.ok) return null;
+    // Described from what this request already holds (the container as opened just now).
+    const container = opened ? { ...c.container, status: 'open' as const, openedAt: now, updatedAt: now } : c.container;
+    const e = expiryOfContainer(container, c.lot, c.material, now);
+    const l = written.load!;
+    described = {
+      id: l.id,
+      stationId: l.stationId,
+      batchId: l.batchId,
+      batchCode: batch.code,
+      loadedAt: new Date(l.loadedAt).toISOString(),
+      loadedBy: l.loadedBy,
+      container: containerSummary(container),
+      mix: null,
+      lot: { id: c.lot.id, supplierLot: c.lot.supplierLot, status: c.lot.status },
+      material: materialSummary(c.material),
+      partMaterial: null,
+      partLot: null,
+      expiresAt: e.at,
+      expiryCause: e.cause,
     };
-  });
+  } else {
+    const m = await mixByCode(tx, input.mixCode!, 'mixCode');
+    await checkMaterialForStep(tx, step, [m.resin.material, m.hardener.material], `mix ${m.mix.code}`);
+    checkMixUsable(m.mix, [m.resin, m.hardener], now);
+    written = await writeLoad(tx, {
+      actorId: actor.id,
+      stationId: station.id,
+      stationCode: station.code,
+      batchId: batch.id,
+      containerId: null,
+      containerVersion: null,
+      mixId: m.mix.id,
+      openContainer: false,
+      now,
+    });
+    const l = written.load!;
+    [described] = await describeLoads(
+      tx,
+      [{ ...l, loadedAt: new Date(l.loadedAt), unloadedAt: l.unloadedAt ? new Date(l.unloadedAt) : null }],
+      now,
+    );
+  }
+  return {
+    ...described,
+    accepted: true as const,
+    step: { id: step.id, seq: step.seq, name: step.name },
+    opened,
+    alreadyLoaded: !written.inserted,
+  };
 }
