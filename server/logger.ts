@@ -5,8 +5,9 @@
  */
 import crypto from 'node:crypto';
 import type { IncomingMessage, ServerResponse } from 'node:http';
-import { pino } from 'pino';
-import { pinoHttp } from 'pino-http';
+import { performance } from 'node:perf_hooks';
+import express, { type Request, type RequestHandler } from 'express';
+import { pino, type Logger } from 'pino';
 
 const LEVELS = ['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'];
 const level = process.env.TACKLOG_LOG_LEVEL || 'info';
@@ -26,19 +27,67 @@ function requestId(req: IncomingMessage, res: ServerResponse): string {
   return id;
 }
 
+/** The level of a request's line: errors for 5xx, warnings for 4xx. */
+function levelOf(statusCode: number): 'error' | 'warn' | 'info' {
+  return statusCode >= 500 ? 'error' : statusCode >= 400 ? 'warn' : 'info';
+}
+
 /**
- * Logs each request once it is answered (method, URL, status, time, request id) and gives
- * handlers `req.log`, a child logger carrying the id. Bodies, cookies and the authorization
- * header are never logged.
+ * `req.log`: made on first use from the request's id, method and URL, by a getter on Express's
+ * request prototype (a property defined on each request object would slow every later access
+ * to it).
  */
-export const requestLogger = pinoHttp({
-  logger,
-  genReqId: requestId,
-  customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
-  serializers: {
-    req: (req: { id: string; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url }),
-    res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+const childLoggers = new WeakMap<object, Logger>();
+/** The logger a request's lines go to (the server's own, or a test's). */
+const baseOf = new WeakMap<object, Logger>();
+Object.defineProperty(express.request, 'log', {
+  configurable: true,
+  get(this: Request): Logger {
+    let child = childLoggers.get(this);
+    if (!child) {
+      child = (baseOf.get(this) ?? logger).child({ req: { id: this.id, method: this.method, url: this.originalUrl } });
+      childLoggers.set(this, child);
+    }
+    return child;
   },
-  // Health checks of a load balancer would drown the log.
-  autoLogging: { ignore: (req) => req.url === '/api/health' },
 });
+
+/**
+ * Logs each request once it is answered (method, URL, status, time in ms, request id) and gives
+ * handlers `req.log`, a child logger carrying the request. Bodies, cookies and the authorization
+ * header are never logged. The lines are what pino-http wrote ("request completed", or "request
+ * aborted" when the client went away first), made with far less work per request (pino-http
+ * built a child logger and wrapped request and response for its serializers on every request,
+ * a fifth of a scan lookup's cost); the child logger is made only when a handler logs. `base`:
+ * where the lines go.
+ */
+export const requestLoggerFor =
+  (base: Logger): RequestHandler =>
+  (req, res, next) => {
+    const id = requestId(req, res);
+    req.id = id;
+    if (base !== logger) baseOf.set(req, base);
+    // Health checks of a load balancer would drown the log.
+    if (req.originalUrl === '/api/health') {
+      next();
+      return;
+    }
+    const started = performance.now();
+    const line = (aborted: boolean) => {
+      const statusCode = res.statusCode;
+      const fields = {
+        req: { id, method: req.method, url: req.originalUrl },
+        res: { statusCode },
+        responseTime: Math.round(performance.now() - started),
+      };
+      if (aborted) base.error({ ...fields, err: { message: 'request aborted' } }, 'request aborted');
+      else base[levelOf(statusCode)](fields, 'request completed');
+    };
+    res.once('finish', () => line(false));
+    res.once('close', () => {
+      if (!res.writableFinished) line(true);
+    });
+    next();
+  };
+
+export const requestLogger = requestLoggerFor(logger);

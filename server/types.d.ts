@@ -1,3 +1,4 @@
+import type { Logger } from 'pino';
 import type { Actor } from './services/auth/actor';
 
 declare global {
@@ -9,6 +10,10 @@ declare global {
       authVia?: 'bearer' | 'cookie';
       /** Set by acceptUpload: this route reads a multipart upload. */
       uploadRead?: boolean;
+      /** The request id (the caller's X-Request-Id when sane, else a new UUID), set by requestLogger. */
+      id: string;
+      /** A logger carrying the request (id, method, URL), set by requestLogger. */
+      log: Logger;
     }
   }
 }

@@ -205,7 +205,7 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, next) => {
     sendError(res, 'DB_UNAVAILABLE', e503.message);
     return;
   }
-  // pino-http's child logger carries the request id; the response names the same id (X-Request-Id).
+  // req.log (server/logger.ts) carries the request id; the response names the same id (X-Request-Id).
   req.log.error({ err }, `${req.method} ${req.originalUrl} failed`);
   sendError(res, 'INTERNAL', 'Something went wrong on the server; it has been logged.');
 };
