@@ -34,6 +34,9 @@ import { meRouter, notificationsRouter, userNotificationsRouter } from './notifi
 export const apiRouter = Router();
 
 apiRouter.use('/health', healthRouter);
+// The scan path first: Express tries each mount in order, and a station sends these all day.
+apiRouter.use('/scans', scansRouter);
+apiRouter.use('/stations', stationsRouter);
 apiRouter.use('/config', configRouter);
 apiRouter.use('/auth', authRouter);
 apiRouter.use('/users', usersRouter);
@@ -46,7 +49,6 @@ apiRouter.use(traceRouter);
 apiRouter.use('/defect-codes', defectsRouter);
 apiRouter.use('/tests', testsRouter);
 apiRouter.use('/drivers', driversRouter);
-apiRouter.use('/stations', stationsRouter);
 apiRouter.use('/models', modelsRouter);
 apiRouter.use('/batches', batchesRouter);
 apiRouter.use('/batches', stepsRouter);
@@ -58,7 +60,6 @@ apiRouter.use('/materials', materialsRouter);
 apiRouter.use('/suppliers', suppliersRouter);
 apiRouter.use('/lots', lotsRouter);
 apiRouter.use('/containers', containersRouter);
-apiRouter.use('/scans', scansRouter);
 apiRouter.use('/labels', labelsRouter);
 apiRouter.use('/attachments', attachmentsRouter);
 apiRouter.use('/alerts', alertsRouter);
