@@ -1,5 +1,6 @@
 import type { Logger } from 'pino';
 import type { Actor } from './services/auth/actor';
+import type { HandlerClaimedKey } from './middleware/idempotency';
 
 declare global {
   namespace Express {
@@ -14,6 +15,8 @@ declare global {
       id: string;
       /** A logger carrying the request (id, method, URL), set by requestLogger. */
       log: Logger;
+      /** An Idempotency-Key this request's handler claims itself (the idempotency middleware). */
+      idempotency?: HandlerClaimedKey;
     }
   }
 }

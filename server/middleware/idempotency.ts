@@ -15,7 +15,7 @@ import type { Request, RequestHandler, Response } from 'express';
 import { logger } from '../logger';
 import { AppError } from '../errors';
 import { isDatabaseUnavailable } from '../db/availability';
-import { claimKey, pruneKeys, releaseKey, storeResponse } from '../services/idempotency';
+import { claimKey, pruneKeys, releaseKey, storeResponse, type StoredRequest } from '../services/idempotency';
 
 const METHODS = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 /** Keys are kept this long (a client retries within minutes, not days). */
@@ -84,8 +84,30 @@ function releaseWhenBack(actorId: string, key: string, attempt = 1): void {
   }, 5000).unref();
 }
 
+/**
+ * A request whose handler claims its key in its own first statement, and may store its answer
+ * with its writes (one round trip each fewer): see CLAIMED_BY_HANDLER. `claimed` and `stored`
+ * say what the handler did; whatever it did not, the middleware does as for any other request.
+ */
+export interface HandlerClaimedKey {
+  actorId: string;
+  key: string;
+  method: string;
+  path: string;
+  requestHash: string | null;
+  claimed: boolean;
+  stored: boolean;
+}
+
+/**
+ * The routes that claim their key themselves: the station load, sent with every container a
+ * station scans. A request refused before its claim (access, input) is not kept: a repeat is
+ * checked again and gets the same answer.
+ */
+const CLAIMED_BY_HANDLER = /^\/api\/stations\/[^/]+\/load$/;
+
 /** Holds back the end of the response until its status and body are stored (or the key released). */
-function captureResponse(res: Response, actorId: string, key: string): void {
+function captureResponse(res: Response, actorId: string, key: string, byHandler?: HandlerClaimedKey): void {
   let body: unknown = null;
   const json = res.json.bind(res);
   res.json = (value: unknown) => {
@@ -97,6 +119,8 @@ function captureResponse(res: Response, actorId: string, key: string): void {
   res.end = ((...args: unknown[]) => {
     if (stored) return end(...args);
     stored = true;
+    // Not claimed (refused before the handler's claim, or a repeat answered), or already stored.
+    if (byHandler && (!byHandler.claimed || byHandler.stored)) return end(...args);
     const save = res.statusCode >= 500 ? releaseKey(actorId, key) : storeResponse(actorId, key, res.statusCode, body);
     save.then(
       () => end(...args),
@@ -121,6 +145,13 @@ export const idempotency: RequestHandler = async (req, res, next) => {
     const actorId = req.actor.id;
     const path = req.originalUrl.split('?')[0];
     const hash = requestHash(req);
+    if (req.method === 'POST' && CLAIMED_BY_HANDLER.test(path)) {
+      req.idempotency = { actorId, key, method: req.method, path, requestHash: hash, claimed: false, stored: false };
+      pruneNowAndThen();
+      captureResponse(res, actorId, key, req.idempotency);
+      next();
+      return;
+    }
     const claim = await claimKey(actorId, key, req.method, path, hash);
     if (claim.claimed) {
       pruneNowAndThen();
@@ -128,35 +159,53 @@ export const idempotency: RequestHandler = async (req, res, next) => {
       next();
       return;
     }
-
-    const first = claim.first;
-    if (!first) throw new AppError('IDEMPOTENCY_IN_PROGRESS', 'A request with this Idempotency-Key was just released; send it again.', 409);
-    if (first.method !== req.method || first.path !== path) {
-      throw new AppError(
-        'IDEMPOTENCY_KEY_REUSED',
-        `This Idempotency-Key was already used for ${first.method} ${first.path}; use a new key for a different request.`,
-        422,
-      );
-    }
-    if (first.requestHash !== null && first.requestHash !== hash) {
-      throw new AppError(
-        'IDEMPOTENCY_KEY_REUSED',
-        'This Idempotency-Key was already used for a request with a different body; use a new key for a different request.',
-        422,
-        [{ field: 'Idempotency-Key', message: 'was used with a different body' }],
-      );
-    }
-    if (first.statusCode === null) {
-      throw new AppError(
-        'IDEMPOTENCY_IN_PROGRESS',
-        'The first request with this Idempotency-Key is still running; wait for it and retry.',
-        409,
-      );
-    }
-    res.set('Idempotent-Replayed', 'true');
-    if (first.responseBody === null) res.status(first.statusCode).end();
-    else res.status(first.statusCode).json(first.responseBody);
+    answerRepeat(req, res, claim.first, path, hash);
   } catch (err) {
     next(err);
   }
 };
+
+/**
+ * A handler that claims its own key found it taken: claims it the usual way now (a key whose
+ * first request died is taken over; then the handler runs after all: 'claimed'), or answers the
+ * repeat — the first answer again, or why not (409, 422) as an error to throw: 'answered'.
+ */
+export async function answerTakenKey(req: Request, res: Response, k: HandlerClaimedKey): Promise<'claimed' | 'answered'> {
+  const claim = await claimKey(k.actorId, k.key, k.method, k.path, k.requestHash);
+  if (claim.claimed) {
+    k.claimed = true;
+    return 'claimed';
+  }
+  answerRepeat(req, res, claim.first, k.path, k.requestHash);
+  return 'answered';
+}
+
+/** A repeat of a key already used: its first answer again, or an error saying why not. */
+function answerRepeat(req: Request, res: Response, first: StoredRequest | null, path: string, hash: string | null): void {
+  if (!first) throw new AppError('IDEMPOTENCY_IN_PROGRESS', 'A request with this Idempotency-Key was just released; send it again.', 409);
+  if (first.method !== req.method || first.path !== path) {
+    throw new AppError(
+      'IDEMPOTENCY_KEY_REUSED',
+      `This Idempotency-Key was already used for ${first.method} ${first.path}; use a new key for a different request.`,
+      422,
+    );
+  }
+  if (first.requestHash !== null && first.requestHash !== hash) {
+    throw new AppError(
+      'IDEMPOTENCY_KEY_REUSED',
+      'This Idempotency-Key was already used for a request with a different body; use a new key for a different request.',
+      422,
+      [{ field: 'Idempotency-Key', message: 'was used with a different body' }],
+    );
+  }
+  if (first.statusCode === null) {
+    throw new AppError(
+      'IDEMPOTENCY_IN_PROGRESS',
+      'The first request with this Idempotency-Key is still running; wait for it and retry.',
+      409,
+    );
+  }
+  res.set('Idempotent-Replayed', 'true');
+  if (first.responseBody === null) res.status(first.statusCode).end();
+  else res.status(first.statusCode).json(first.responseBody);
+}

@@ -210,6 +210,37 @@ describe('a load checks again when its container changes in between', () => {
     expect(active).toHaveLength(1);
   });
 
+  it(`${N} parallel sends of one load with one Idempotency-Key load once; every answer is that load or "in progress"`, async () => {
+    const epoxy = await createTwoPart({ potLifeMinutes: 240 });
+    const station = await createStation({ kind: `keyed ${sfx()}` });
+    const model = await createModel({
+      steps: [{ name: 'Glue coil', stationKind: station.kind, materials: [{ materialId: epoxy.resin.id, amountPerUnit: 1 }] }],
+    });
+    const batch = await createBatch({ modelId: model.id, quantity: 2 });
+    const lot = await createLot({ materialId: epoxy.resin.id, quantity: 200 });
+    const key = `keyed-${sfx()}`;
+    const results = await Promise.all(
+      Array.from({ length: N }, () =>
+        as(assembler).post(
+          `/api/stations/${station.id}/load`,
+          { batchId: batch.id, containerCode: lot.containers[0].code },
+          { headers: { 'idempotency-key': key } },
+        ),
+      ),
+    );
+    expectNo5xx(results);
+    const ok = results.filter((r) => r.status === 200);
+    expect(
+      results.every((r) => r.status === 200 || (r.status === 409 && r.body.error.code === 'IDEMPOTENCY_IN_PROGRESS')),
+      JSON.stringify(tally(results)),
+    ).toBe(true);
+    expect(ok.length).toBeGreaterThan(0);
+    expect(new Set(ok.map((r) => r.body.id)).size).toBe(1);
+    expect(ok.every((r) => r.body.opened === true && r.body.alreadyLoaded === false)).toBe(true);
+    const loads = await db.select().from(stationLoads).where(eq(stationLoads.containerId, lot.containers[0].id));
+    expect(loads).toHaveLength(1);
+  });
+
   it('a container emptied while its load waits is refused as empty, and nothing is loaded', async () => {
     const epoxy = await createTwoPart({ potLifeMinutes: 240 });
     const station = await createStation({ kind: `empty ${sfx()}` });

@@ -2,12 +2,12 @@ import express from 'express';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { db } from '../../server/db/client';
-import { buildBatches, idempotencyKeys } from '../../server/db/schema';
+import { buildBatches, idempotencyKeys, stationLoads } from '../../server/db/schema';
 import { idempotency } from '../../server/middleware/idempotency';
 import { errorHandler } from '../../server/middleware/errors';
 import { api, listen, startApp, type TestApp } from '../helpers/api';
 import { ensureUser, type TestUser } from '../helpers/db';
-import { createModel, createStation, sfx } from '../helpers/fixtures';
+import { createBatch, createLot, createMaterial, createModel, createStation, sfx } from '../helpers/fixtures';
 
 let app: TestApp;
 let assembler: TestUser;
@@ -110,5 +110,101 @@ describe('Idempotency-Key', () => {
     } finally {
       await server.close();
     }
+  });
+});
+
+// The station load claims its key in its own first statement and stores a new load's answer with
+// its writes (server/middleware/idempotency.ts, CLAIMED_BY_HANDLER): the same promises must hold.
+describe('Idempotency-Key on a station load (claimed by the load itself)', () => {
+  async function loadSetup() {
+    const glue = await createMaterial({ name: 'Dust cap glue', openLifeHours: 8 });
+    const other = await createMaterial({ name: 'Lead wire', kind: 'wire', unit: 'm' });
+    const station = await createStation({ kind: `cap ${sfx()}` });
+    const model = await createModel({
+      steps: [{ name: 'Glue dust cap', stationKind: station.kind, materials: [{ materialId: glue.id, amountPerUnit: 1 }] }],
+    });
+    const batch = await createBatch({ modelId: model.id, quantity: 4 });
+    const lot = await createLot({ materialId: glue.id, containers: 2 });
+    const wrong = await createLot({ materialId: other.id });
+    return { station, batch, containers: lot.containers, wrong: wrong.containers[0] };
+  }
+  const loadsOf = async (containerId: string) => db.select().from(stationLoads).where(eq(stationLoads.containerId, containerId));
+  const keyRow = async (key: string) => (await db.select().from(idempotencyKeys).where(eq(idempotencyKeys.key, key)))[0];
+
+  it('a new load is stored with its writes; the repeat replays it exactly and loads nothing more', async () => {
+    const { station, batch, containers } = await loadSetup();
+    const key = `load-${sfx()}`;
+    const body = { batchId: batch.id, containerCode: containers[0].code };
+    const first = await as(assembler).post(`/api/stations/${station.id}/load`, body, withKey(key));
+    expect(first.status, JSON.stringify(first.body)).toBe(200);
+    expect(first.body).toMatchObject({ opened: true, alreadyLoaded: false });
+    const row = await keyRow(key);
+    expect(row.statusCode).toBe(200);
+    expect(row.responseBody).toEqual(first.body);
+    const again = await as(assembler).post(`/api/stations/${station.id}/load`, body, withKey(key));
+    expect(again.status).toBe(200);
+    expect(again.headers.get('idempotent-replayed')).toBe('true');
+    expect(again.body).toEqual(first.body);
+    expect(await loadsOf(containers[0].id)).toHaveLength(1);
+    // The same load under a new key runs: already loaded, not opened again.
+    const fresh = await as(assembler).post(`/api/stations/${station.id}/load`, body, withKey(`load-${sfx()}`));
+    expect(fresh.body).toMatchObject({ id: first.body.id, opened: false, alreadyLoaded: true });
+  });
+
+  it('a refusal is kept and replayed; the key with another body is 422; a refusal before the claim is not kept', async () => {
+    const { station, batch, containers, wrong } = await loadSetup();
+    const key = `load-${sfx()}`;
+    const refused = await as(assembler).post(
+      `/api/stations/${station.id}/load`,
+      { batchId: batch.id, containerCode: wrong.code },
+      withKey(key),
+    );
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.code).toBe('WRONG_MATERIAL');
+    const again = await as(assembler).post(
+      `/api/stations/${station.id}/load`,
+      { batchId: batch.id, containerCode: wrong.code },
+      withKey(key),
+    );
+    expect(again.status).toBe(409);
+    expect(again.headers.get('idempotent-replayed')).toBe('true');
+    expect(again.body).toEqual(refused.body);
+    const reused = await as(assembler).post(
+      `/api/stations/${station.id}/load`,
+      { batchId: batch.id, containerCode: containers[1].code },
+      withKey(key),
+    );
+    expect(reused.status).toBe(422);
+    expect(reused.body.error.code).toBe('IDEMPOTENCY_KEY_REUSED');
+    expect(await loadsOf(containers[1].id)).toHaveLength(0);
+    // Refused by input validation, before the load claims anything: nothing kept under the key.
+    const badKey = `load-${sfx()}`;
+    const bad = await as(assembler).post(
+      `/api/stations/${station.id}/load`,
+      { batchId: 'not-an-id', containerCode: containers[1].code },
+      withKey(badKey),
+    );
+    expect(bad.status).toBe(400);
+    expect(await keyRow(badKey)).toBeUndefined();
+  });
+
+  it('a key whose first request died unanswered is taken over, and the load runs', async () => {
+    const { station, batch, containers } = await loadSetup();
+    const key = `load-${sfx()}`;
+    const path = `/api/stations/${station.id}/load`;
+    await db
+      .insert(idempotencyKeys)
+      .values({ key, actorId: assembler.id, method: 'POST', path, requestHash: null, createdAt: new Date(Date.now() - 10 * 60_000) });
+    const res = await as(assembler).post(path, { batchId: batch.id, containerCode: containers[0].code }, withKey(key));
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body.alreadyLoaded).toBe(false);
+    expect((await keyRow(key)).statusCode).toBe(200);
+    // One still running (recent, unanswered) is not: 409 in progress, nothing loaded.
+    const busy = `load-${sfx()}`;
+    await db.insert(idempotencyKeys).values({ key: busy, actorId: assembler.id, method: 'POST', path, requestHash: null });
+    const waiting = await as(assembler).post(path, { batchId: batch.id, containerCode: containers[1].code }, withKey(busy));
+    expect(waiting.status).toBe(409);
+    expect(waiting.body.error.code).toBe('IDEMPOTENCY_IN_PROGRESS');
+    expect(await loadsOf(containers[1].id)).toHaveLength(0);
   });
 });

@@ -1,3 +1,4 @@
+import crypto from 'node:crypto';
 import { eq, inArray, sql } from 'drizzle-orm';
 import { db, type DbOrTx } from '../../db/client';
 import { namedStatement } from '../../db/named';
@@ -5,9 +6,10 @@ import { containers, drivers, lots, materials, type stationLoads } from '../../d
 import { rowFromJson, rowJson } from '../../db/row-json';
 import { AppError, conflict, notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
+import type { HandlerClaimedKey } from '../../middleware/idempotency';
 import { requirePermission } from '../auth/actor';
 import { checkBatchOpen } from '../batches/progress';
-import type { LoadInput, LoadResult, StationLoad } from '../../../shared/schemas/station-loads';
+import type { LoadInput, LoadResult } from '../../../shared/schemas/station-loads';
 import type { RecipeStep } from '../../../shared/schemas/models';
 import { mixByCode, scannedContainerCode, unknownCode, type ContainerContext } from './context';
 import { checkContainerUsable, checkMixUsable, expiryOfContainer, type MaterialRow } from './usability';
@@ -26,6 +28,8 @@ interface StationRow {
 type LoadRow = typeof stationLoads.$inferSelect;
 
 interface LoadContextRow {
+  /** Rows the idempotency claim inserted: 1 claimed, 0 the key was taken (null: no claim asked). */
+  claimed: number | null;
   container: Record<string, unknown> | null;
   /** The container row's version (its xmin) as read: the write goes ahead only on this version. */
   container_version: string | null;
@@ -49,18 +53,41 @@ interface LoadContextRow {
  * version): a step is done when its latest whole-batch run has finished (as batchProgress reads
  * it). `containerCode` null (a mix, or no container) fetches no container.
  */
+interface ContextValues {
+  stationId: string;
+  batchId: string;
+  containerCode: string | null;
+  /** The request's Idempotency-Key to claim in this statement (all null: none). */
+  idemKey: string | null;
+  idemActor: string | null;
+  idemMethod: string | null;
+  idemPath: string | null;
+  idemHash: string | null;
+}
+
+/** What loadAtStation answers when the request's Idempotency-Key was already taken. */
+export const KEY_TAKEN = Symbol('the Idempotency-Key was taken');
+
 const contextStatement = (name: string, lock: boolean) =>
-  namedStatement<{ stationId: string; batchId: string; containerCode: string | null }, LoadContextRow>(
+  namedStatement<ContextValues, LoadContextRow>(
     name,
     sql`
-    WITH scanned AS MATERIALIZED (
+    WITH claim AS (
+      INSERT INTO idempotency_keys (key, actor_id, method, path, request_hash)
+      SELECT ${sql.placeholder('idemKey')}::text, ${sql.placeholder('idemActor')}::uuid, ${sql.placeholder('idemMethod')}::text, ${sql.placeholder('idemPath')}::text, ${sql.placeholder('idemHash')}::text
+      WHERE ${sql.placeholder('idemKey')}::text IS NOT NULL
+      ON CONFLICT DO NOTHING
+      RETURNING key
+    ),
+    scanned AS MATERIALIZED (
       SELECT ${rowJson(containers, 'c')} AS container, ${rowJson(lots, 'l')} AS lot, ${rowJson(materials, 'm')} AS material,
              c.xmin::text AS version
       FROM containers c JOIN lots l ON l.id = c.lot_id JOIN materials m ON m.id = l.material_id
       WHERE c.code = ${sql.placeholder('containerCode')}::text
       ${lock ? sql`FOR UPDATE OF c` : sql``}
     )
-    SELECT scanned.container, scanned.lot, scanned.material, scanned.version AS container_version,
+    SELECT CASE WHEN ${sql.placeholder('idemKey')}::text IS NOT NULL THEN (SELECT count(*) FROM claim)::int END AS claimed,
+           scanned.container, scanned.lot, scanned.material, scanned.version AS container_version,
            st.id AS station_id, st.code AS station_code, st.kind AS station_kind, st.active AS station_active,
            b.id AS batch_id, b.code AS batch_code, b.status AS batch_status, b.model_id,
            (SELECT coalesce(json_agg(json_build_object(
@@ -82,8 +109,29 @@ const contextStatement = (name: string, lock: boolean) =>
 const loadContextStatement = contextStatement('load_context', false);
 const loadContextLockedStatement = contextStatement('load_context_locked', true);
 
-async function loadContext(tx: DbOrTx, lock: boolean, stationId: string, batchId: string, containerCode: string | null) {
-  const [r] = await (lock ? loadContextLockedStatement : loadContextStatement)(tx, { stationId, batchId, containerCode });
+async function loadContext(
+  tx: DbOrTx,
+  lock: boolean,
+  stationId: string,
+  batchId: string,
+  containerCode: string | null,
+  idem: HandlerClaimedKey | undefined,
+) {
+  const claim = idem && !idem.claimed ? idem : null;
+  const [r] = await (lock ? loadContextLockedStatement : loadContextStatement)(tx, {
+    stationId,
+    batchId,
+    containerCode,
+    idemKey: claim?.key ?? null,
+    idemActor: claim?.actorId ?? null,
+    idemMethod: claim?.method ?? null,
+    idemPath: claim?.path ?? null,
+    idemHash: claim?.requestHash ?? null,
+  });
+  if (claim) {
+    if (r.claimed === 0) return KEY_TAKEN;
+    claim.claimed = true;
+  }
   if (!r.station_id) throw notFound('The station');
   const station: StationRow = { id: r.station_id, code: r.station_code, kind: r.station_kind, active: r.station_active };
   if (!station.active) {
@@ -102,6 +150,8 @@ async function loadContext(tx: DbOrTx, lock: boolean, stationId: string, batchId
 interface LoadWriteRow {
   /** False when the container changed since it was read (nothing was written): check again. */
   ok: boolean;
+  /** 1 when the answer was stored for the Idempotency-Key with the writes. */
+  stored: number;
   load: (Omit<LoadRow, 'loadedAt' | 'unloadedAt'> & { loadedAt: string; unloadedAt: string | null }) | null;
   inserted: boolean | null;
 }
@@ -117,6 +167,12 @@ interface LoadWriteValues {
   mixId: string | null;
   openContainer: boolean;
   now: string;
+  /** The new load's id (made here, so its answer is known before the write). */
+  loadId: string;
+  /** Store `answer` (JSON) as the answer to this Idempotency-Key when the load is new (nulls: no). */
+  idemKey: string | null;
+  idemActor: string | null;
+  answer: string | null;
 }
 
 /**
@@ -157,8 +213,8 @@ const loadWriteStatement = namedStatement<LoadWriteValues, LoadWriteRow>(
       LIMIT 1
     ),
     inserted AS (
-      INSERT INTO station_loads (station_id, batch_id, container_id, mix_id, loaded_at, loaded_by)
-      SELECT ${sql.placeholder('stationId')}::uuid, ${sql.placeholder('batchId')}::uuid, ${sql.placeholder('containerId')}::uuid, ${sql.placeholder('mixId')}::uuid,
+      INSERT INTO station_loads (id, station_id, batch_id, container_id, mix_id, loaded_at, loaded_by)
+      SELECT ${sql.placeholder('loadId')}::uuid, ${sql.placeholder('stationId')}::uuid, ${sql.placeholder('batchId')}::uuid, ${sql.placeholder('containerId')}::uuid, ${sql.placeholder('mixId')}::uuid,
              ${sql.placeholder('now')}::timestamptz, ${sql.placeholder('actorId')}::uuid
       WHERE (SELECT ok FROM go) AND NOT EXISTS (SELECT 1 FROM existing)
       RETURNING *
@@ -169,13 +225,19 @@ const loadWriteStatement = namedStatement<LoadWriteValues, LoadWriteRow>(
              jsonb_build_object('stationId', station_id, 'batchId', batch_id, 'containerId', container_id, 'mixId', mix_id, 'loadedAt', ${sql.placeholder('now')}::text)
       FROM inserted
     ),
+    stored AS (
+      UPDATE idempotency_keys SET status_code = 200, response_body = ${sql.placeholder('answer')}::jsonb
+      WHERE ${sql.placeholder('answer')}::text IS NOT NULL AND actor_id = ${sql.placeholder('idemActor')}::uuid AND key = ${sql.placeholder('idemKey')}::text
+        AND EXISTS (SELECT 1 FROM inserted)
+      RETURNING 1
+    ),
     -- A container swapped in while a step runs here belongs to that run's genealogy too.
     genealogy AS (
       INSERT INTO step_run_materials (step_run_id, container_id, mix_id, loaded_at, loaded_by)
       SELECT sr.id, i.container_id, i.mix_id, i.loaded_at, i.loaded_by
       FROM inserted i JOIN step_runs sr ON sr.batch_id = i.batch_id AND sr.station_id = i.station_id AND sr.finished_at IS NULL
     )
-    SELECT go.ok,
+    SELECT go.ok, (SELECT count(*) FROM stored)::int AS stored,
            json_build_object('id', l.id, 'stationId', l.station_id, 'batchId', l.batch_id, 'containerId', l.container_id, 'mixId', l.mix_id,
                              'loadedAt', l.loaded_at, 'loadedBy', l.loaded_by, 'unloadedAt', l.unloaded_at) AS load,
            l.inserted
@@ -278,18 +340,28 @@ async function checkMaterialForStep(tx: DbOrTx, step: RecipeStep, scanned: Mater
  * load is read and checked again inside a transaction holding the container's row lock, which
  * always gets through. A mix or a rework adds its look-ups.
  */
-export async function loadAtStation(actor: Actor, stationId: string, input: LoadInput, now: Date = new Date()): Promise<LoadResult> {
+export async function loadAtStation(
+  actor: Actor,
+  stationId: string,
+  input: LoadInput,
+  idem?: HandlerClaimedKey,
+  now: Date = new Date(),
+): Promise<LoadResult | typeof KEY_TAKEN> {
   requirePermission(actor, 'stations.load');
   const containerCode = input.containerCode ? scannedContainerCode(input.containerCode) : null;
   const result =
-    (await tryLoad(db, false, actor, stationId, input, containerCode, now)) ??
-    (await db.transaction((tx) => tryLoad(tx, true, actor, stationId, input, containerCode, now)));
+    (await tryLoad(db, false, actor, stationId, input, containerCode, idem, now)) ??
+    (await db.transaction((tx) => tryLoad(tx, true, actor, stationId, input, containerCode, idem, now)));
   if (result) return result;
   // Not reached while the row lock holds the version; a refusal rather than a silent retry loop.
   throw new AppError('TRY_AGAIN', 'The container changed while this load was checked; scan it again.', 409);
 }
 
-/** One read, check and write; null when the container changed before the write (nothing written). */
+/**
+ * One read, check and write; null when the container changed before the write (nothing
+ * written). With `idem`, the context statement claims the request's Idempotency-Key (KEY_TAKEN
+ * when it was taken) and, for a new container load, the write statement stores the answer.
+ */
 async function tryLoad(
   tx: DbOrTx,
   lock: boolean,
@@ -297,45 +369,35 @@ async function tryLoad(
   stationId: string,
   input: LoadInput,
   containerCode: string | null,
+  idem: HandlerClaimedKey | undefined,
   now: Date,
-): Promise<LoadResult | null> {
-  const { station, batch, steps, pending, scanned } = await loadContext(tx, lock, stationId, input.batchId, containerCode);
+): Promise<LoadResult | typeof KEY_TAKEN | null> {
+  const context = await loadContext(tx, lock, stationId, input.batchId, containerCode, idem);
+  if (context === KEY_TAKEN) return KEY_TAKEN;
+  const { station, batch, steps, pending, scanned } = context;
   checkBatchOpen(batch, Boolean(input.serial));
   const step = input.serial
     ? await reworkStep(tx, station, batch, steps, input.serial, input.stepId)
     : stepAtStation(station, batch.code, pending);
+  const stepRef = { id: step.id, seq: step.seq, name: step.name };
+  const loadId = crypto.randomUUID();
 
-  let described: StationLoad | null = null;
-  let opened = false;
-  let written: LoadWriteRow;
   if (containerCode !== null) {
     if (!scanned) throw unknownCode('containerCode', 'container', containerCode);
     const c = scanned;
     await checkMaterialForStep(tx, step, [c.material], `container ${c.container.code}`);
     checkContainerUsable(c.container, c.lot, c.material, now);
-    opened = c.container.status === 'sealed';
-    written = await writeLoad(tx, {
-      actorId: actor.id,
-      stationId: station.id,
-      stationCode: station.code,
-      batchId: batch.id,
-      containerId: c.container.id,
-      containerVersion: c.version,
-      mixId: null,
-      openContainer: opened,
-      now,
-    });
-    if (!written.ok) return null;
-    // Described from what this request already holds (the container as opened just now).
+    const opened = c.container.status === 'sealed';
+    // Described from what this request already holds (the container as opened just now), so
+    // the answer for a new load is known before the write, which stores it with the load.
     const container = opened ? { ...c.container, status: 'open' as const, openedAt: now, updatedAt: now } : c.container;
     const e = expiryOfContainer(container, c.lot, c.material, now);
-    const l = written.load!;
-    described = {
+    const answer = (l: { id: string; loadedAt: Date; loadedBy: string | null }, alreadyLoaded: boolean): LoadResult => ({
       id: l.id,
-      stationId: l.stationId,
-      batchId: l.batchId,
+      stationId: station.id,
+      batchId: batch.id,
       batchCode: batch.code,
-      loadedAt: new Date(l.loadedAt).toISOString(),
+      loadedAt: l.loadedAt.toISOString(),
       loadedBy: l.loadedBy,
       container: containerSummary(container),
       mix: null,
@@ -345,34 +407,59 @@ async function tryLoad(
       partLot: null,
       expiresAt: e.at,
       expiryCause: e.cause,
-    };
-  } else {
-    const m = await mixByCode(tx, input.mixCode!, 'mixCode');
-    await checkMaterialForStep(tx, step, [m.resin.material, m.hardener.material], `mix ${m.mix.code}`);
-    checkMixUsable(m.mix, [m.resin, m.hardener], now);
-    written = await writeLoad(tx, {
+      accepted: true as const,
+      step: stepRef,
+      opened,
+      alreadyLoaded,
+    });
+    const fresh = answer({ id: loadId, loadedAt: now, loadedBy: actor.id }, false);
+    const written = await writeLoad(tx, {
       actorId: actor.id,
       stationId: station.id,
       stationCode: station.code,
       batchId: batch.id,
-      containerId: null,
-      containerVersion: null,
-      mixId: m.mix.id,
-      openContainer: false,
+      containerId: c.container.id,
+      containerVersion: c.version,
+      mixId: null,
+      openContainer: opened,
       now,
+      loadId,
+      idemKey: idem?.key ?? null,
+      idemActor: idem?.actorId ?? null,
+      answer: idem ? JSON.stringify(fresh) : null,
     });
+    if (!written.ok) return null;
+    if (idem && written.stored === 1) idem.stored = true;
+    if (written.inserted) return fresh;
     const l = written.load!;
-    [described] = await describeLoads(
-      tx,
-      [{ ...l, loadedAt: new Date(l.loadedAt), unloadedAt: l.unloadedAt ? new Date(l.unloadedAt) : null }],
-      now,
-    );
+    return answer({ id: l.id, loadedAt: new Date(l.loadedAt), loadedBy: l.loadedBy }, true);
   }
-  return {
-    ...described,
-    accepted: true as const,
-    step: { id: step.id, seq: step.seq, name: step.name },
-    opened,
-    alreadyLoaded: !written.inserted,
-  };
+
+  const m = await mixByCode(tx, input.mixCode!, 'mixCode');
+  await checkMaterialForStep(tx, step, [m.resin.material, m.hardener.material], `mix ${m.mix.code}`);
+  checkMixUsable(m.mix, [m.resin, m.hardener], now);
+  // A mix's answer is described after the write (its parts' lots and materials): the
+  // idempotency middleware stores it.
+  const written = await writeLoad(tx, {
+    actorId: actor.id,
+    stationId: station.id,
+    stationCode: station.code,
+    batchId: batch.id,
+    containerId: null,
+    containerVersion: null,
+    mixId: m.mix.id,
+    openContainer: false,
+    now,
+    loadId,
+    idemKey: null,
+    idemActor: null,
+    answer: null,
+  });
+  const l = written.load!;
+  const [described] = await describeLoads(
+    tx,
+    [{ ...l, loadedAt: new Date(l.loadedAt), unloadedAt: l.unloadedAt ? new Date(l.unloadedAt) : null }],
+    now,
+  );
+  return { ...described, accepted: true as const, step: stepRef, opened: false, alreadyLoaded: !written.inserted };
 }
