@@ -56,6 +56,7 @@ export async function seedStationFixture(
      FROM generate_series(1, $1::int) i RETURNING id`,
     [openBatches],
   );
-  await client.query('ANALYZE containers, build_batches, lots');
+  // Vacuumed now rather than by autovacuum in the middle of a measurement.
+  await client.query('VACUUM (ANALYZE) containers, build_batches, lots');
   return { stationId: station, batchIds: batches.rows.map((r) => r.id), codes };
 }
