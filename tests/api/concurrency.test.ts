@@ -113,12 +113,7 @@ describe('unique races are 409 naming the field, never 500', () => {
 
 describe('loading one thing many times at once', () => {
   async function setup() {
-    const epoxy = await createTwoPart({ potLifeMinutes: 240 });
-    const station = await createStation({ kind: `pot ${sfx()}` });
-    const model = await createModel({
-      steps: [{ name: 'Glue magnet', stationKind: station.kind, materials: [{ materialId: epoxy.resin.id, amountPerUnit: 1 }] }],
-    });
-    const batch = await createBatch({ modelId: model.id, quantity: 2 });
+    const { epoxy, station, batch } = await gluingStep('pot', 'Glue magnet');
     const r = await createLot({ materialId: epoxy.resin.id, quantity: 200 });
     const h = await createLot({ materialId: epoxy.hardener.id, quantity: 100 });
     return { station, batch, resin: r.containers[0], hardener: h.containers[0] };
@@ -180,14 +175,20 @@ describe('loading one thing many times at once', () => {
   });
 });
 
+/** A new epoxy, a station of a new kind and an open batch whose one step glues with it there. */
+async function gluingStep(kind: string, stepName: string) {
+  const epoxy = await createTwoPart({ potLifeMinutes: 240 });
+  const station = await createStation({ kind: `${kind} ${sfx()}` });
+  const model = await createModel({
+    steps: [{ name: stepName, stationKind: station.kind, materials: [{ materialId: epoxy.resin.id, amountPerUnit: 1 }] }],
+  });
+  const batch = await createBatch({ modelId: model.id, quantity: 2 });
+  return { epoxy, station, batch };
+}
+
 describe('a load checks again when its container changes in between', () => {
   it(`${N} parallel loads of one open container all get through, leaving one active load`, async () => {
-    const epoxy = await createTwoPart({ potLifeMinutes: 240 });
-    const station = await createStation({ kind: `open ${sfx()}` });
-    const model = await createModel({
-      steps: [{ name: 'Glue spider', stationKind: station.kind, materials: [{ materialId: epoxy.resin.id, amountPerUnit: 1 }] }],
-    });
-    const batch = await createBatch({ modelId: model.id, quantity: 2 });
+    const { epoxy, station, batch } = await gluingStep('open', 'Glue spider');
     const lot = await createLot({ materialId: epoxy.resin.id, quantity: 200, containerStatus: 'open', openedAt: minutesAgo(30) });
     const code = lot.containers[0].code;
     const results = await Promise.all(
@@ -211,12 +212,7 @@ describe('a load checks again when its container changes in between', () => {
   });
 
   it(`${N} parallel sends of one load with one Idempotency-Key load once; every answer is that load or "in progress"`, async () => {
-    const epoxy = await createTwoPart({ potLifeMinutes: 240 });
-    const station = await createStation({ kind: `keyed ${sfx()}` });
-    const model = await createModel({
-      steps: [{ name: 'Glue coil', stationKind: station.kind, materials: [{ materialId: epoxy.resin.id, amountPerUnit: 1 }] }],
-    });
-    const batch = await createBatch({ modelId: model.id, quantity: 2 });
+    const { epoxy, station, batch } = await gluingStep('keyed', 'Glue coil');
     const lot = await createLot({ materialId: epoxy.resin.id, quantity: 200 });
     const key = `keyed-${sfx()}`;
     const results = await Promise.all(
@@ -242,12 +238,7 @@ describe('a load checks again when its container changes in between', () => {
   });
 
   it('a container emptied while its load waits is refused as empty, and nothing is loaded', async () => {
-    const epoxy = await createTwoPart({ potLifeMinutes: 240 });
-    const station = await createStation({ kind: `empty ${sfx()}` });
-    const model = await createModel({
-      steps: [{ name: 'Glue cone', stationKind: station.kind, materials: [{ materialId: epoxy.resin.id, amountPerUnit: 1 }] }],
-    });
-    const batch = await createBatch({ modelId: model.id, quantity: 2 });
+    const { epoxy, station, batch } = await gluingStep('empty', 'Glue cone');
     const lot = await createLot({ materialId: epoxy.resin.id, quantity: 50, containerStatus: 'open', openedAt: minutesAgo(30) });
     const container = lot.containers[0];
     // Another transaction empties the container and holds its row until it commits; the load

@@ -8,6 +8,21 @@ import { expiryOfContainer, expiryOfMix } from './usability';
 
 type LoadRow = typeof stationLoads.$inferSelect;
 
+/** What a load of a container says of it: the container, its lot and material, and when it expires. */
+export function containerPart(c: ContainerContext, now: Date) {
+  const e = expiryOfContainer(c.container, c.lot, c.material, now);
+  return {
+    container: containerSummary(c.container),
+    mix: null,
+    lot: { id: c.lot.id, supplierLot: c.lot.supplierLot, status: c.lot.status },
+    material: materialSummary(c.material),
+    partMaterial: null,
+    partLot: null,
+    expiresAt: e.at,
+    expiryCause: e.cause,
+  } satisfies Partial<StationLoad>;
+}
+
 export function materialSummary(m: MaterialRow): LoadedMaterial {
   return {
     id: m.id,
@@ -71,21 +86,7 @@ export async function describeLoads(tx: DbOrTx, rows: LoadRow[], now: Date): Pro
       loadedAt: r.loadedAt.toISOString(),
       loadedBy: r.loadedBy,
     };
-    if (r.containerId) {
-      const c = cs.get(r.containerId)!;
-      const e = expiryOfContainer(c.container, c.lot, c.material, now);
-      return {
-        ...base,
-        container: containerSummary(c.container),
-        mix: null,
-        lot: { id: c.lot.id, supplierLot: c.lot.supplierLot, status: c.lot.status },
-        material: materialSummary(c.material),
-        partMaterial: null,
-        partLot: null,
-        expiresAt: e.at,
-        expiryCause: e.cause,
-      };
-    }
+    if (r.containerId) return { ...base, ...containerPart(cs.get(r.containerId)!, now) };
     const m = ms.get(r.mixId!)!;
     const e = expiryOfMix(m.mix, [m.resin, m.hardener]);
     return {

@@ -12,8 +12,8 @@ import { checkBatchOpen } from '../batches/progress';
 import type { LoadInput, LoadResult } from '../../../shared/schemas/station-loads';
 import type { RecipeStep } from '../../../shared/schemas/models';
 import { mixByCode, scannedContainerCode, unknownCode, type ContainerContext } from './context';
-import { checkContainerUsable, checkMixUsable, expiryOfContainer, type MaterialRow } from './usability';
-import { containerSummary, describeLoads, materialSummary } from './describe';
+import { checkContainerUsable, checkMixUsable, type MaterialRow } from './usability';
+import { containerPart, describeLoads } from './describe';
 import { stationKindWords } from '../../../shared/words';
 
 const kindWords = (kind: string) => stationKindWords(kind).toLowerCase();
@@ -391,7 +391,7 @@ async function tryLoad(
     // Described from what this request already holds (the container as opened just now), so
     // the answer for a new load is known before the write, which stores it with the load.
     const container = opened ? { ...c.container, status: 'open' as const, openedAt: now, updatedAt: now } : c.container;
-    const e = expiryOfContainer(container, c.lot, c.material, now);
+    const part = containerPart({ ...c, container }, now);
     const answer = (l: { id: string; loadedAt: Date; loadedBy: string | null }, alreadyLoaded: boolean): LoadResult => ({
       id: l.id,
       stationId: station.id,
@@ -399,14 +399,7 @@ async function tryLoad(
       batchCode: batch.code,
       loadedAt: l.loadedAt.toISOString(),
       loadedBy: l.loadedBy,
-      container: containerSummary(container),
-      mix: null,
-      lot: { id: c.lot.id, supplierLot: c.lot.supplierLot, status: c.lot.status },
-      material: materialSummary(c.material),
-      partMaterial: null,
-      partLot: null,
-      expiresAt: e.at,
-      expiryCause: e.cause,
+      ...part,
       accepted: true as const,
       step: stepRef,
       opened,
