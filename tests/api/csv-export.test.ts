@@ -331,6 +331,22 @@ describe('paging through more rows than one database page (1,000)', () => {
     expect(times.at(-1)).toBe(kathmandu(new Date(start + 60_000)));
   });
 
+  it('readings sharing one time (and one insert) across page ends come once each', async () => {
+    const area = `Tied hall ${sfx()}`;
+    // 1,200 readings at three times, 400 each, written together: equal time and equal creation
+    // time, told apart by id only — page ends fall inside the ties.
+    await db.execute(sql`
+      INSERT INTO readings (area, at, temp_c, source)
+      SELECT ${area}, '2025-07-01T00:00:00Z'::timestamptz + ((n % 3) || ' hours')::interval, n / 10.0, 'logger'
+      FROM generate_series(1, 1200) AS n`);
+    const csv = readCsv(await as('quality').get(`/api/readings?area=${encodeURIComponent(area)}&format=csv`), 'readings');
+    expect(csv.rows).toHaveLength(1200);
+    const temps = csv.rows.map((r) => r['Temperature (°C)']);
+    expect(new Set(temps).size).toBe(1200);
+    const times = csv.rows.map((r) => r[`Taken (plant time, ${ZONE})`]);
+    expect(times).toEqual([...times].sort().reverse());
+  });
+
   it('audit: 1,500 entries of one record follow the id downwards, none twice, none left out', async () => {
     const entityId = `bulk-${sfx()}`;
     await db.execute(sql`

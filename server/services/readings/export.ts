@@ -1,4 +1,4 @@
-import { count, eq } from 'drizzle-orm';
+import { and, count, eq, sql } from 'drizzle-orm';
 import type { ReadingQuery } from '../../../shared/schemas/readings';
 import { readingSourceWords } from '../../../shared/words';
 import { readings, stations, users } from '../../db/schema';
@@ -8,6 +8,8 @@ import { READINGS_ORDER, readingsWhere } from './index';
 
 interface ReadingRow {
   at: Date;
+  /** Where the next page starts: the row's sort key as the database has it (microseconds kept). */
+  key: { at: string; createdAt: string; id: string };
   area: string | null;
   stationCode: string | null;
   stationName: string | null;
@@ -22,10 +24,13 @@ const num = (v: string | null) => (v === null ? '' : Number(v));
 
 /**
  * GET /api/readings?format=csv: every reading the same filters select (area or station, period),
- * newest first: not only the newest `limit` the JSON list answers with.
+ * newest first: not only the newest `limit` the JSON list answers with. Each page starts after
+ * the last row of the one before (by the list's own order), so a year of readings is read once
+ * instead of again up to every page's offset.
  */
 export function exportReadingsCsv(query: ReadingQuery, sink: CsvSink, now = new Date()): Promise<void> {
   const where = readingsWhere(query);
+  let after: ReadingRow['key'] | null = null;
   return exportList<ReadingRow>(
     sink,
     {
@@ -42,10 +47,15 @@ export function exportReadingsCsv(query: ReadingQuery, sink: CsvSink, now = new 
         'Recorded by',
       ],
       count: async (tx) => (await tx.select({ n: count() }).from(readings).where(where))[0].n,
-      fetchPage: (tx, offset, limit) =>
-        tx
+      fetchPage: async (tx, _offset, limit) => {
+        const rows = await tx
           .select({
             at: readings.at,
+            key: {
+              at: sql<string>`${readings.at}::text`,
+              createdAt: sql<string>`${readings.createdAt}::text`,
+              id: readings.id,
+            },
             area: readings.area,
             stationCode: stations.code,
             stationName: stations.name,
@@ -58,10 +68,20 @@ export function exportReadingsCsv(query: ReadingQuery, sink: CsvSink, now = new 
           .from(readings)
           .leftJoin(stations, eq(stations.id, readings.stationId))
           .leftJoin(users, eq(users.id, readings.recordedBy))
-          .where(where)
+          .where(
+            after
+              ? and(
+                  where,
+                  // READINGS_ORDER is (at, created_at, id), all descending.
+                  sql`(${readings.at}, ${readings.createdAt}, ${readings.id}) < (${after.at}::timestamptz, ${after.createdAt}::timestamptz, ${after.id}::uuid)`,
+                )
+              : where,
+          )
           .orderBy(...READINGS_ORDER)
-          .limit(limit)
-          .offset(offset),
+          .limit(limit);
+        after = rows.at(-1)?.key ?? after;
+        return rows;
+      },
       toRow: (r) => [
         exportTime(r.at),
         r.area ?? '',
