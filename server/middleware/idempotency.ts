@@ -165,19 +165,29 @@ export const idempotency: RequestHandler = async (req, res, next) => {
   }
 };
 
+/** What a handler that claims its own key answers when its claim found the key taken. */
+export const KEY_TAKEN = Symbol('the Idempotency-Key was taken');
+
 /**
- * A handler that claims its own key found it taken: claims it the usual way now (a key whose
- * first request died is taken over; then the handler runs after all: 'claimed'), or answers the
- * repeat — the first answer again, or why not (409, 422) as an error to throw: 'answered'.
+ * Runs a handler of a CLAIMED_BY_HANDLER route. When its claim found the key taken, the key is
+ * claimed the usual way now: a key whose first request died is taken over and the handler runs
+ * after all; otherwise the repeat is answered here (the first answer again, or why not as an
+ * error: 409, 422) and this resolves to undefined, the response already sent.
  */
-export async function answerTakenKey(req: Request, res: Response, k: HandlerClaimedKey): Promise<'claimed' | 'answered'> {
+export async function runClaimingItself<T>(req: Request, res: Response, run: () => Promise<T | typeof KEY_TAKEN>): Promise<T | undefined> {
+  const first = await run();
+  if (first !== KEY_TAKEN) return first;
+  const k = req.idempotency!;
   const claim = await claimKey(k.actorId, k.key, k.method, k.path, k.requestHash);
-  if (claim.claimed) {
-    k.claimed = true;
-    return 'claimed';
+  if (!claim.claimed) {
+    answerRepeat(req, res, claim.first, k.path, k.requestHash);
+    return undefined;
   }
-  answerRepeat(req, res, claim.first, k.path, k.requestHash);
-  return 'answered';
+  k.claimed = true;
+  const again = await run();
+  if (again === KEY_TAKEN)
+    throw new AppError('IDEMPOTENCY_IN_PROGRESS', 'A request with this Idempotency-Key is running; send it again.', 409);
+  return again;
 }
 
 /** A repeat of a key already used: its first answer again, or an error saying why not. */

@@ -4,9 +4,8 @@ import { idParamsSchema, stationInputSchema, stationListQuerySchema, stationPatc
 import { loadInputSchema, stationLoadedQuerySchema, unloadInputSchema } from '../../shared/schemas/station-loads';
 import { mixInputSchema } from '../../shared/schemas/mixes';
 import { createStation, getStation, listStations, retireStation, updateStation } from '../services/stations';
-import { KEY_TAKEN, listLoaded, loadAtStation, unloadAtStation } from '../services/loading';
-import { answerTakenKey } from '../middleware/idempotency';
-import { AppError } from '../errors';
+import { listLoaded, loadAtStation, unloadAtStation } from '../services/loading';
+import { runClaimingItself } from '../middleware/idempotency';
 import { createMix } from '../services/mixes';
 
 export const stationsRouter = Router();
@@ -40,17 +39,10 @@ stationsRouter.post(
 
 stationsRouter.post(
   '/:id/load',
-  endpoint({ access: 'stations.load', params: idParamsSchema, body: loadInputSchema }, async ({ actor, params, body, req, res }) => {
+  endpoint({ access: 'stations.load', params: idParamsSchema, body: loadInputSchema }, ({ actor, params, body, req, res }) =>
     // The load claims its Idempotency-Key in its first statement (server/middleware/idempotency.ts).
-    const result = await loadAtStation(actor, params.id, body, req.idempotency);
-    if (result !== KEY_TAKEN) return result;
-    if ((await answerTakenKey(req, res, req.idempotency!)) === 'answered') return undefined;
-    // A key whose first request died was taken over: the load runs after all.
-    const again = await loadAtStation(actor, params.id, body, req.idempotency);
-    if (again === KEY_TAKEN)
-      throw new AppError('IDEMPOTENCY_IN_PROGRESS', 'A request with this Idempotency-Key is running; send it again.', 409);
-    return again;
-  }),
+    runClaimingItself(req, res, () => loadAtStation(actor, params.id, body, req.idempotency)),
+  ),
 );
 
 stationsRouter.get(

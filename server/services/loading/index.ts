@@ -1,4 +1,4 @@
-export { KEY_TAKEN, loadAtStation, stepAtStation } from './load';
+export { loadAtStation, stepAtStation } from './load';
 export { unloadAtStation } from './unload';
 export { listLoaded, describeLoads, materialSummary } from './describe';
 export { containerByCode, containersByIds, mixByCode, mixesByIds } from './context';

@@ -6,7 +6,7 @@ import { containers, drivers, lots, materials, type stationLoads } from '../../d
 import { rowFromJson, rowJson } from '../../db/row-json';
 import { AppError, conflict, notFound } from '../../errors';
 import type { Actor } from '../auth/actor';
-import type { HandlerClaimedKey } from '../../middleware/idempotency';
+import { KEY_TAKEN, type HandlerClaimedKey } from '../../middleware/idempotency';
 import { requirePermission } from '../auth/actor';
 import { checkBatchOpen } from '../batches/progress';
 import type { LoadInput, LoadResult } from '../../../shared/schemas/station-loads';
@@ -64,9 +64,6 @@ interface ContextValues {
   idemPath: string | null;
   idemHash: string | null;
 }
-
-/** What loadAtStation answers when the request's Idempotency-Key was already taken. */
-export const KEY_TAKEN = Symbol('the Idempotency-Key was taken');
 
 const contextStatement = (name: string, lock: boolean) =>
   namedStatement<ContextValues, LoadContextRow>(
@@ -238,8 +235,9 @@ const loadWriteStatement = namedStatement<LoadWriteValues, LoadWriteRow>(
       FROM inserted i JOIN step_runs sr ON sr.batch_id = i.batch_id AND sr.station_id = i.station_id AND sr.finished_at IS NULL
     )
     SELECT go.ok, (SELECT count(*) FROM stored)::int AS stored,
-           json_build_object('id', l.id, 'stationId', l.station_id, 'batchId', l.batch_id, 'containerId', l.container_id, 'mixId', l.mix_id,
-                             'loadedAt', l.loaded_at, 'loadedBy', l.loaded_by, 'unloadedAt', l.unloaded_at) AS load,
+           CASE WHEN l.id IS NOT NULL THEN
+             json_build_object('id', l.id, 'stationId', l.station_id, 'batchId', l.batch_id, 'containerId', l.container_id, 'mixId', l.mix_id,
+                               'loadedAt', l.loaded_at, 'loadedBy', l.loaded_by, 'unloadedAt', l.unloaded_at) END AS load,
            l.inserted
     FROM go LEFT JOIN (SELECT *, true AS inserted FROM inserted UNION ALL SELECT *, false FROM existing) l ON true`,
 );
