@@ -11,6 +11,7 @@ import { logger } from './logger';
 /** Starts the HTTP server (API and built client) on 127.0.0.1:PORT. */
 export async function startServer(options: { serveClient?: boolean; port?: number } = {}): Promise<Server> {
   const { createApp } = await import('./app');
+  const { httpServerFor } = await import('./http-server');
   const { startSessionCache } = await import('./services/auth/session-cache');
   const app = createApp({ serveClient: options.serveClient ?? true });
   // Not awaited: the server listens at once; until the cache listens (or while the database is
@@ -18,7 +19,7 @@ export async function startServer(options: { serveClient?: boolean; port?: numbe
   void startSessionCache();
   const port = options.port ?? config.port;
   return new Promise((resolve, reject) => {
-    const server = app.listen(port, config.host, () => resolve(server));
+    const server = httpServerFor(app).listen(port, config.host, () => resolve(server));
     server.on('error', reject);
   });
 }

@@ -23,6 +23,7 @@
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
 import { createApp, type AppOptions } from '../../server/app';
+import { httpServerFor } from '../../server/http-server';
 import { migrateTestDatabase } from './db';
 
 export interface TestApp {
@@ -41,7 +42,7 @@ export async function startApp(options: AppOptions = {}): Promise<TestApp> {
 /** Listens with any Express app (e.g. one built from freshly imported modules) on a free port. */
 export function listen(app: ReturnType<typeof createApp>): Promise<TestApp> {
   return new Promise((resolve, reject) => {
-    const server = app.listen(0, '127.0.0.1', () => {
+    const server = httpServerFor(app).listen(0, '127.0.0.1', () => {
       const { port } = server.address() as AddressInfo;
       resolve({
         baseUrl: `http://127.0.0.1:${port}`,
