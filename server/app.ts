@@ -9,6 +9,7 @@ import { errorHandler, notFoundApi } from './middleware/errors';
 import { apiRouter } from './routes';
 import { serveClient } from './static';
 import { requestLogger } from './logger';
+import { fixedHeaders, helmetOptions } from './middleware/security-headers';
 
 export interface AppOptions {
   /** Serve the built client from dist/ (production). */
@@ -24,24 +25,7 @@ export function createApp(options: AppOptions = {}): Express {
   app.set('etag', false);
   // X-Forwarded-For is believed only from a proxy the operator named (TACKLOG_TRUST_PROXY).
   app.set('trust proxy', config.trustProxy);
-  app.use(
-    helmet({
-      contentSecurityPolicy: {
-        useDefaults: true,
-        directives: {
-          // Everything is bundled: no source outside this origin.
-          'default-src': ["'self'"],
-          'img-src': ["'self'", 'data:', 'blob:'],
-          'media-src': ["'self'", 'data:', 'blob:'],
-          'style-src': ["'self'", "'unsafe-inline'"],
-          'script-src': ["'self'"],
-          'connect-src': ["'self'"],
-          'upgrade-insecure-requests': null,
-        },
-      },
-      crossOriginEmbedderPolicy: false,
-    }),
-  );
+  app.use(fixedHeaders(helmet(helmetOptions)));
   app.use(requestLogger);
   app.use(cookieParser());
   app.use('/api', sameOriginOnly, jsonBodiesOnly, express.json({ limit: '1mb' }), attachActor, idempotency, apiRouter, notFoundApi);
