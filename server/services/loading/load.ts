@@ -454,3 +454,10 @@ async function tryLoad(
   );
   return { ...described, accepted: true as const, step: stepRef, opened: false, alreadyLoaded: !written.inserted };
 }
+
+/**
+ * The station load's two statements, as loadAtStation runs them (context with the key's claim,
+ * then the writes): for the benchmark's ceiling (scripts/bench/bare-express.ts), which runs them
+ * behind a bare Express route to show what the load's database work allows on a machine.
+ */
+export const loadStatementsForBenchmark = { context: loadContextStatement, write: writeLoad };
