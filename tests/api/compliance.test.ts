@@ -85,6 +85,30 @@ describe('compliance watch', () => {
     ids.expiredContainer = expired.containers[0].id;
     const soon = await createLot({ materialId: glue.id, expiresOn: ymd(new Date(Date.now() + 5 * 86_400_000)) });
     ids.soonLot = soon.id;
+    // The same, loaded at a station: critical, for the station's people too.
+    const expiredLoaded = await createLot({ materialId: glue.id, expiresOn: ymd(daysAgo(3)), receivedAt: daysAgo(100) });
+    await createStationLoad({ stationId: station.id, batchId: batch.id, containerId: expiredLoaded.containers[0].id });
+    ids.expiredLoaded = expiredLoaded.containers[0].id;
+
+    // Refrigerated adhesive with 8 h out of cold storage allowed (common practice: a total
+    // out-of-refrigeration time on the container's record): out now and past it; back in cold
+    // storage with the whole allowance used; out for five minutes of it (a candidate within the
+    // sweep's day of margin, which the exact computation clears); in cold storage with time to spare.
+    const cold = await createMaterial({ name: 'Refrigerated cone adhesive', storageClass: 'refrigerated' });
+    await db.update(materials).set({ outOfStorageAllowanceHours: 8 }).where(eq(materials.id, cold.id));
+    const coldLot = await createLot({ materialId: cold.id, containers: 4, containerStatus: 'open', openedAt: hoursAgo(30) });
+    const [outNow, usedUp, outWithTime, inStore] = coldLot.containers;
+    await db
+      .update(containers)
+      .set({ outOfStorageMinutes: 300, outOfStorageSince: hoursAgo(4) })
+      .where(eq(containers.id, outNow.id));
+    await db.update(containers).set({ outOfStorageMinutes: 480, outOfStorageSince: null }).where(eq(containers.id, usedUp.id));
+    await db
+      .update(containers)
+      .set({ outOfStorageMinutes: 0, outOfStorageSince: minutesAgo(5) })
+      .where(eq(containers.id, outWithTime.id));
+    await db.update(containers).set({ outOfStorageMinutes: 120, outOfStorageSince: null }).where(eq(containers.id, inStore.id));
+    Object.assign(ids, { coldOutNow: outNow.id, coldUsedUp: usedUp.id, coldOutWithTime: outWithTime.id, coldInStore: inStore.id });
 
     // Low stock against a reorder point.
     const wire = await createMaterial({ name: 'Lead wire', kind: 'wire', unit: 'm' });
@@ -146,6 +170,19 @@ describe('compliance watch', () => {
     await expectKind(ids.shortRun, 'short_cure');
     const expired = await expectKind(ids.expiredContainer, 'expired_in_stock');
     expect(expired.message).toMatch(/supplier's expiry date/);
+    expect(expired.severity).toBe('warning');
+    const loaded = await expectKind(ids.expiredLoaded, 'expired_in_stock');
+    expect(loaded.severity).toBe('critical');
+    expect(loaded.message).toMatch(/loaded at a station/);
+    // Out of cold storage since 4 h with 5 h used before: the 8 h ran out an hour ago.
+    const outNow = await expectKind(ids.coldOutNow, 'expired_in_stock');
+    expect((outNow.data as unknown as { cause: string }).cause).toBe('out_of_storage');
+    const expiredAt = Date.parse((outNow.data as unknown as { expiredAt: string }).expiredAt);
+    expect(Math.abs(expiredAt - (Date.now() - 3600_000))).toBeLessThan(120_000);
+    expect((await expectKind(ids.coldUsedUp, 'expired_in_stock')).data).toMatchObject({ cause: 'out_of_storage' });
+    for (const fine of [ids.coldOutWithTime, ids.coldInStore]) {
+      expect((await liveAlertsFor(fine)).map((a) => a.kind)).not.toContain('expired_in_stock');
+    }
     await expectKind(ids.soonLot, 'expiring_soon');
     await expectKind(ids.lowMaterial, 'below_reorder_point');
     await expectKind(ids.certLot, 'quarantine_advised');

@@ -148,8 +148,15 @@ export async function shortCures(tx: DbOrTx, now: Date): Promise<Finding[]> {
 /** Containers still in stock (or loaded) past their effective expiry. */
 export async function expiredInStock(tx: DbOrTx, now: Date): Promise<Finding[]> {
   const soon = new Date(now.getTime() + 86_400_000);
+  const allowanceMinutes = sql`${materials.outOfStorageAllowanceHours} * 60`;
   const rows = await tx
-    .select({ c: containers, l: lots, m: materials })
+    .select({
+      c: containers,
+      l: lots,
+      m: materials,
+      // Only the candidates are asked whether they are loaded (the open-loads index), not every open load read.
+      loaded: sql<boolean>`EXISTS (SELECT 1 FROM ${stationLoads} sl WHERE sl.container_id = ${containers.id} AND sl.unloaded_at IS NULL)`,
+    })
     .from(containers)
     .innerJoin(lots, eq(lots.id, containers.lotId))
     .innerJoin(materials, eq(materials.id, lots.materialId))
@@ -160,22 +167,22 @@ export async function expiredInStock(tx: DbOrTx, now: Date): Promise<Finding[]> 
         gt(containers.remaining, '0'),
         // Only containers that may have expired by now: a superset (a day's margin), so the exact
         // computation below (shared/expiry) still decides, on a handful of rows, not every one in stock.
+        // Out of cold storage: out now and the allowance left runs out by then, or already used up.
         sql`(${lotExpirySql(PLANT_ZONE)} <= ${soon}
           OR (${containers.openedAt} IS NOT NULL AND ${materials.openLifeHours} IS NOT NULL
               AND ${containers.openedAt} + make_interval(hours => ${materials.openLifeHours}) <= ${soon})
           OR (${containers.thawedAt} IS NOT NULL AND ${materials.thawedLifeHours} IS NOT NULL
               AND ${containers.thawedAt} + make_interval(hours => ${materials.thawedLifeHours}) <= ${soon})
-          OR (${materials.outOfStorageAllowanceHours} IS NOT NULL AND ${materials.storageClass} <> 'ambient'))`,
+          OR (${materials.outOfStorageAllowanceHours} IS NOT NULL AND ${materials.storageClass} <> 'ambient'
+              AND ((${containers.outOfStorageSince} IS NOT NULL
+                    AND ${containers.outOfStorageSince} + make_interval(mins => ${allowanceMinutes} - ${containers.outOfStorageMinutes}) <= ${soon})
+                   OR (${containers.outOfStorageSince} IS NULL AND ${containers.outOfStorageMinutes} >= ${allowanceMinutes}))))`,
       ),
     );
-  const loaded = new Set(
-    (await tx.select({ id: stationLoads.containerId }).from(stationLoads).where(isNull(stationLoads.unloadedAt))).map((r) => r.id),
-  );
   const out: Finding[] = [];
-  for (const { c, l, m } of rows) {
+  for (const { c, l, m, loaded: isLoaded } of rows) {
     const exp = containerExpiryOf(c, l, m, now);
     if (!exp.at || new Date(exp.at) > now) continue;
-    const isLoaded = loaded.has(c.id);
     out.push({
       kind: 'expired_in_stock',
       severity: isLoaded ? 'critical' : 'warning',
