@@ -42,12 +42,11 @@ export async function buildServerIfStale(): Promise<void> {
 
 /**
  * The old-generation cap of each server process, in MB (TACKLOG_HEAP_MB; none by default).
- * Uncapped, V8 lets a busy worker's heap grow to ~220–260 MB RSS although what it keeps alive is
- * a few tens of MB; with any cap (96 to 192 MB alike) it collects far more often and stays
- * ~125 MB under the benchmark's load — but lookups lose about a tenth of their rate and their p99
- * doubles (13 → 20–30 ms), and the driver trace's p95 grows, from the extra full collections.
- * So it is the operator's choice where memory is tighter than time; a report far larger than
- * the plant's usual ones may need a higher cap.
+ * Uncapped, a server process stays at ~130 MB under the benchmark's scan loads (requests leave
+ * no garbage in the old generation since server/http-server.ts, and the compliance sweep reads
+ * only its candidates); a cap makes V8 collect more often for the same work — lookups ~15 %
+ * slower with 192 MB — so it is only for a machine where memory is tighter than time. A report
+ * far larger than the plant's usual ones may need a higher cap.
  */
 export function heapCapMb(): number | null {
   const raw = process.env.TACKLOG_HEAP_MB;
@@ -61,7 +60,7 @@ export function heapCapMb(): number | null {
 /**
  * How to run the server: the built JS (with source maps for stack traces). A young generation of
  * 4 MB semi-spaces instead of V8's 16 MB: a request's garbage dies young either way, and each
- * process (cluster workers inherit the flags) stays ~40 MB smaller under load at no measurable
+ * process (cluster workers inherit the flags) stays ~20 MB smaller under load at no measurable
  * cost in throughput (`npm run bench`); the old generation capped only when asked (heapCapMb).
  */
 export function serverCommand(): [string, string[]] {
