@@ -401,20 +401,6 @@ runMain(async () => {
   // The lookups' codes: containers no load phase takes (those come from the front of the list).
   const lookupCodes = station.codes.slice(-lookupCount);
   const freshCodes = station.codes.slice(0, -lookupCount);
-  const ceiling = await measureCeilings(
-    url,
-    { actorIds: assemblerIds, stationIds: station.stationIds, batchIds: station.batchIds },
-    { fresh: freshCodes, lookup: lookupCodes },
-    clients,
-    warmupSeconds,
-    seconds,
-  );
-  log(
-    `bare Express, one process: a load's statements ${ceiling.load.perSec.toFixed(0)}/s, the lookup's statement ${ceiling.lookup.perSec.toFixed(0)}/s, a reading's write ${ceiling.reading.perSec.toFixed(0)}/s, echo ${ceiling.echo.perSec.toFixed(0)}/s`,
-  );
-  for (const [what, r] of Object.entries(ceiling))
-    if (r.errors) throw new Error(`bare Express ${what}: ${r.errors} failed requests; the first: ${r.firstError}`);
-
   const jwtSecret = crypto.randomBytes(32).toString('hex');
 
   // ---------------------------------------------------------------- load phases (scan, lookup, reading)
@@ -512,20 +498,29 @@ runMain(async () => {
   const lotSql = await timeEach(lotIds, bareLot);
   const floor = summary(await timeEach(serials, () => apiGet('/api/auth/me')));
 
+  const memoryNow = () => {
+    const m = treeMemoryMb(one.child.pid!);
+    return `${m.rss.toFixed(0)} MB (proportional share ${m.pss.toFixed(0)} MB)`;
+  };
+  log(`server memory after the traces: ${memoryNow()}`);
   log("compliance sweep: three full sweeps (the first raises the history's alerts)");
+  const raisedBySweep: number[] = [];
   const sweeps = await timeEach([1, 2, 3], async () => {
     const res = await fetch(`${one.base}/api/compliance/run`, { method: 'POST', headers });
     if (res.status !== 200) throw new Error(`compliance run: ${res.status} ${await res.text()}`);
-    const r = (await res.json()) as { ran: boolean };
+    const r = (await res.json()) as { ran: boolean; raised: number; resolved: number };
     if (!r.ran) throw new Error('the compliance sweep did not run (its lock was taken)');
+    raisedBySweep.push(r.raised);
   });
 
+  log(`server memory after the sweeps (alerts raised: ${raisedBySweep.join(', ')}): ${memoryNow()}`);
   log('first page: a fresh Chromium opens /');
   const firstPage = await measureFirstPage(one.base);
 
   log(
     `load at ${clients} clients (wrk), TACKLOG_WORKERS=1: station scans, scan lookups, readings (${seconds} s each after ${warmupSeconds} s warm-up)`,
   );
+  log(`server memory before the load phases: ${memoryNow()}`);
   const at1 = await loadPhases(one, assemblers);
   await one.stop();
 
@@ -537,6 +532,21 @@ runMain(async () => {
     atN = await loadPhases(many, assemblers);
     await many.stop();
   }
+
+  // The ceilings last, on the database as the app's phases left it (not just after seeding).
+  const ceiling = await measureCeilings(
+    url,
+    { actorIds: assemblerIds, stationIds: station.stationIds, batchIds: station.batchIds },
+    { fresh: freshCodes, lookup: lookupCodes },
+    clients,
+    warmupSeconds,
+    seconds,
+  );
+  log(
+    `bare Express, one process: a load's statements ${ceiling.load.perSec.toFixed(0)}/s, the lookup's statement ${ceiling.lookup.perSec.toFixed(0)}/s, a reading's write ${ceiling.reading.perSec.toFixed(0)}/s, echo ${ceiling.echo.perSec.toFixed(0)}/s`,
+  );
+  for (const [what, r] of Object.entries(ceiling))
+    if (r.errors) throw new Error(`bare Express ${what}: ${r.errors} failed requests; the first: ${r.firstError}`);
 
   // ---------------------------------------------------------------- report
   const d = { api: summary(driverApi), sql: summary(driverSql) };
