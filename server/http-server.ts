@@ -27,7 +27,8 @@ function classesFor(app: Express): http.ServerOptions {
     // What Express made for this app: Object.create(express.request, { app }) (and any property
     // added to it since); the same chain and properties, on the class's prototype.
     Object.setPrototypeOf(proto, Object.getPrototypeOf(current) as object);
-    Object.defineProperties(proto, Object.getOwnPropertyDescriptors(current));
+    const { constructor: _constructor, ...own } = Object.getOwnPropertyDescriptors(current);
+    Object.defineProperties(proto, own);
   };
   adopt(AppRequest.prototype, app.request);
   adopt(AppResponse.prototype, app.response);

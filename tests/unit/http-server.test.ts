@@ -57,6 +57,20 @@ describe('httpServerFor', () => {
     });
   });
 
+  it('serves the same app from a second server (as a test that listens again would)', async () => {
+    const second = httpServerFor(app);
+    await new Promise<void>((resolve) => second.listen(0, '127.0.0.1', () => resolve()));
+    try {
+      const port = (second.address() as AddressInfo).port;
+      for (const url of [`http://127.0.0.1:${port}/probe`, `${base}/probe`]) {
+        const res = await fetch(url, { headers: { 'X-Probe': 'second' } });
+        expect(await res.json()).toMatchObject({ header: 'second', sameApp: true, protoIsApps: true });
+      }
+    } finally {
+      await new Promise((resolve) => second.close(resolve));
+    }
+  });
+
   it('reads a JSON body and answers with send', async () => {
     const res = await fetch(`${base}/echo`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{"code":"TLC-1"}' });
     expect(await res.json()).toEqual({ got: { code: 'TLC-1' } });
