@@ -214,6 +214,25 @@ describe('GET /api/alerts?format=csv', () => {
       Detail: 'Expires in 3 days, 2 containers',
     });
   });
+
+  it('alerts sharing one raised time (and one insert) across page ends come once each, newest first', async () => {
+    const tag = `tied ${sfx()}`;
+    // 1,200 alerts at three raised times, 400 each, written together: page ends (1,000 rows a
+    // page) fall inside a tie, which only the id breaks.
+    await db.execute(sql`
+      INSERT INTO alerts (kind, severity, subject_type, subject_id, message, audience, raised_at)
+      SELECT 'lamp_check_due', 'info', 'station', gen_random_uuid()::text, ${tag} || ' #' || n, '{quality}',
+             '2025-07-01T00:00:00Z'::timestamptz + ((n % 3) || ' hours')::interval
+      FROM generate_series(1, 1200) AS n`);
+    const json = await allPages<{ message: string }>('quality', '/api/alerts?kind=lamp_check_due', 500);
+    const csv = readCsv(await as('quality').get('/api/alerts?kind=lamp_check_due&format=csv'), 'alerts');
+    expect(csv.rows).toHaveLength(json.length);
+    const tied = csv.rows.map((r) => r.Message).filter((m) => m.startsWith(tag));
+    expect(tied).toHaveLength(1200);
+    expect(new Set(tied).size).toBe(1200);
+    const raised = csv.rows.map((r) => r[`Raised (plant time, ${ZONE})`]);
+    expect(raised).toEqual([...raised].sort().reverse());
+  });
 });
 
 describe('GET /api/batches?format=csv', () => {

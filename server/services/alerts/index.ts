@@ -1,4 +1,4 @@
-import { and, arrayOverlaps, count, desc, eq, inArray, ne } from 'drizzle-orm';
+import { and, arrayOverlaps, count, desc, eq, inArray, ne, type SQL } from 'drizzle-orm';
 import { db, type DbOrTx } from '../../db/client';
 import { alerts, users } from '../../db/schema';
 import { conflict, notFound } from '../../errors';
@@ -13,7 +13,7 @@ import { mailQueued } from '../mail/worker';
 type AlertRow = typeof alerts.$inferSelect;
 
 /** Names of the people who acknowledged or resolved these alerts, by user id. */
-async function namesOf(tx: DbOrTx, rows: AlertRow[]): Promise<Map<string, string>> {
+export async function namesOf(tx: DbOrTx, rows: AlertRow[]): Promise<Map<string, string>> {
   const ids = [...new Set(rows.flatMap((r) => [r.acknowledgedBy, r.resolvedBy]).filter((id): id is string => !!id))];
   if (!ids.length) return new Map();
   const found = await tx.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, ids));
@@ -44,21 +44,35 @@ export function toAlert(r: AlertRow, names: ReadonlyMap<string, string> = new Ma
   };
 }
 
-/** Alerts for the roles the actor holds (an administrator sees all), newest first. */
-export async function listAlerts(
-  actor: Actor,
-  query: Pick<AlertListQuery, 'state' | 'kind' | 'severity' | 'limit' | 'offset'>,
-  tx: DbOrTx = db,
-): Promise<{ items: Alert[]; total: number }> {
+/** The list's filters and the actor's reach (their roles' alerts; all for an administrator), shared with the CSV. */
+export function alertsWhere(actor: Actor, query: Pick<AlertListQuery, 'state' | 'kind' | 'severity'>): SQL | undefined {
   const filters = [];
   if (query.state === 'live') filters.push(ne(alerts.state, 'resolved'));
   else if (query.state) filters.push(eq(alerts.state, query.state));
   if (query.kind) filters.push(eq(alerts.kind, query.kind));
   if (query.severity) filters.push(eq(alerts.severity, query.severity));
   if (!can(actor.roles, 'alerts.readAll')) filters.push(arrayOverlaps(alerts.audience, actor.roles));
-  const where = filters.length ? and(...filters) : undefined;
+  return filters.length ? and(...filters) : undefined;
+}
+
+/** Newest first; the id breaks ties. */
+export const ALERTS_ORDER = [desc(alerts.raisedAt), alerts.id];
+
+/** Alerts for the roles the actor holds (an administrator sees all), newest first. */
+export async function listAlerts(
+  actor: Actor,
+  query: Pick<AlertListQuery, 'state' | 'kind' | 'severity' | 'limit' | 'offset'>,
+  tx: DbOrTx = db,
+): Promise<{ items: Alert[]; total: number }> {
+  const where = alertsWhere(actor, query);
   const [rows, [{ n }]] = await Promise.all([
-    tx.select().from(alerts).where(where).orderBy(desc(alerts.raisedAt), alerts.id).limit(query.limit).offset(query.offset),
+    tx
+      .select()
+      .from(alerts)
+      .where(where)
+      .orderBy(...ALERTS_ORDER)
+      .limit(query.limit)
+      .offset(query.offset),
     tx.select({ n: count() }).from(alerts).where(where),
   ]);
   const names = await namesOf(tx, rows);
