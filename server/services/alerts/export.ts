@@ -8,6 +8,9 @@ import type { Actor } from '../auth/actor';
 import { exportList, exportTime, timeHeader } from '../exports';
 import { ALERTS_ORDER, alertsWhere, namesOf, toAlert } from './index';
 
+/** An alert with where the next page starts: its raised time as the database has it (microseconds kept) and its id. */
+type AlertWithKey = Alert & { key: { raisedAt: string; id: string } };
+
 /**
  * GET /api/alerts?format=csv: every alert the same filters list for this person (their roles'
  * alerts; all for an administrator), newest first, in words. Each page starts after the last
@@ -16,9 +19,7 @@ import { ALERTS_ORDER, alertsWhere, namesOf, toAlert } from './index';
  */
 export function exportAlertsCsv(actor: Actor, query: AlertListQuery, sink: CsvSink, now = new Date()): Promise<void> {
   const where = alertsWhere(actor, { state: query.state, kind: query.kind });
-  /** The last row written: its raised time as the database has it (microseconds kept) and its id. */
-  let after: { raisedAt: string; id: string } | null = null;
-  return exportList<Alert>(
+  return exportList<AlertWithKey>(
     sink,
     {
       list: 'alerts',
@@ -38,7 +39,8 @@ export function exportAlertsCsv(actor: Actor, query: AlertListQuery, sink: CsvSi
         'Resolution',
       ],
       count: async (tx) => (await tx.select({ n: count() }).from(alerts).where(where))[0].n,
-      fetchPage: async (tx, _offset, limit) => {
+      fetchPage: async (tx, { last }, limit) => {
+        const after = last?.key;
         const rows = await tx
           .select({ ...getTableColumns(alerts), keyRaisedAt: sql<string>`${alerts.raisedAt}::text` })
           .from(alerts)
@@ -53,10 +55,8 @@ export function exportAlertsCsv(actor: Actor, query: AlertListQuery, sink: CsvSi
           )
           .orderBy(...ALERTS_ORDER)
           .limit(limit);
-        const last = rows.at(-1);
-        if (last) after = { raisedAt: last.keyRaisedAt, id: last.id };
         const names = await namesOf(tx, rows);
-        return rows.map(({ keyRaisedAt: _key, ...row }) => toAlert(row, names));
+        return rows.map(({ keyRaisedAt, ...row }) => ({ ...toAlert(row, names), key: { raisedAt: keyRaisedAt, id: row.id } }));
       },
       toRow: (a) => [
         exportTime(a.raisedAt),

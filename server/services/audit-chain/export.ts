@@ -14,8 +14,6 @@ import { countAudit, listAudit } from './index';
 export function exportAuditCsv(actor: Actor, query: AuditQuery, sink: CsvSink, now = new Date()): Promise<void> {
   requirePermission(actor, 'audit.read');
   const filters: AuditQuery = { ...query, cursor: undefined };
-  // Pages follow the id downwards (the list's own cursor): no offset to skip over.
-  let cursor: number | undefined;
   return exportList<AuditItem>(
     sink,
     {
@@ -36,11 +34,8 @@ export function exportAuditCsv(actor: Actor, query: AuditQuery, sink: CsvSink, n
         'Seal of the entry before',
       ],
       count: (tx) => countAudit(filters, tx),
-      fetchPage: async (tx, _offset, limit) => {
-        const page = await listAudit(actor, { ...filters, cursor, limit }, tx);
-        cursor = page.items.at(-1)?.id;
-        return page.items;
-      },
+      // Pages follow the id downwards (the list's own cursor): no offset to skip over.
+      fetchPage: async (tx, { last }, limit) => (await listAudit(actor, { ...filters, cursor: last?.id, limit }, tx)).items,
       toRow: (e) => [
         e.id,
         exportTime(e.at),

@@ -39,7 +39,7 @@ export function exportBatchesCsv(query: BatchListQuery, sink: CsvSink, now = new
         timeHeader('Completed'),
       ],
       count: async (tx) => (await listBatches({ ...filters, limit: 1, offset: 0 }, tx)).total,
-      fetchPage: async (tx, offset, limit) => withCreators(tx, (await listBatches({ ...filters, limit, offset }, tx)).items),
+      fetchPage: async (tx, { offset }, limit) => withCreators(tx, (await listBatches({ ...filters, limit, offset }, tx)).items),
       toRow: (b) => [
         b.code,
         b.modelCode,

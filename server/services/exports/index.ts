@@ -47,20 +47,31 @@ export function exportTime(value: string | Date | null | undefined): string {
 }
 
 /**
- * Pages through a list with `fetchPage(offset)` inside the snapshot and writes each page; stops
+ * Where the next page starts: after `offset` rows, or — for a list read by its own order — after
+ * `last`, the last row of the page before (undefined for the first page).
+ */
+export interface PageStart<T> {
+  offset: number;
+  last: T | undefined;
+}
+
+/**
+ * Pages through a list with `fetchPage(start)` inside the snapshot and writes each page; stops
  * at a short page. Returns the rows written.
  */
-export async function writeOffsetPages<T>(
+export async function writePages<T>(
   sink: CsvSink,
-  fetchPage: (offset: number) => Promise<readonly T[]>,
+  fetchPage: (start: PageStart<T>) => Promise<readonly T[]>,
   toRow: (item: T) => CsvCell[],
   pageRows = EXPORT_PAGE_ROWS,
 ): Promise<number> {
   let written = 0;
-  for (let offset = 0; ; offset += pageRows) {
-    const items = await fetchPage(offset);
+  let last: T | undefined;
+  for (;;) {
+    const items = await fetchPage({ offset: written, last });
     await sink.write(items.map(toRow));
     written += items.length;
+    last = items.at(-1) ?? last;
     if (items.length < pageRows) return written;
   }
 }
@@ -72,7 +83,8 @@ export interface ListExport<T> {
   what: string;
   header: readonly string[];
   count: (tx: Tx) => Promise<number>;
-  fetchPage: (tx: Tx, offset: number, limit: number) => Promise<readonly T[]>;
+  /** One page of `limit` rows from `start`: by offset, or after the last row of the page before. */
+  fetchPage: (tx: Tx, start: PageStart<T>, limit: number) => Promise<readonly T[]>;
   toRow: (item: T) => CsvCell[];
 }
 
@@ -81,6 +93,6 @@ export function exportList<T>(sink: CsvSink, spec: ListExport<T>, now: Date = ne
   return inExportSnapshot(async (tx) => {
     await checkExportSize(tx, await spec.count(tx), spec.what);
     sink.start(exportFileName(spec.list, now), spec.header);
-    await writeOffsetPages(sink, (offset) => spec.fetchPage(tx, offset, EXPORT_PAGE_ROWS), spec.toRow);
+    await writePages(sink, (start) => spec.fetchPage(tx, start, EXPORT_PAGE_ROWS), spec.toRow);
   });
 }

@@ -38,7 +38,7 @@ export function exportLotsCsv(query: LotListQuery, sink: CsvSink, now = new Date
         'Notes',
       ],
       count: async (tx) => (await listLots({ ...filters, limit: 1 }, now, tx)).total,
-      fetchPage: async (tx, offset, limit) => (await listLots({ ...filters, offset, limit }, now, tx)).items,
+      fetchPage: async (tx, { offset }, limit) => (await listLots({ ...filters, offset, limit }, now, tx)).items,
       toRow: (l) => [
         l.supplierLot,
         l.supplierName,

@@ -30,7 +30,6 @@ const num = (v: string | null) => (v === null ? '' : Number(v));
  */
 export function exportReadingsCsv(query: ReadingQuery, sink: CsvSink, now = new Date()): Promise<void> {
   const where = readingsWhere(query);
-  let after: ReadingRow['key'] | null = null;
   return exportList<ReadingRow>(
     sink,
     {
@@ -47,8 +46,9 @@ export function exportReadingsCsv(query: ReadingQuery, sink: CsvSink, now = new 
         'Recorded by',
       ],
       count: async (tx) => (await tx.select({ n: count() }).from(readings).where(where))[0].n,
-      fetchPage: async (tx, _offset, limit) => {
-        const rows = await tx
+      fetchPage: (tx, { last }, limit) => {
+        const after = last?.key;
+        return tx
           .select({
             at: readings.at,
             key: {
@@ -79,8 +79,6 @@ export function exportReadingsCsv(query: ReadingQuery, sink: CsvSink, now = new 
           )
           .orderBy(...READINGS_ORDER)
           .limit(limit);
-        after = rows.at(-1)?.key ?? after;
-        return rows;
       },
       toRow: (r) => [
         exportTime(r.at),
