@@ -5,7 +5,7 @@
  *  - POST /echo answers a small JSON object: what this machine allows an Express request before
  *    any work;
  *  - POST /ceiling/lookup runs the scan lookup's own statement (CONTAINER_BY_CODE, as a named
- *    prepared statement on a pool like the app's) and answers its row: what Express and
+ *    prepared statement on the app's pool) and answers its row: what Express and
  *    node-postgres allow a lookup on this machine before Tacklog does anything of its own;
  *  - POST /ceiling/reading writes a reading and its audit row in one statement, as the app's
  *    reading does: the same for a write of one round trip;
@@ -17,8 +17,6 @@
  */
 import crypto from 'node:crypto';
 import express from 'express';
-import pg from 'pg';
-import { PgDialect } from 'drizzle-orm/pg-core';
 import { httpServerFor } from '../../server/http-server';
 
 const app = express();
@@ -32,9 +30,11 @@ app.post('/echo', (req, res) => {
 const url = process.env.DATABASE_URL;
 const actorId = process.env.TACKLOG_BENCH_ACTOR_ID;
 if (url && actorId) {
-  const pool = new pg.Pool({ connectionString: url, max: 10 });
+  // The app's own pool (server/db/client, from DATABASE_URL) and named statements.
+  const { db, pool } = await import('../../server/db/client');
+  const { namedStatement } = await import('../../server/db/named');
   const { CONTAINER_BY_CODE } = await import('../../server/services/scans/resolvers/container');
-  const lookupText = new PgDialect().sqlToQuery(CONTAINER_BY_CODE).sql;
+  const lookup = namedStatement<{ code: string }, Record<string, unknown>>('ceiling_lookup', CONTAINER_BY_CODE);
   const readingText = `
     WITH saved AS (
       INSERT INTO readings (id, area, at, temp_c, rh_pct, source, recorded_by)
@@ -42,7 +42,6 @@ if (url && actorId) {
     )
     INSERT INTO audit_log (actor_id, action, entity_type, entity_id, after)
     SELECT $6::uuid, 'reading.record', 'reading', s.id::text, $7::jsonb FROM saved s`;
-  const { db } = await import('../../server/db/client');
   const { loadStatementsForBenchmark: load } = await import('../../server/services/loading/load');
   app.post('/ceiling/stations/:id/load', async (req, res, next) => {
     try {
@@ -92,9 +91,9 @@ if (url && actorId) {
   });
   app.post('/ceiling/lookup', async (req, res, next) => {
     try {
-      const r = await pool.query({ name: 'ceiling_lookup', text: lookupText, values: [(req.body as { code: string }).code] });
-      if (!r.rows[0]) res.status(404).json({ error: 'no such container' });
-      else res.json(r.rows[0]);
+      const [row] = await lookup(db, { code: (req.body as { code: string }).code });
+      if (!row) res.status(404).json({ error: 'no such container' });
+      else res.json(row);
     } catch (err) {
       next(err);
     }

@@ -10,18 +10,16 @@ import { spawn } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
-import { root, UserFacingError } from '../lib/proc';
-import { aptInstall } from '../lib/apt';
+import { root } from '../lib/proc';
+import { ensureDebianProgram } from '../lib/apt';
 import type { LoadResult } from './load';
 
 export const WRK = '/usr/bin/wrk';
 const SCRIPT = path.join(root, 'scripts', 'bench', 'phases.lua');
 
 /** Installs Debian's wrk when it is missing (as root; otherwise says the command). */
-export async function ensureWrk(): Promise<void> {
-  if (fs.existsSync(WRK)) return;
-  await aptInstall(['wrk'], `The benchmark's load phases need Debian's wrk at ${WRK}`);
-  if (!fs.existsSync(WRK)) throw new UserFacingError(`wrk was installed but ${WRK} is still missing.`);
+export function ensureWrk(): Promise<void> {
+  return ensureDebianProgram('wrk', WRK, "The benchmark's load phases");
 }
 
 export type Phase = 'load' | 'lookup' | 'reading' | 'echo' | 'ceiling-load' | 'ceiling-lookup' | 'ceiling-reading';

@@ -83,9 +83,17 @@ export async function aptInstall(packages: string[], why: string, alternative = 
 /** Debian's chromium, which the browser tests and the benchmark's first-page measurement drive. */
 export const CHROMIUM = '/usr/bin/chromium';
 
+/**
+ * Installs Debian's package `pkg` when the program `file` it brings is missing (as root;
+ * otherwise says the command). `why` says who needs it: "Browser tests".
+ */
+export async function ensureDebianProgram(pkg: string, file: string, why: string): Promise<void> {
+  if (fs.existsSync(file)) return;
+  await aptInstall([pkg], `${why} need Debian's ${pkg} at ${file}`);
+  if (!fs.existsSync(file)) throw new UserFacingError(`${pkg} was installed but ${file} is still missing.`);
+}
+
 /** Installs Debian's chromium when it is missing (as root; otherwise says the command). */
-export async function ensureChromium(why: string): Promise<void> {
-  if (fs.existsSync(CHROMIUM)) return;
-  await aptInstall(['chromium'], `${why} need Debian's chromium at ${CHROMIUM}`);
-  if (!fs.existsSync(CHROMIUM)) throw new UserFacingError(`chromium was installed but ${CHROMIUM} is still missing.`);
+export function ensureChromium(why: string): Promise<void> {
+  return ensureDebianProgram('chromium', CHROMIUM, why);
 }
