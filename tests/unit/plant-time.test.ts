@@ -1,4 +1,4 @@
-import { afterEach, describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it, vi } from 'vitest';
 import {
   formatDate,
   formatDateTime,
@@ -180,13 +180,11 @@ describe('plant time: greeting and input checks', () => {
   });
 
   describe('the machine zone never leaks', () => {
-    const saved = process.env.TZ;
     afterEach(() => {
-      if (saved === undefined) delete process.env.TZ;
-      else process.env.TZ = saved;
+      vi.unstubAllEnvs();
     });
     it('an ISO string without an offset is UTC, even on a machine set to UTC+14', () => {
-      process.env.TZ = 'Pacific/Kiritimati';
+      vi.stubEnv('TZ', 'Pacific/Kiritimati');
       expect(formatDateTime('2026-12-02T10:00:00', BERLIN)).toBe('2026-12-02 11:00');
       expect(formatDateTime('2026-12-02T10:00:00Z', 'UTC')).toBe('2026-12-02 10:00');
       expect(plantGreeting('UTC', '2026-12-02T10:00:00Z')).toBe('Good morning');
